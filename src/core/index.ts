@@ -1,0 +1,19 @@
+/**
+ * Public surface of the Ratchet core: pure TypeScript, no host APIs. Everything outside
+ * `src/core` imports from here only.
+ */
+export { RatchetError, fail, isRatchetError, type ErrorCode } from './errors.js';
+export type { Direction, DirectionOption, TieRule, CommonFitOptions } from './types.js';
+export { sortOrder } from './sort-order.js';
+export { poolTies, type PooledData } from './pool-ties.js';
+export { pavaSorted, type PavaResult } from './pava.js';
+export { averageRanks, spearman, resolveDirection } from './direction.js';
+export { isotonicRegression, type IsotonicFit } from './isotonic.js';
+export { evenKnots, quantileKnots, checkKnotCount, checkKnotPositions } from './knots.js';
+export { solveMonotoneTridiagonal, type MonotoneQpSolution } from './monotone-qp.js';
+export { knotRegression, type KnotFit, type KnotFitOptions } from './knot-fit.js';
+export { interpolate, interpolateAt, intervalIndex } from './interpolate.js';
+export { invertAt, invertChecked, checkKnotTable } from './invert.js';
+export { fitStatistics, type FitStatistics } from './statistics.js';
+export { fitMonotone, fitChecked, predict, checkKnotSpec, type ModelOptions, type MonotoneModel, type KnotSpec } from './model.js';
+export { finiteArray, weightArray, boundsPair, sameLength, type NumericInput } from './validate.js';
