@@ -1,0 +1,47 @@
+/**
+ * Shared helpers of the benchmark: timing, seeded data, and the result record.
+ * Benchmarks print times measured in one run on this machine; they are never timed tests.
+ */
+
+/** One line of output: `{case, n, knots, ms}` plus optional extra fields. */
+export interface BenchRecord {
+  case: string;
+  n: number;
+  knots: number | string;
+  ms: number;
+  [extra: string]: unknown;
+}
+
+/** Median wall time in milliseconds of `runs` calls of `fn` after one warm-up call. */
+export function timeMs(fn: () => unknown, runs = 5): number {
+  fn();
+  const times: number[] = [];
+  for (let r = 0; r < runs; r++) {
+    const t0 = performance.now();
+    fn();
+    times.push(performance.now() - t0);
+  }
+  times.sort((a, b) => a - b);
+  return times[Math.floor(times.length / 2)]!;
+}
+
+/** Deterministic uniform numbers in [0, 1) for benchmark data (a 32-bit LCG; not for statistics). */
+export function lcg(seed: number): () => number {
+  let s = seed >>> 0;
+  return () => {
+    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+    return s / 4294967296;
+  };
+}
+
+/** Random unsorted x in [0, 100) and a noisy rising y: the standard benchmark data set. */
+export function risingData(n: number, seed = 42): { x: Float64Array; y: Float64Array } {
+  const r = lcg(seed);
+  const x = new Float64Array(n);
+  const y = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    x[i] = 100 * r();
+    y[i] = Math.log1p(x[i]!) + (r() - 0.5) * 2;
+  }
+  return { x, y };
+}
