@@ -16,4 +16,4 @@ export { interpolate, interpolateAt, intervalIndex } from './interpolate.js';
 export { invertAt, invertChecked, checkKnotTable } from './invert.js';
 export { fitStatistics, type FitStatistics } from './statistics.js';
 export { fitMonotone, fitChecked, predict, checkKnotSpec, type ModelOptions, type MonotoneModel, type KnotSpec } from './model.js';
-export { finiteArray, weightArray, boundsPair, sameLength, type NumericInput } from './validate.js';
+export { finiteArray, finiteView, weightArray, boundsPair, sameLength, type NumericInput } from './validate.js';

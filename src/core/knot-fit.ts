@@ -2,11 +2,12 @@
  * The knot model: a monotone piecewise-linear curve through K knots, fitted by exact least squares.
  */
 import type { CommonFitOptions, Direction } from './types.js';
-import { boundsPair, finiteArray, sameLength, weightArray } from './validate.js';
+import { boundsPair, finiteView, sameLength, weightArray } from './validate.js';
 import { checkKnotCount, checkKnotPositions, evenKnots } from './knots.js';
 import { resolveDirection } from './direction.js';
 import { solveMonotoneTridiagonal } from './monotone-qp.js';
 import { fail } from './errors.js';
+import { intervalIndex } from './interpolate.js';
 
 /** Options of {@link knotRegression}. */
 export interface KnotFitOptions extends CommonFitOptions {
@@ -78,10 +79,10 @@ export interface KnotFit {
  * @example knotRegression([0, 1, 2, 3], [0, 2, 1, 3], { knots: 2 }).knotY // → Float64Array [0.3, 2.7]
  */
 export function knotRegression(x: ArrayLike<number>, y: ArrayLike<number>, options: KnotFitOptions): KnotFit {
-  const xs = finiteArray('x', x);
+  const xs = finiteView('x', x);
   sameLength('x', xs.length, 'y', y);
-  const ys = finiteArray('y', y);
-  const ws = weightArray(xs.length, options.weights);
+  const ys = finiteView('y', y);
+  const ws = options.weights === undefined ? null : weightArray(xs.length, options.weights);
   const [lower, upper] = boundsPair(options.lower, options.upper);
   const knotsOption = options.knots;
   let knots: Float64Array | number;
@@ -89,18 +90,19 @@ export function knotRegression(x: ArrayLike<number>, y: ArrayLike<number>, optio
   else if (knotsOption !== null && knotsOption !== undefined && typeof knotsOption.length === 'number') {
     knots = checkKnotPositions(knotsOption);
   } else return fail('BAD_KNOTS', 'knots', 'needs a knot count or a list of knot positions');
-  const direction = resolveDirection(xs, ys, options.weights === undefined ? undefined : ws, options.direction);
+  const direction = resolveDirection(xs, ys, ws ?? undefined, options.direction);
   return knotChecked(xs, ys, ws, knots, direction, lower, upper);
 }
 
 /**
  * {@link knotRegression} on validated copies with a resolved direction; `knots` is a checked
- * count or checked positions. Used by cross-validation, which validates once.
+ * count or checked positions; `ws` null means unit weights (a faster path). Used by
+ * cross-validation, which validates once.
  */
 export function knotChecked(
   xs: Float64Array,
   ys: Float64Array,
-  ws: Float64Array,
+  ws: Float64Array | null,
   knots: number | Float64Array,
   direction: Direction,
   lower: number,
@@ -111,7 +113,7 @@ export function knotChecked(
   let xmin = Infinity;
   let xmax = -Infinity;
   for (let i = 0; i < n; i++) {
-    if (ws[i]! > 0) {
+    if (ws === null || ws[i]! > 0) {
       const v = xs[i]!;
       if (v < xmin) xmin = v;
       if (v > xmax) xmax = v;
@@ -125,56 +127,12 @@ export function knotChecked(
   const lo = sign > 0 ? lower : -upper;
   const hi = sign > 0 ? upper : -lower;
 
-  // One pass: interval index and weight share of every row, and the tridiagonal normal equations.
+  // One pass assembles the tridiagonal normal equations H = BᵀWB (d, e) and c = BᵀW(sign·y).
+  // Rows with weight 0 add zeros, so no branch is needed for them.
   const d = new Float64Array(K);
   const e = new Float64Array(K - 1);
   const c = new Float64Array(K);
-  const seg = new Int32Array(n);
-  const share = new Float64Array(n);
-  const t0 = t[0]!;
-  const tK = t[K - 1]!;
-  const invStep = (K - 1) / (tK - t0);
-  for (let i = 0; i < n; i++) {
-    const xi = xs[i]!;
-    let j: number;
-    let u: number;
-    if (xi <= t0) {
-      j = 0;
-      u = 0;
-    } else if (xi >= tK) {
-      j = K - 2;
-      u = 1;
-    } else {
-      if (even) {
-        j = Math.floor((xi - t0) * invStep);
-        if (j > K - 2) j = K - 2;
-        if (xi < t[j]!) j--;
-        else if (j + 1 < K - 1 && xi >= t[j + 1]!) j++;
-      } else {
-        let a = 0;
-        let b = K - 2;
-        while (a < b) {
-          const mid = (a + b + 1) >>> 1;
-          if (t[mid]! <= xi) a = mid;
-          else b = mid - 1;
-        }
-        j = a;
-      }
-      u = (xi - t[j]!) / (t[j + 1]! - t[j]!);
-    }
-    seg[i] = j;
-    share[i] = u;
-    const w = ws[i]!;
-    if (w > 0) {
-      const v = 1 - u;
-      const wy = w * sign * ys[i]!;
-      d[j] = d[j]! + w * v * v;
-      e[j] = e[j]! + w * v * u;
-      d[j + 1] = d[j + 1]! + w * u * u;
-      c[j] = c[j]! + wy * v;
-      c[j + 1] = c[j + 1]! + wy * u;
-    }
-  }
+  assemble(xs, ys, ws, t, even, sign, d, e, c);
 
   // Reduced problem over the identified knots (positive diagonal).
   const identified = new Uint8Array(K);
@@ -221,14 +179,105 @@ export function knotChecked(
   if (sign < 0) for (let j = 0; j < K; j++) values[j] = -values[j]!;
 
   const fitted = new Float64Array(n);
+  evaluate(xs, t, even, values, fitted);
+  return { method: 'knots', direction, knotX: t, knotY: values, fitted, levels, identified };
+}
+
+/*
+ * Locating a row: x lies in interval j (0 ≤ j ≤ K − 2, t_j ≤ x < t_{j+1}) with right-knot share
+ * u = (x − t_j)/(t_{j+1} − t_j) ∈ [0, 1], after clamping x to [t₀, t_{K−1}]. For evenly spaced knots
+ * the scaled position p = (x − t₀)(K − 1)/(t_{K−1} − t₀) gives j = ⌊p⌋ and u = p − j in O(1); for
+ * explicit knots a binary search takes O(log K). The two hot loops below repeat this arithmetic
+ * inline (rather than storing j and u per row) because memory traffic, not arithmetic, bounds them.
+ */
+
+/** Adds every row's contribution to H = BᵀWB (diagonal d, off-diagonal e) and c = BᵀW(sign·y). O(n). */
+function assemble(
+  xs: Float64Array,
+  ys: Float64Array,
+  ws: Float64Array | null,
+  t: Float64Array,
+  even: boolean,
+  sign: number,
+  d: Float64Array,
+  e: Float64Array,
+  c: Float64Array,
+): void {
+  const n = xs.length;
+  const K = t.length;
+  const t0 = t[0]!;
+  const tK = t[K - 1]!;
+  const top = K - 1;
+  const last = K - 2;
+  const scale = top / (tK - t0);
   for (let i = 0; i < n; i++) {
-    const j = seg[i]!;
-    const u = share[i]!;
+    const x = xs[i]!;
+    let j = 0;
+    let u = 0;
+    if (even) {
+      const p = (x - t0) * scale;
+      if (p >= top) {
+        j = last;
+        u = 1;
+      } else if (p > 0) {
+        j = p | 0;
+        if (j > last) j = last;
+        u = p - j;
+      }
+    } else if (x >= tK) {
+      j = last;
+      u = 1;
+    } else if (x > t0) {
+      j = intervalIndex(t, x);
+      u = (x - t[j]!) / (t[j + 1]! - t[j]!);
+    }
+    const w = ws === null ? 1 : ws[i]!;
+    const v = 1 - u;
+    const wv = w * v;
+    const wu = w * u;
+    const yi = sign * ys[i]!;
+    d[j] = d[j]! + wv * v;
+    e[j] = e[j]! + wv * u;
+    d[j + 1] = d[j + 1]! + wu * u;
+    c[j] = c[j]! + wv * yi;
+    c[j + 1] = c[j + 1]! + wu * yi;
+  }
+}
+
+/** Writes the curve through (t, values) at every x into `out` (flat beyond the end knots). O(n). */
+function evaluate(xs: Float64Array, t: Float64Array, even: boolean, values: Float64Array, out: Float64Array): void {
+  const n = xs.length;
+  const K = t.length;
+  const t0 = t[0]!;
+  const tK = t[K - 1]!;
+  const top = K - 1;
+  const last = K - 2;
+  const scale = top / (tK - t0);
+  for (let i = 0; i < n; i++) {
+    const x = xs[i]!;
+    let j = 0;
+    let u = 0;
+    if (even) {
+      const p = (x - t0) * scale;
+      if (p >= top) {
+        j = last;
+        u = 1;
+      } else if (p > 0) {
+        j = p | 0;
+        if (j > last) j = last;
+        u = p - j;
+      }
+    } else if (x >= tK) {
+      j = last;
+      u = 1;
+    } else if (x > t0) {
+      j = intervalIndex(t, x);
+      u = (x - t[j]!) / (t[j + 1]! - t[j]!);
+    }
     const v0 = values[j]!;
     const v1 = values[j + 1]!;
-    fitted[i] = v0 === v1 ? v0 : v0 + u * (v1 - v0);
+    out[i] = v0 === v1 ? v0 : v0 + u * (v1 - v0);
   }
-  return { method: 'knots', direction, knotX: t, knotY: values, fitted, levels, identified };
 }
 
 /** True when the tridiagonal matrix (d, e) is numerically positive definite (Cholesky pivots). */

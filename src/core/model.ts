@@ -2,7 +2,7 @@
  * One entry point for both fitting methods, and the model as a knot table.
  */
 import type { CommonFitOptions, Direction } from './types.js';
-import { boundsPair, finiteArray, sameLength, weightArray } from './validate.js';
+import { boundsPair, finiteArray, finiteView, sameLength, weightArray } from './validate.js';
 import { checkKnotCount, checkKnotPositions } from './knots.js';
 import { resolveDirection } from './direction.js';
 import { isotonicChecked } from './isotonic.js';
@@ -59,27 +59,30 @@ export function checkKnotSpec(knots: number | ArrayLike<number> | undefined | nu
  * @example fitMonotone([1, 2, 3, 4], [1, 3, 2, 4]).knotY // → Float64Array [1, 2.5, 2.5, 4]
  */
 export function fitMonotone(x: ArrayLike<number>, y: ArrayLike<number>, options: ModelOptions = {}): MonotoneModel {
-  const xs = finiteArray('x', x);
+  const xs = finiteView('x', x);
   sameLength('x', xs.length, 'y', y);
-  const ys = finiteArray('y', y);
-  const ws = weightArray(xs.length, options.weights);
+  const ys = finiteView('y', y);
+  const ws = options.weights === undefined ? null : weightArray(xs.length, options.weights);
   const [lower, upper] = boundsPair(options.lower, options.upper);
   const spec = checkKnotSpec(options.knots);
-  const direction = resolveDirection(xs, ys, options.weights === undefined ? undefined : ws, options.direction);
+  const direction = resolveDirection(xs, ys, ws ?? undefined, options.direction);
   return fitChecked(xs, ys, ws, spec, direction, lower, upper);
 }
 
-/** {@link fitMonotone} on validated inputs (used by cross-validation). */
+/** {@link fitMonotone} on validated inputs (used by cross-validation); `ws` null means unit weights. */
 export function fitChecked(
   xs: Float64Array,
   ys: Float64Array,
-  ws: Float64Array,
+  ws: Float64Array | null,
   spec: KnotSpec,
   direction: Direction,
   lower = -Infinity,
   upper = Infinity,
 ): MonotoneModel {
-  const fit = spec === 0 ? isotonicChecked(xs, ys, ws, direction, lower, upper) : knotChecked(xs, ys, ws, spec, direction, lower, upper);
+  const fit =
+    spec === 0
+      ? isotonicChecked(xs, ys, ws ?? new Float64Array(xs.length).fill(1), direction, lower, upper)
+      : knotChecked(xs, ys, ws, spec, direction, lower, upper);
   return {
     method: fit.method,
     direction: fit.direction,
@@ -87,7 +90,7 @@ export function fitChecked(
     knotY: fit.knotY,
     fitted: fit.fitted,
     levels: fit.levels,
-    stats: fitStatistics(ys, fit.fitted, ws),
+    stats: fitStatistics(ys, fit.fitted, ws ?? undefined),
   };
 }
 

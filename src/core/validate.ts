@@ -24,6 +24,13 @@ export function finiteArray(name: string, values: NumericInput, allowEmpty = fal
   }
   const n = values.length;
   if (n === 0 && !allowEmpty) fail('EMPTY_INPUT', name, 'needs at least one value; got none');
+  if (values instanceof Float64Array) {
+    // Fast path: one block copy, then one pass (v − v is 0 exactly when v is finite).
+    const copy = values.slice();
+    let acc = 0;
+    for (let i = 0; i < n; i++) acc += copy[i]! - copy[i]!;
+    if (acc === 0) return copy;
+  }
   const out = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const v = values[i];
@@ -33,6 +40,20 @@ export function finiteArray(name: string, values: NumericInput, allowEmpty = fal
     out[i] = v;
   }
   return out;
+}
+
+/**
+ * Like {@link finiteArray}, but returns `values` itself (no copy) when it already is a
+ * Float64Array of finite numbers. The result must be treated as read-only: the solvers that use
+ * it never write into their inputs. Cost O(n) for the check.
+ */
+export function finiteView(name: string, values: NumericInput, allowEmpty = false): Float64Array {
+  if (values instanceof Float64Array && (values.length > 0 || allowEmpty)) {
+    let acc = 0;
+    for (let i = 0; i < values.length; i++) acc += values[i]! - values[i]!;
+    if (acc === 0) return values;
+  }
+  return finiteArray(name, values, allowEmpty);
 }
 
 /** Throws LENGTH_MISMATCH unless `b` has length `n` (the length of `aName`). */
