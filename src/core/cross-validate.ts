@@ -1,0 +1,503 @@
+/**
+ * Cross-validated scores of candidate knot counts: repeated K-fold and a single hold-out split.
+ */
+import type { Direction, DirectionOption } from './types.js';
+import { boundsPair, finiteArray, sameLength, weightArray } from './validate.js';
+import { resolveDirection } from './direction.js';
+import { sortOrder } from './sort-order.js';
+import { fitChecked, type KnotSpec } from './model.js';
+import { checkFolds, holdoutAssignment, kFoldAssignment } from './folds.js';
+import { checkSeed } from './prng.js';
+import { fail } from './errors.js';
+
+/** Where the knots of a candidate count K go inside each training set. */
+export type KnotPlacement = 'even' | 'quantile';
+
+/** Options of {@link crossValidate}. */
+export interface CrossValidationOptions {
+  /**
+   * Knot counts to compare: whole numbers ≥ 2, or 0 for the classic fit; distinct, at least one.
+   * Default {@link defaultCandidates}: 2 … min(20, number of distinct x).
+   */
+  candidates?: ArrayLike<number>;
+  /** Number of folds F, a whole number 2 ≤ F ≤ n (n = rows with positive weight). Default 5. */
+  folds?: number;
+  /** Number of repeats R, a whole number ≥ 1 (must be 1 when seed is 0). Default 1. */
+  repeats?: number;
+  /** Whole number 0 … 2⁵³ − 1. Default 1. 0 = no shuffling (contiguous blocks in row order). */
+  seed?: number;
+  /** `'up'` (default), `'down'`, or `'auto'` — resolved on each training set separately. */
+  direction?: DirectionOption;
+  /** Non-negative weight per row (default all 1). Rows with weight 0 are left out entirely. */
+  weights?: ArrayLike<number>;
+  /** Bounds on fitted values, as in fitMonotone. */
+  lower?: number;
+  upper?: number;
+  /**
+   * Knot positions for counts K ≥ 2: `'even'` (default) — evenly spaced over the training x
+   * range; `'quantile'` — at the training x quantiles (the rule of quantileKnots).
+   */
+  placement?: KnotPlacement;
+  /** Cancellation: checked before every fit; when aborted, RatchetError CANCELLED. */
+  signal?: AbortSignal;
+  /** Called after every fit with the fraction of fits done, in (0, 1]; the last call is 1. */
+  onProgress?: (fraction: number) => void;
+}
+
+/** Cross-validated scores of one candidate. */
+export interface CandidateScore {
+  /** Knot count (0 = classic fit). */
+  knots: number;
+  /** √(pooled weighted mean of held-out squared errors over all folds and repeats). */
+  cvRmse: number;
+  /**
+   * Standard error of cvRmse: sd of the per-fold RMSEs (denominator F·R − 1) / √(F·R). Hold-out:
+   * delta-method SE of the test RMSE (see {@link holdoutValidate}).
+   */
+  cvSe: number;
+  /** 1 − pooled held-out SSE / (R · Σ w (y − ȳ_w)² over all rows). */
+  cvR2: number;
+  /** Pooled weighted mean absolute held-out error. */
+  cvMae: number;
+  /** Mean over the F·R fits of the weighted training RMSE (compare with cvRmse for over-fit). */
+  trainRmse: number;
+  /** Held-out RMSE of every fit, repeat by repeat, fold by fold (length F·R; hold-out: 1). */
+  foldRmse: number[];
+}
+
+/** Result of {@link crossValidate} and {@link holdoutValidate}. */
+export interface CrossValidationResult {
+  /** One entry per candidate, in the order given. */
+  scores: CandidateScore[];
+  /** F (hold-out: 1). */
+  folds: number;
+  /** R (hold-out: 1). */
+  repeats: number;
+  /** Seed used. */
+  seed: number;
+  /** Rows used (rows with positive weight). */
+  n: number;
+  /** `'k-fold'` or `'holdout'`. */
+  method: 'k-fold' | 'holdout';
+  /** Hold-out only: the test fraction and the number of test rows. */
+  testFraction?: number;
+  testRows?: number;
+}
+
+/** Options of {@link holdoutValidate}. */
+export interface HoldoutOptions extends Omit<CrossValidationOptions, 'folds' | 'repeats'> {
+  /** Share of rows held out, strictly between 0 and 1; test rows = ⌈testFraction · n⌉. Default 0.25. */
+  testFraction?: number;
+}
+
+/**
+ * Default candidate knot counts: 2, 3, …, min(20, number of distinct x). O(n) (radix order).
+ *
+ * @param x finite numbers.
+ * @throws RatchetError EMPTY_INPUT, NON_FINITE, TOO_FEW_POINTS (fewer than 2 distinct x).
+ * @example defaultCandidates([1, 2, 2, 3]) // → [2, 3]
+ */
+export function defaultCandidates(x: ArrayLike<number>): number[] {
+  const xs = finiteArray('x', x);
+  const order = sortOrder(xs);
+  let distinct = 1;
+  for (let k = 1; k < xs.length; k++) if (xs[order[k]!]! !== xs[order[k - 1]!]!) distinct++;
+  if (distinct < 2) fail('TOO_FEW_POINTS', 'x', `needs at least 2 distinct values to compare knot counts; got ${distinct}`);
+  const out: number[] = [];
+  for (let k = 2; k <= Math.min(20, distinct); k++) out.push(k);
+  return out;
+}
+
+/** Validated candidate list: distinct entries, each 0 or a whole number 2 … 100000. */
+function checkCandidates(candidates: ArrayLike<number>): number[] {
+  if (candidates === null || typeof candidates !== 'object' || typeof candidates.length !== 'number') {
+    fail('BAD_OPTION', 'candidates', 'needs a list of knot counts');
+  }
+  if (candidates.length === 0) fail('BAD_OPTION', 'candidates', 'needs at least one knot count; got none');
+  const out: number[] = [];
+  const seen = new Set<number>();
+  for (let i = 0; i < candidates.length; i++) {
+    const k = candidates[i];
+    if (typeof k !== 'number' || !Number.isInteger(k) || k < 0 || k === 1 || k > 100000) {
+      fail('BAD_OPTION', 'candidates', `needs knot counts that are 0 (classic fit) or whole numbers from 2 to 100000; entry ${i + 1} is ${String(k)}`);
+    }
+    if (seen.has(k)) fail('BAD_OPTION', 'candidates', `needs distinct knot counts; ${k} appears more than once`);
+    seen.add(k);
+    out.push(k);
+  }
+  return out;
+}
+
+function checkRepeats(repeats: number): number {
+  if (typeof repeats !== 'number' || !Number.isInteger(repeats) || repeats < 1 || repeats > 1000) {
+    fail('BAD_OPTION', 'repeats', `needs a whole number from 1 to 1000; got ${String(repeats)}`);
+  }
+  return repeats;
+}
+
+function checkPlacement(placement: KnotPlacement | undefined): KnotPlacement {
+  if (placement === undefined || placement === 'even') return 'even';
+  if (placement === 'quantile') return 'quantile';
+  return fail('BAD_OPTION', 'placement', `needs 'even' or 'quantile'; got ${String(placement)}`);
+}
+
+/** Rows with positive weight, sorted by x once (stable), with their row-order index. */
+interface Prepared {
+  n: number;
+  /** x, y, w in ascending x order. */
+  sx: Float64Array;
+  sy: Float64Array;
+  sw: Float64Array;
+  /** rowOf[k] = row-order index (among positive-weight rows) of sorted position k. */
+  rowOf: Uint32Array;
+  direction: DirectionOption;
+  lower: number;
+  upper: number;
+  placement: KnotPlacement;
+  /** Σ w (y − ȳ_w)² over all used rows. */
+  sst: number;
+}
+
+function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValidationOptions): Prepared {
+  const xs = finiteArray('x', x);
+  sameLength('x', xs.length, 'y', y);
+  const ys = finiteArray('y', y);
+  const ws = weightArray(xs.length, options.weights);
+  const [lower, upper] = boundsPair(options.lower, options.upper);
+  const direction = options.direction ?? 'up';
+  if (direction !== 'up' && direction !== 'down' && direction !== 'auto') {
+    fail('BAD_OPTION', 'direction', `needs 'up', 'down' or 'auto'; got ${String(direction)}`);
+  }
+  const placement = checkPlacement(options.placement);
+  // Zero-weight rows neither train nor score: drop them before the split.
+  let n = 0;
+  for (let i = 0; i < xs.length; i++) if (ws[i]! > 0) n++;
+  const px = new Float64Array(n);
+  const py = new Float64Array(n);
+  const pw = new Float64Array(n);
+  for (let i = 0, k = 0; i < xs.length; i++) {
+    if (ws[i]! > 0) {
+      px[k] = xs[i]!;
+      py[k] = ys[i]!;
+      pw[k] = ws[i]!;
+      k++;
+    }
+  }
+  const order = sortOrder(px);
+  const sx = new Float64Array(n);
+  const sy = new Float64Array(n);
+  const sw = new Float64Array(n);
+  let sumW = 0;
+  let sumWY = 0;
+  for (let k = 0; k < n; k++) {
+    const i = order[k]!;
+    sx[k] = px[i]! + 0;
+    sy[k] = py[i]!;
+    sw[k] = pw[i]!;
+    sumW += sw[k]!;
+    sumWY += sw[k]! * sy[k]!;
+  }
+  if (n < 2 || !(sx[0]! < sx[n - 1]!)) {
+    fail('TOO_FEW_POINTS', 'x', 'needs at least 2 distinct values with positive weight to cross-validate');
+  }
+  const mean = sumWY / sumW;
+  let sst = 0;
+  for (let k = 0; k < n; k++) sst += sw[k]! * (sy[k]! - mean) ** 2;
+  return { n, sx, sy, sw, rowOf: order, direction, lower, upper, placement, sst };
+}
+
+/**
+ * One evaluation task: held-out rows are those whose `label` (indexed by row-order position)
+ * equals `fold`; every other row trains.
+ */
+interface Task {
+  repeat: number;
+  fold: number;
+  label: Uint32Array | Uint8Array;
+}
+
+/** Throws TOO_FEW_POINTS unless the training rows of every task span at least 2 distinct x. */
+function checkTrainingSets(p: Prepared, tasks: Task[], what: (t: Task) => string): void {
+  const { n, sx, rowOf } = p;
+  for (const t of tasks) {
+    // Smallest and largest training x: first/last sorted position not in the held-out fold.
+    let a = 0;
+    while (a < n && t.label[rowOf[a]!] === t.fold) a++;
+    let b = n - 1;
+    while (b >= 0 && t.label[rowOf[b]!] === t.fold) b--;
+    if (a > b || !(sx[a]! < sx[b]!)) {
+      fail('TOO_FEW_POINTS', 'folds', `needs at least 2 distinct x values in every training set; the training rows of ${what(t)} ${a > b ? 'are empty' : `all have x = ${sx[a]}`}`);
+    }
+  }
+}
+
+/** Type-7 quantile knots of ascending `s` (the rule of quantileKnots, without its sort). O(K). */
+function quantileKnotsSorted(s: Float64Array, count: number): Float64Array {
+  const n = s.length;
+  const out: number[] = [];
+  for (let j = 0; j < count; j++) {
+    const h = ((n - 1) * j) / (count - 1);
+    const lo = Math.floor(h);
+    const frac = h - lo;
+    const q = lo + 1 < n && frac > 0 ? s[lo]! + frac * (s[lo + 1]! - s[lo]!) : s[lo]!;
+    const v = Math.min(Math.max(q, s[0]!), s[n - 1]!);
+    if (out.length === 0 || v > out[out.length - 1]!) out.push(v);
+  }
+  return Float64Array.from(out);
+}
+
+/**
+ * Curve of a knot table at ascending `xs` (linear between knots, flat beyond the ends) by one
+ * merge walk — the same arithmetic as interpolateAt, in O(k + m) instead of O(k log m).
+ */
+function interpolateAscending(t: Float64Array, v: Float64Array, xs: Float64Array, out: Float64Array): void {
+  const m = t.length;
+  const first = t[0]!;
+  const last = t[m - 1]!;
+  let j = 0;
+  for (let i = 0; i < xs.length; i++) {
+    const x = xs[i]!;
+    if (x <= first) out[i] = v[0]!;
+    else if (x >= last) out[i] = v[m - 1]!;
+    else {
+      while (j + 1 <= m - 2 && t[j + 1]! <= x) j++;
+      const v0 = v[j]!;
+      const v1 = v[j + 1]!;
+      out[i] = v0 === v1 ? v0 : v0 + ((x - t[j]!) / (t[j + 1]! - t[j]!)) * (v1 - v0);
+    }
+  }
+}
+
+/** Running sums of one candidate. */
+interface Accumulator {
+  sse: number;
+  sae: number;
+  sw: number;
+  trainRmse: number;
+  foldRmse: number[];
+  /** Hold-out only: per-row weighted squared errors and weights, for the delta-method SE. */
+  sq?: Float64Array;
+  sqw?: Float64Array;
+}
+
+function cancelled(done: number, total: number): never {
+  return fail('CANCELLED', 'signal', `cross-validation was cancelled; ${done} of ${total} fits were done`);
+}
+
+/**
+ * Runs every task × candidate fit. Training and test rows of a task are gathered once, in
+ * ascending x order (so the isotonic fit's radix order returns at once), the direction is
+ * resolved once per task when auto, and then every candidate is fitted on the same arrays.
+ */
+function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: CrossValidationOptions, keepRows: boolean): Accumulator[] {
+  const { n, sx, sy, sw, rowOf } = p;
+  const C = candidates.length;
+  const total = tasks.length * C;
+  const acc: Accumulator[] = candidates.map(() => ({ sse: 0, sae: 0, sw: 0, trainRmse: 0, foldRmse: [] }));
+  const signal = options.signal;
+  const onProgress = options.onProgress;
+  let done = 0;
+  if (signal?.aborted) cancelled(done, total);
+  for (const task of tasks) {
+    let m = 0;
+    for (let k = 0; k < n; k++) if (task.label[rowOf[k]!] === task.fold) m++;
+    const tx = new Float64Array(n - m);
+    const ty = new Float64Array(n - m);
+    const tw = new Float64Array(n - m);
+    const ex = new Float64Array(m);
+    const ey = new Float64Array(m);
+    const ew = new Float64Array(m);
+    for (let k = 0, a = 0, b = 0; k < n; k++) {
+      if (task.label[rowOf[k]!] === task.fold) {
+        ex[b] = sx[k]!;
+        ey[b] = sy[k]!;
+        ew[b++] = sw[k]!;
+      } else {
+        tx[a] = sx[k]!;
+        ty[a] = sy[k]!;
+        tw[a++] = sw[k]!;
+      }
+    }
+    const direction: Direction = p.direction === 'auto' ? resolveDirection(tx, ty, undefined, 'auto') : p.direction;
+    const pred = new Float64Array(m);
+    for (let c = 0; c < C; c++) {
+      if (signal?.aborted) cancelled(done, total);
+      const K = candidates[c]!;
+      const spec: KnotSpec = K === 0 ? 0 : p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
+      const model = fitChecked(tx, ty, tw, spec, direction, p.lower, p.upper);
+      interpolateAscending(model.knotX, model.knotY, ex, pred);
+      let sse = 0;
+      let sae = 0;
+      let sumW = 0;
+      const a = acc[c]!;
+      if (keepRows) {
+        a.sq = new Float64Array(m);
+        a.sqw = ew.slice();
+      }
+      for (let i = 0; i < m; i++) {
+        const r = ey[i]! - pred[i]!;
+        const w = ew[i]!;
+        sse += w * r * r;
+        sae += w * Math.abs(r);
+        sumW += w;
+        if (a.sq) a.sq[i] = r * r;
+      }
+      a.sse += sse;
+      a.sae += sae;
+      a.sw += sumW;
+      a.trainRmse += model.stats.rmse;
+      a.foldRmse.push(Math.sqrt(sse / sumW));
+      done++;
+      onProgress?.(done / total);
+    }
+  }
+  return acc;
+}
+
+function scoreOf(knots: number, a: Accumulator, sstTotal: number, fits: number, holdout: boolean): CandidateScore {
+  const cvRmse = Math.sqrt(a.sse / a.sw);
+  let cvSe: number;
+  if (!holdout) {
+    const k = a.foldRmse.length;
+    let mean = 0;
+    for (const r of a.foldRmse) mean += r;
+    mean /= k;
+    let ss = 0;
+    for (const r of a.foldRmse) ss += (r - mean) ** 2;
+    cvSe = Math.sqrt(ss / (k - 1)) / Math.sqrt(k);
+  } else {
+    // Delta method: se(MSE) from the spread of the weighted squared errors, se(RMSE) = se(MSE) / (2 RMSE).
+    const sq = a.sq!;
+    const w = a.sqw!;
+    const m = sq.length;
+    const mse = a.sse / a.sw;
+    let s = 0;
+    for (let i = 0; i < m; i++) s += (w[i]! * (sq[i]! - mse)) ** 2;
+    const seMse = m > 1 ? Math.sqrt((s * m) / (m - 1)) / a.sw : NaN;
+    cvSe = cvRmse > 0 ? seMse / (2 * cvRmse) : m > 1 ? 0 : NaN;
+  }
+  const cvR2 = sstTotal > 0 ? 1 - a.sse / sstTotal : a.sse === 0 ? 1 : 0;
+  return { knots, cvRmse, cvSe, cvR2, cvMae: a.sae / a.sw, trainRmse: a.trainRmse / fits, foldRmse: a.foldRmse };
+}
+
+/**
+ * K-fold cross-validation of candidate knot counts (repeated when `repeats` > 1).
+ *
+ * Split: rows with positive weight are numbered in row order (zero-weight rows are left out
+ * entirely: they neither train nor score, and take no place in a fold). For each repeat r the
+ * rows are ordered — row order for seed 0, the SplitMix64 Fisher–Yates permutation of
+ * seededPermutation(n, seed, r) otherwise — and cut into F contiguous blocks, the first n mod F
+ * one row larger (seed 0: exactly scikit-learn's `KFold(n_splits=F, shuffle=False)`). The fold
+ * assignment is computed once per repeat and shared by all candidates.
+ *
+ * No leakage: each candidate is fitted on the training rows of a fold alone — even knots span
+ * the training x range, quantile knots are training quantiles, `'auto'` direction is Spearman's
+ * sign on the training rows — and scored on the held-out rows, where x outside the training range
+ * gets the flat end value of the curve (as predict does).
+ *
+ * Scores (weights w, sums over every held-out row of every fold and repeat):
+ * cvRmse = √(Σ w e² / Σ w); cvMae = Σ w |e| / Σ w; cvR2 = 1 − Σ w e² / (R · SST) with
+ * SST = Σ w (y − ȳ_w)² over all used rows (each row is held out once per repeat; SST = 0 gives 1
+ * for a perfect score and 0 otherwise, as fitStatistics); cvSe = sd of the F·R per-fold RMSEs
+ * (unweighted, denominator F·R − 1) / √(F·R); trainRmse = mean over the F·R fits of the
+ * training RMSE. Pick a count with {@link suggestKnots}.
+ *
+ * Cost: F·R·C fits of O(n) each (C candidates) plus O(n) per fold for gathering and scoring; data
+ * are validated and sorted by x once. Synchronous: run it in a worker to keep a UI responsive;
+ * `onProgress` is called after each fit and `signal` is checked before each fit.
+ *
+ * Edge cases: ties in x are fine (the split is by row, not by x). A training set with fewer than
+ * 2 distinct x values (possible with few distinct x) is an error naming the fold, raised before
+ * any fit. A candidate K larger than the training rows support still fits (knots without data
+ * are filled, see knotRegression). With seed 0 every repeat would repeat the same split, so
+ * repeats must then be 1.
+ *
+ * @param x predictor values, finite.
+ * @param y responses, finite, same length.
+ * @param options see {@link CrossValidationOptions}.
+ * @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_BOUNDS,
+ *   BAD_OPTION (candidates, folds, repeats, seed, direction, placement), TOO_FEW_POINTS (fewer
+ *   than 2 distinct x, or a training set with fewer than 2 distinct x), CANCELLED.
+ * @example crossValidate([1, 2, 3, 4, 5, 6], [1, 3, 2, 4, 6, 5], { candidates: [0], folds: 3, seed: 0 })
+ *   .scores[0].cvRmse // → 1.3420… = √(389/216)
+ * @see Hastie, Tibshirani & Friedman (2009), The Elements of Statistical Learning, 2nd ed., §7.10.
+ */
+export function crossValidate(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValidationOptions = {}): CrossValidationResult {
+  const p = prepare(x, y, options);
+  const candidates = options.candidates === undefined ? defaultCandidates(p.sx) : checkCandidates(options.candidates);
+  const folds = checkFolds(options.folds ?? 5, p.n);
+  const repeats = checkRepeats(options.repeats ?? 1);
+  const seed = checkSeed(options.seed ?? 1);
+  if (seed === 0 && repeats > 1) {
+    fail('BAD_OPTION', 'repeats', `needs 1 when seed is 0 (without shuffling every repeat has the same folds); got ${repeats}`);
+  }
+  const tasks: Task[] = [];
+  for (let r = 0; r < repeats; r++) {
+    const label = kFoldAssignment(p.n, folds, seed, r);
+    for (let f = 0; f < folds; f++) tasks.push({ repeat: r, fold: f, label });
+  }
+  checkTrainingSets(p, tasks, (t) => `fold ${t.fold + 1} of repeat ${t.repeat + 1}`);
+  const acc = evaluate(p, tasks, candidates, options, false);
+  const scores = candidates.map((k, c) => scoreOf(k, acc[c]!, repeats * p.sst, tasks.length, false));
+  return { scores, folds, repeats, seed, n: p.n, method: 'k-fold' };
+}
+
+/**
+ * Hold-out validation of candidate knot counts: one split, train on the rest, score the test rows.
+ *
+ * Split: rows with positive weight (zero-weight rows are left out, as in {@link crossValidate})
+ * are ordered — row order for seed 0, seededPermutation(n, seed, 0) otherwise — and the last
+ * ⌈testFraction · n⌉ form the test set (seed 0: exactly scikit-learn's
+ * `train_test_split(shuffle=False)`). Knots, quantiles and an `'auto'` direction come from the
+ * training rows only; test x outside the training range get the flat end values.
+ *
+ * Scores as in crossValidate with one fold, except: cvR2 = 1 − SSE / Σ w (y − ȳ)² over the TEST
+ * rows with their own weighted mean (scikit-learn's `r2_score` on the test set; SST = 0 gives 1
+ * for a perfect score and 0 otherwise), and cvSe is the delta-method standard error of the test
+ * RMSE, se(MSE) / (2·RMSE) with se(MSE)² = m/(m − 1) · Σ w²(e² − MSE)² / (Σ w)² over the m test
+ * rows (unit weights: the sample sd of e² / √m) (common practice). It is NaN for m = 1, and 0
+ * when every test error is 0. foldRmse has the one test RMSE.
+ *
+ * Cost: C fits of O(n) plus O(n); data sorted once.
+ *
+ * @param x predictor values, finite.
+ * @param y responses, finite, same length.
+ * @param options as {@link CrossValidationOptions} without folds and repeats, plus testFraction
+ *   (default 0.25, strictly between 0 and 1).
+ * @throws RatchetError as crossValidate; BAD_OPTION testFraction (outside (0, 1), or no training row left).
+ * @example holdoutValidate([1, 2, 3, 4], [1, 2, 3, 5], { candidates: [2], seed: 0 }).scores[0].cvRmse
+ *   // → 2 (train on x 1…3: the line y = x, flat at 3 beyond; test row (4, 5))
+ */
+export function holdoutValidate(x: ArrayLike<number>, y: ArrayLike<number>, options: HoldoutOptions = {}): CrossValidationResult {
+  const p = prepare(x, y, options);
+  const candidates = options.candidates === undefined ? defaultCandidates(p.sx) : checkCandidates(options.candidates);
+  const seed = checkSeed(options.seed ?? 1);
+  const testFraction = options.testFraction ?? 0.25;
+  const label = holdoutAssignment(p.n, testFraction, seed);
+  const tasks: Task[] = [{ repeat: 0, fold: 1, label }];
+  checkTrainingSets(p, tasks, () => 'the hold-out split');
+  const acc = evaluate(p, tasks, candidates, options, true);
+  // SST over the test rows with their own weighted mean.
+  let sw = 0;
+  let swy = 0;
+  for (let k = 0; k < p.n; k++) {
+    if (label[p.rowOf[k]!] === 1) {
+      sw += p.sw[k]!;
+      swy += p.sw[k]! * p.sy[k]!;
+    }
+  }
+  const mean = swy / sw;
+  let sst = 0;
+  let testRows = 0;
+  for (let k = 0; k < p.n; k++) {
+    if (label[p.rowOf[k]!] === 1) {
+      sst += p.sw[k]! * (p.sy[k]! - mean) ** 2;
+      testRows++;
+    }
+  }
+  const scores = candidates.map((k, c) => {
+    const s = scoreOf(k, acc[c]!, sst, 1, true);
+    return s;
+  });
+  return { scores, folds: 1, repeats: 1, seed, n: p.n, method: 'holdout', testFraction, testRows };
+}
