@@ -17,3 +17,7 @@ export { invertAt, invertChecked, checkKnotTable } from './invert.js';
 export { fitStatistics, type FitStatistics } from './statistics.js';
 export { fitMonotone, fitChecked, predict, checkKnotSpec, type ModelOptions, type MonotoneModel, type KnotSpec } from './model.js';
 export { finiteArray, finiteView, weightArray, boundsPair, sameLength, type NumericInput } from './validate.js';
+export { SplitMix64, checkSeed } from './prng.js';
+export { foldSizes, repeatState, seededPermutation, kFoldAssignment, checkFolds, holdoutSize, holdoutAssignment } from './folds.js';
+export { suggestKnots, type SuggestionRule, type Suggestion, type ScoreForSuggestion } from './suggest-knots.js';
+export { crossValidate, holdoutValidate, defaultCandidates, type CrossValidationOptions, type CrossValidationResult, type CandidateScore, type HoldoutOptions, type KnotPlacement } from './cross-validate.js';
