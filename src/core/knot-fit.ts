@@ -2,7 +2,7 @@
  * The knot model: a monotone piecewise-linear curve through K knots, fitted by exact least squares.
  */
 import type { CommonFitOptions, Direction } from './types.js';
-import { boundsPair, finiteView, sameLength, weightArray } from './validate.js';
+import { boundsPair, finiteArray, sameLength, weightArray } from './validate.js';
 import { checkKnotCount, checkKnotPositions, evenKnots } from './knots.js';
 import { resolveDirection } from './direction.js';
 import { solveMonotoneTridiagonal } from './monotone-qp.js';
@@ -79,9 +79,13 @@ export interface KnotFit {
  * @example knotRegression([0, 1, 2, 3], [0, 2, 1, 3], { knots: 2 }).knotY // → Float64Array [0.3, 2.7]
  */
 export function knotRegression(x: ArrayLike<number>, y: ArrayLike<number>, options: KnotFitOptions): KnotFit {
-  const xs = finiteView('x', x);
+  // Float64Array inputs are used in place (never written); their finiteness is checked inside the
+  // passes of knotChecked, which saves two passes over the data. Other inputs are copied and checked.
+  const auto = options.direction === 'auto';
+  const xs = x instanceof Float64Array && !auto ? x : finiteArray('x', x);
   sameLength('x', xs.length, 'y', y);
-  const ys = finiteView('y', y);
+  const ys = y instanceof Float64Array && !auto ? y : finiteArray('y', y);
+  if (xs.length === 0) fail('EMPTY_INPUT', 'x', 'needs at least one value; got none');
   const ws = options.weights === undefined ? null : weightArray(xs.length, options.weights);
   const [lower, upper] = boundsPair(options.lower, options.upper);
   const knotsOption = options.knots;
@@ -112,13 +116,16 @@ export function knotChecked(
   // Range of the rows that count, and the check for two distinct x.
   let xmin = Infinity;
   let xmax = -Infinity;
+  let finiteX = 0; // stays 0 exactly when every x is finite (v − v is NaN for NaN and ±Infinity)
   for (let i = 0; i < n; i++) {
+    const v = xs[i]!;
+    finiteX += v - v;
     if (ws === null || ws[i]! > 0) {
-      const v = xs[i]!;
       if (v < xmin) xmin = v;
       if (v > xmax) xmax = v;
     }
   }
+  if (finiteX !== 0) finiteArray('x', xs); // throws NON_FINITE naming the entry
   if (!(xmin < xmax)) fail('TOO_FEW_POINTS', 'x', 'needs at least 2 distinct values with positive weight');
   const t = typeof knots === 'number' ? evenKnots(xmin, xmax, knots) : knots;
   const K = t.length;
@@ -132,7 +139,7 @@ export function knotChecked(
   const d = new Float64Array(K);
   const e = new Float64Array(K - 1);
   const c = new Float64Array(K);
-  assemble(xs, ys, ws, t, even, sign, d, e, c);
+  if (!assemble(xs, ys, ws, t, even, sign, d, e, c)) finiteArray('y', ys); // throws NON_FINITE
 
   // Reduced problem over the identified knots (positive diagonal).
   const identified = new Uint8Array(K);
@@ -191,7 +198,10 @@ export function knotChecked(
  * inline (rather than storing j and u per row) because memory traffic, not arithmetic, bounds them.
  */
 
-/** Adds every row's contribution to H = BᵀWB (diagonal d, off-diagonal e) and c = BᵀW(sign·y). O(n). */
+/**
+ * Adds every row's contribution to H = BᵀWB (diagonal d, off-diagonal e) and c = BᵀW(sign·y).
+ * O(n). Returns false when some y is not finite (the caller reports it).
+ */
 function assemble(
   xs: Float64Array,
   ys: Float64Array,
@@ -202,8 +212,9 @@ function assemble(
   d: Float64Array,
   e: Float64Array,
   c: Float64Array,
-): void {
+): boolean {
   const n = xs.length;
+  let finiteY = 0;
   const K = t.length;
   const t0 = t[0]!;
   const tK = t[K - 1]!;
@@ -236,12 +247,14 @@ function assemble(
     const wv = w * v;
     const wu = w * u;
     const yi = sign * ys[i]!;
+    finiteY += yi - yi;
     d[j] = d[j]! + wv * v;
     e[j] = e[j]! + wv * u;
     d[j + 1] = d[j + 1]! + wu * u;
     c[j] = c[j]! + wv * yi;
     c[j + 1] = c[j + 1]! + wu * yi;
   }
+  return finiteY === 0;
 }
 
 /** Writes the curve through (t, values) at every x into `out` (flat beyond the end knots). O(n). */
