@@ -21,3 +21,6 @@ export { SplitMix64, checkSeed } from './prng.js';
 export { foldSizes, repeatState, seededPermutation, kFoldAssignment, checkFolds, holdoutSize, holdoutAssignment } from './folds.js';
 export { suggestKnots, type SuggestionRule, type Suggestion, type ScoreForSuggestion } from './suggest-knots.js';
 export { crossValidate, holdoutValidate, defaultCandidates, type CrossValidationOptions, type CrossValidationResult, type CandidateScore, type HoldoutOptions, type KnotPlacement } from './cross-validate.js';
+export { fitSurface, surfaceChecked, predictSurface, checkSurfaceKnots, checkAxisDirection, SURFACE_MAX_NODES, SURFACE_EXACT_NODES, type SurfaceOptions, type SurfaceModel, type SurfaceKnotSpec, type AxisDirection, type OptimalityCertificate } from './surface.js';
+export { latticeEdges, latticeCertificate, orderEnvelopeMean, activeSetLattice, admmLattice, type LatticeEdges, type LatticeSolution } from './surface-solve.js';
+export { locate, locateOnAxis, evaluateLattice, assembleLattice, addTieBreak, applyStencil, type LatticeSystem, type LatticeLocation } from './surface-lattice.js';
