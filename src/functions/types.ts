@@ -42,9 +42,22 @@ export interface SheetFunction {
   readonly params: readonly ParamSpec[];
   /** True when the result is a 2-D array that spills. */
   readonly returnsArray: boolean;
+  /** Absolute URL of the function's section in the README (also in functions.json). */
+  readonly helpUrl?: string;
+  /** True for long work that hosts should run off their main thread and may cancel (CV, BESTK). */
+  readonly longWork?: boolean;
   /**
    * Computes the result. Throws on any problem; hosts turn what it throws into a cell error
-   * through the one mapping in src/adapter (never anywhere else).
+   * through the one mapping in src/adapter/errors.ts `mapError` (never anywhere else).
+   * Argument arrays must not be mutated after they are passed: parsing is memoised by identity,
+   * so a host that passes the same array objects to many calls reads them once.
+   * `context` carries an optional AbortSignal and progress callback for long work.
    */
-  invoke(args: readonly CellArg[]): CellResult;
+  invoke(args: readonly CellArg[], context?: InvokeContext): CellResult;
+}
+
+/** Optional context of a call: cancellation and progress (used by CV and BESTK). */
+export interface InvokeContext {
+  readonly signal?: AbortSignal | undefined;
+  readonly onProgress?: ((fraction: number) => void) | undefined;
 }
