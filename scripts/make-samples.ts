@@ -1,0 +1,24 @@
+/**
+ * `npm run samples`: writes the sample workbooks to samples/ and their expected values to
+ * samples/expected.json. The data are invented and seeded; the expected values come from the
+ * core directly (src/runner/samples.ts), never from the runner.
+ */
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { buildSamples } from '../src/runner/samples.js';
+import { writeSampleWorkbook } from '../src/runner/sample-workbook.js';
+
+const dir = join(import.meta.dirname, '..', 'samples');
+mkdirSync(dir, { recursive: true });
+const samples = buildSamples();
+for (const s of samples) {
+  await writeSampleWorkbook(s, join(dir, s.file));
+  console.log(`wrote samples/${s.file} (${s.formulas.length} formulas)`);
+}
+const expected = {
+  about:
+    'Expected values of the sample workbooks, computed by scripts/make-samples.ts calling src/core directly (not the runner). Cells are on the sheet "Data"; each formula lists the block its result fills, top-left first.',
+  samples: Object.fromEntries(samples.map((s) => [s.file, { title: s.title, data: s.data, formulas: s.formulas }])),
+};
+writeFileSync(join(dir, 'expected.json'), `${JSON.stringify(expected, null, 1)}\n`);
+console.log('wrote samples/expected.json');

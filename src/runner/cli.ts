@@ -1,0 +1,121 @@
+/**
+ * `npm run sheet -- <workbook.xlsx> [--json] [--out <file.xlsx>] [--set Sheet!A1=value …]`
+ *
+ * Evaluates every formula of a workbook headlessly and prints the results (a table per sheet, or
+ * JSON with --json); --out writes a copy with computed values cached; --set changes input cells
+ * first. The input file is never modified.
+ */
+import { resolve } from 'node:path';
+import { parseInputValue, EvaluatedWorkbook, WorkbookReadError, type InputValue, type JsonCell, type FormulaResult } from './workbook.js';
+
+/** Parsed command line. */
+export interface SheetArgs {
+  readonly file: string;
+  readonly json: boolean;
+  readonly out: string | undefined;
+  readonly set: Readonly<Record<string, InputValue>>;
+}
+
+/** Usage text printed on --help or a bad command line. */
+export const USAGE = `usage: npm run sheet -- <workbook.xlsx> [--json] [--out <copy.xlsx>] [--set Sheet!A1=value ...]
+
+  --json            print one JSON object: "Sheet!A1" -> value of every formula cell and of every
+                    cell its result spills into, plus "messages" with each error's message
+  --out <file>      write a copy with the computed values cached (formulas kept)
+  --set S!A1=value  change an input cell before evaluating (repeatable); a value starting with
+                    "=" is a formula, TRUE/FALSE are logicals, an empty value makes the cell blank
+The input workbook is never modified.`;
+
+/** Thrown for a bad command line; the message is for users. */
+export class UsageError extends Error {}
+
+/** Parses the arguments after `npm run sheet --`. @throws UsageError. */
+export function parseSheetArgs(argv: readonly string[]): SheetArgs {
+  let file: string | undefined;
+  let json = false;
+  let out: string | undefined;
+  const set: Record<string, InputValue> = {};
+  for (let i = 0; i < argv.length; i++) {
+    const a = argv[i]!;
+    if (a === '--json') json = true;
+    else if (a === '--out') {
+      out = argv[++i];
+      if (out === undefined || out.startsWith('--')) throw new UsageError('--out needs a file name');
+    } else if (a === '--set' || a.startsWith('--set=')) {
+      const spec = a === '--set' ? argv[++i] : a.slice('--set='.length);
+      const eq = spec?.indexOf('=') ?? -1;
+      if (spec === undefined || eq <= 0) throw new UsageError(`--set needs Sheet!A1=value; got ${spec === undefined ? 'nothing' : `"${spec}"`}`);
+      set[spec.slice(0, eq)] = parseInputValue(spec.slice(eq + 1));
+    } else if (a.startsWith('--')) throw new UsageError(`unknown option ${a}`);
+    else if (file === undefined) file = a;
+    else throw new UsageError(`only one workbook, please; got "${file}" and "${a}"`);
+  }
+  if (file === undefined) throw new UsageError('name the workbook to evaluate');
+  if (out !== undefined && resolve(out) === resolve(file)) throw new UsageError('--out must name a new file; the input workbook is never modified');
+  return { file, json, out, set };
+}
+
+function show(v: JsonCell): string {
+  if (v === null) return '';
+  if (typeof v === 'number') return Number.isInteger(v) ? String(v) : String(Number(v.toPrecision(10)));
+  if (typeof v === 'boolean') return v ? 'TRUE' : 'FALSE';
+  return v;
+}
+
+/** The readable table: per sheet, each formula, then its value or its spilled block aligned in columns. */
+export function formatTable(results: readonly FormulaResult[]): string {
+  const lines: string[] = [];
+  let sheet: string | undefined;
+  for (const r of results) {
+    if (r.sheet !== sheet) {
+      sheet = r.sheet;
+      lines.push('', `== ${sheet} ==`);
+    }
+    const scalar = r.values.length === 1 && r.values[0]!.length === 1;
+    if (scalar) {
+      lines.push(`${r.cell.padEnd(6)} ${r.formula}  →  ${show(r.values[0]![0]!)}`);
+    } else {
+      lines.push(`${r.cell.padEnd(6)} ${r.formula}  →  ${r.values.length} × ${r.values[0]!.length}`);
+      const cells = r.values.map((row) => row.map(show));
+      const widths = cells[0]!.map((_c, j) => Math.max(...cells.map((row) => (row[j] ?? '').length)));
+      for (const row of cells) lines.push(`       ${row.map((c, j) => (/^[-\d.]/.test(c) ? c.padStart(widths[j]!) : c.padEnd(widths[j]!))).join('  ')}`);
+    }
+    for (const [at, m] of Object.entries(r.messages)) lines.push(`       ${at}: ${m}`);
+  }
+  return lines.join('\n').replace(/^\n/, '');
+}
+
+/** Runs the command; returns the exit code. Output goes to the given writers. */
+export async function runSheet(
+  argv: readonly string[],
+  io: { out: (s: string) => void; err: (s: string) => void } = { out: (s) => process.stdout.write(s), err: (s) => process.stderr.write(s) },
+): Promise<number> {
+  if (argv.includes('--help') || argv.includes('-h')) {
+    io.out(`${USAGE}\n`);
+    return 0;
+  }
+  let args: SheetArgs;
+  try {
+    args = parseSheetArgs(argv);
+  } catch (e) {
+    io.err(`sheet: ${(e as Error).message}\n\n${USAGE}\n`);
+    return 2;
+  }
+  try {
+    const book = await EvaluatedWorkbook.fromFile(args.file);
+    if (Object.keys(args.set).length > 0) book.set(args.set);
+    io.out(args.json ? `${JSON.stringify(book.toJson(), null, 2)}\n` : `${formatTable(book.results())}\n`);
+    if (args.out !== undefined) {
+      await book.writeCopy(args.out);
+      io.err(`sheet: wrote ${args.out}\n`);
+    }
+    return 0;
+  } catch (e) {
+    if (e instanceof WorkbookReadError) {
+      io.err(`sheet: ${e.message}\n`);
+      return 1;
+    }
+    io.err(`sheet: ${(e as Error).message}\n`);
+    return 1;
+  }
+}

@@ -1,0 +1,251 @@
+/**
+ * The RATCHET worksheet functions as a HyperFormula function plugin.
+ *
+ * Every call goes to the one implementation in the registry (`SheetFunction.invoke`); what it
+ * throws goes through the one error mapping of src/adapter. This module only translates
+ * HyperFormula's values into the host-neutral `CellArg` shapes and back, and sizes array
+ * results.
+ *
+ * Sizing. HyperFormula fixes the size of an array result when it parses a formula, before any
+ * value is known, and fails when a result is larger than that size. The plugin therefore
+ * remembers, per formula cell and call, the size the call last produced (learned by evaluating
+ * the call on its arguments). A call that produces a different size than was reserved marks its
+ * cell for rebuilding; a larger result is held back as a temporary error so the engine never sees
+ * an oversized array. The engine (workbook.ts) then re-enters the marked formulas, HyperFormula
+ * re-sizes them from what was learned, and repeats until nothing changes — so a result grows or
+ * shrinks with its data, and a result that would overlap filled cells becomes #SPILL!.
+ */
+import {
+  ArraySize,
+  CellError,
+  EmptyValue,
+  ErrorType,
+  FunctionArgumentType,
+  FunctionPlugin,
+  HyperFormula,
+  SimpleRangeValue,
+  type FunctionPluginDefinition,
+  type ImplementedFunctions,
+} from 'hyperformula';
+import type { CellArg, CellErrorInput, CellResult, CellValueIn, SheetFunction } from '../functions/types.js';
+import { NAMESPACE } from './formula-text.js';
+
+/** A cell error as the one adapter mapping produces it. */
+export interface MappedCellError {
+  readonly code: string;
+  readonly message?: string | undefined;
+}
+
+/** The adapter's mapping from anything thrown to a cell error. */
+export type ErrorMapper = (e: unknown) => MappedCellError;
+
+/** Rows × columns of a value. */
+export interface Dims {
+  readonly rows: number;
+  readonly cols: number;
+}
+
+/** Per-engine sizing memory; see the module comment. */
+export interface SizingState {
+  /** Learned result size per call key. */
+  readonly learned: Map<string, Dims>;
+  /** Size reserved at the last parse per call key. */
+  readonly reserved: Map<string, Dims>;
+  /** Formula cells ("sheet:row:col") whose reserved size differs from their result. */
+  readonly dirty: Set<string>;
+  /** Number of RATCHET calls evaluated (for tests and diagnostics). */
+  calls: number;
+}
+
+const sizingByGraph = new WeakMap<object, SizingState>();
+
+/** The sizing state of a HyperFormula instance (created on first use). */
+export function sizingStateOf(hf: HyperFormula): SizingState {
+  const graph = hf.dependencyGraph as unknown as object;
+  let s = sizingByGraph.get(graph);
+  if (!s) {
+    s = { learned: new Map(), reserved: new Map(), dirty: new Set(), calls: 0 };
+    sizingByGraph.set(graph, s);
+  }
+  return s;
+}
+
+/** HyperFormula error type of an Excel error code. */
+const TYPE_OF_CODE: Readonly<Record<string, ErrorType>> = {
+  '#DIV/0!': ErrorType.DIV_BY_ZERO,
+  '#N/A': ErrorType.NA,
+  '#NAME?': ErrorType.NAME,
+  '#NUM!': ErrorType.NUM,
+  '#REF!': ErrorType.REF,
+  '#VALUE!': ErrorType.VALUE,
+  '#SPILL!': ErrorType.SPILL,
+  '#CYCLE!': ErrorType.CYCLE,
+};
+
+/** Excel error code of a HyperFormula error type. */
+export const CODE_OF_TYPE: Readonly<Record<string, string>> = {
+  DIV_BY_ZERO: '#DIV/0!',
+  NA: '#N/A',
+  NAME: '#NAME?',
+  NUM: '#NUM!',
+  REF: '#REF!',
+  VALUE: '#VALUE!',
+  SPILL: '#SPILL!',
+  CYCLE: '#CYCLE!',
+  ERROR: '#ERROR!',
+  LIC: '#LIC!',
+};
+
+/** A HyperFormula error from a mapped cell error; codes HyperFormula lacks keep their text in the message. */
+export function toHfError(e: MappedCellError): CellError {
+  const type = TYPE_OF_CODE[e.code];
+  if (type !== undefined) return new CellError(type, e.message);
+  return new CellError(ErrorType.ERROR, `${e.code}${e.message ? ` ${e.message}` : ''}`);
+}
+
+type Internal = unknown;
+
+/** One scalar of HyperFormula's internal values → a host-neutral cell value. */
+function scalarIn(v: Internal): CellValueIn {
+  if (v === EmptyValue || v === undefined || v === null) return null;
+  if (typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean') return v;
+  if (v instanceof CellError) {
+    const err: CellErrorInput = { kind: 'error', code: CODE_OF_TYPE[v.type] ?? '#ERROR!', ...(v.message ? { message: v.message } : {}) };
+    return err;
+  }
+  // Rich numbers (dates, currency, percent) carry the plain number in `val`.
+  if (typeof v === 'object' && 'val' in v && typeof (v as { val: unknown }).val === 'number') return (v as { val: number }).val;
+  return String(v);
+}
+
+/** An evaluated argument → CellArg: ranges and arrays become rows of cells. */
+export function toCellArg(v: Internal): CellArg {
+  if (v instanceof SimpleRangeValue) return v.data.map((row) => row.map(scalarIn));
+  return scalarIn(v);
+}
+
+function dimsOf(r: CellResult): Dims {
+  if (!Array.isArray(r)) return { rows: 1, cols: 1 };
+  return { rows: r.length, cols: r.reduce((m, row) => Math.max(m, row.length), 0) };
+}
+
+/** A result → HyperFormula value; ragged rows are padded with "" and an empty array is #CALC!-like #VALUE!. */
+function fromResult(r: CellResult, scalarCell: boolean): Internal {
+  if (!Array.isArray(r)) return r;
+  const d = dimsOf(r);
+  if (d.rows === 0 || d.cols === 0) return new CellError(ErrorType.VALUE, 'The result is empty.');
+  if (scalarCell && d.rows === 1 && d.cols === 1) return r[0]![0]!;
+  return SimpleRangeValue.onlyValues(r.map((row) => (row.length === d.cols ? [...row] : [...row, ...Array<string>(d.cols - row.length).fill('')])));
+}
+
+/** Message of the placeholder shown for one recalculation pass while a result is re-sized. */
+export const RESIZING_MESSAGE = 'The result changed size; the runner re-sizes it.';
+
+interface AstLike {
+  type: string;
+  procedureName?: string;
+  args?: AstLike[];
+}
+
+const astKeys = new WeakMap<object, string>();
+function astKey(ast: object): string {
+  let k = astKeys.get(ast);
+  if (k === undefined) {
+    k = JSON.stringify(ast, (key, value: unknown) => (key === 'leadingWhitespace' || key === 'internalWhitespace' ? undefined : value));
+    astKeys.set(ast, k);
+  }
+  return k;
+}
+
+interface StateLike {
+  formulaAddress: { sheet: number; row: number; col: number };
+  arraysFlag: boolean;
+}
+
+function cellKey(state: StateLike): string {
+  const a = state.formulaAddress;
+  return `${a.sheet}:${a.row}:${a.col}`;
+}
+
+let registered: FunctionPluginDefinition | undefined;
+let registeredNames: readonly string[] = [];
+
+/**
+ * Registers the given worksheet functions with HyperFormula (globally, replacing an earlier
+ * registration) under `RATCHET.<name>`. Cost O(number of functions).
+ * @param functions the registry's functions (SHEET_FUNCTIONS).
+ * @param toCellError the adapter's one mapping from thrown errors to cell errors.
+ */
+export function registerRatchetPlugin(functions: readonly SheetFunction[], toCellError: ErrorMapper): void {
+  if (registered) HyperFormula.unregisterFunctionPlugin(registered);
+
+  const implemented: ImplementedFunctions = {};
+  const byId = new Map<string, SheetFunction>();
+  for (const f of functions) {
+    const id = `${NAMESPACE}.${f.name.toUpperCase()}`;
+    byId.set(id, f);
+    implemented[id] = {
+      method: 'callRatchet',
+      sizeOfResultArrayMethod: 'sizeRatchet',
+      vectorizationForbidden: true,
+      parameters: f.params.map(() => ({ argumentType: FunctionArgumentType.ANY, optionalArg: true })),
+    };
+  }
+
+  class RatchetPlugin extends FunctionPlugin {
+    static override implementedFunctions = implemented;
+
+    /** Evaluates the call: arguments → CellArg, the registry implementation, result or mapped error. */
+    callRatchet(ast: AstLike, state: StateLike): Internal {
+      const fn = byId.get((ast.procedureName ?? '').toUpperCase());
+      if (!fn) return new CellError(ErrorType.NAME, `Unknown function ${ast.procedureName}.`);
+      const sizing = sizingStateOf({ dependencyGraph: this.dependencyGraph } as unknown as HyperFormula);
+      sizing.calls++;
+      const asts = ast.args ?? [];
+      if (asts.length > fn.params.length) {
+        return new CellError(ErrorType.NA, `${NAMESPACE}.${fn.name} takes at most ${fn.params.length} arguments; got ${asts.length}.`);
+      }
+      const argState = { ...state, arraysFlag: true };
+      const args: CellArg[] = fn.params.map((_p, i) => {
+        const a = asts[i];
+        if (a === undefined || a.type === 'EMPTY') return undefined;
+        return toCellArg(this.evaluateAst(a as never, argState as never));
+      });
+      let result: CellResult;
+      try {
+        result = fn.invoke(args);
+      } catch (e) {
+        return toHfError(toCellError(e));
+      }
+      const key = `${cellKey(state)}|${astKey(ast)}`;
+      const got = dimsOf(result);
+      sizing.learned.set(key, got);
+      const reserved = sizing.reserved.get(key);
+      if (reserved !== undefined && (reserved.rows !== got.rows || reserved.cols !== got.cols)) {
+        sizing.dirty.add(cellKey(state));
+        if (got.rows > reserved.rows || got.cols > reserved.cols) return new CellError(ErrorType.ERROR, RESIZING_MESSAGE);
+      }
+      return fromResult(result, reserved !== undefined && reserved.rows === 1 && reserved.cols === 1);
+    }
+
+    /** Reserves the size this call produced last time here, or one cell when unknown. */
+    sizeRatchet(ast: AstLike, state: StateLike): ArraySize {
+      const sizing = sizingStateOf({ dependencyGraph: this.dependencyGraph } as unknown as HyperFormula);
+      const key = `${cellKey(state)}|${astKey(ast)}`;
+      const d = sizing.learned.get(key) ?? { rows: 1, cols: 1 };
+      sizing.reserved.set(key, d);
+      return d.rows === 1 && d.cols === 1 ? ArraySize.scalar() : new ArraySize(d.cols, d.rows);
+    }
+  }
+
+  const translations: Record<string, string> = {};
+  for (const id of byId.keys()) translations[id] = id;
+  HyperFormula.registerFunctionPlugin(RatchetPlugin as unknown as FunctionPluginDefinition, { enGB: translations, enUS: translations });
+  registered = RatchetPlugin as unknown as FunctionPluginDefinition;
+  registeredNames = [...byId.keys()];
+}
+
+/** Names currently registered (e.g. "RATCHET.FIT"). */
+export function registeredFunctionNames(): readonly string[] {
+  return registeredNames;
+}

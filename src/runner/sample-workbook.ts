@@ -1,0 +1,69 @@
+/**
+ * Writes one sample as an .xlsx file: an "About" sheet with the scenario and cautions, and a
+ * "Data" sheet with the invented data and live RATCHET formulas in the stored form Excel reads
+ * (`_xldudf_RATCHET_…`). Spilled results are written as array formulas over the range of their
+ * expected result, with the expected values cached, so the file shows numbers even before the
+ * add-in recalculates it.
+ */
+import ExcelJS from 'exceljs';
+import { cellName, parseCellRef } from './address.js';
+import { toStoredForm } from './formula-text.js';
+import type { ExpectedCell, Sample } from './samples.js';
+
+/** Fixed document dates keep regenerated files byte-stable apart from the zip container. */
+const FIXED_DATE = new Date(Date.UTC(2026, 0, 1));
+
+function cached(v: ExpectedCell): ExcelJS.CellValue {
+  if (typeof v === 'string' && /^#[A-Z/0-9]+[!?A]$/.test(v)) return { error: v } as ExcelJS.CellErrorValue;
+  return v;
+}
+
+/** Writes `sample` to `path`. */
+export async function writeSampleWorkbook(sample: Sample, path: string): Promise<void> {
+  const wb = new ExcelJS.Workbook();
+  wb.creator = 'Ratchet samples (npm run samples)';
+  wb.created = FIXED_DATE;
+  wb.modified = FIXED_DATE;
+
+  const about = wb.addWorksheet('About');
+  about.getColumn(1).width = 120;
+  about.getCell('A1').value = sample.title;
+  about.getCell('A1').font = { bold: true, size: 14 };
+  sample.about.forEach((line, i) => {
+    const c = about.getCell(i + 3, 1);
+    c.value = line;
+    c.alignment = { wrapText: true, vertical: 'top' };
+  });
+
+  const ws = wb.addWorksheet('Data');
+  for (const [col, text] of Object.entries(sample.headers)) {
+    const c = ws.getCell(`${col}1`);
+    c.value = text;
+    c.font = { bold: true };
+    ws.getColumn(col).width = Math.max(11, text.length + 2);
+  }
+  for (const [col, values] of Object.entries(sample.columns)) {
+    values.forEach((v, i) => {
+      if (v !== null) ws.getCell(`${col}${i + 2}`).value = v;
+    });
+  }
+  for (const [cell, v] of Object.entries(sample.labels)) ws.getCell(cell).value = v;
+  for (const f of sample.formulas) {
+    const a = parseCellRef(`Data!${f.cell}`);
+    const rows = f.expected.length;
+    const cols = f.expected[0]!.length;
+    const formula = toStoredForm(f.formula.replace(/^=/, ''));
+    const top = ws.getCell(a.row + 1, a.col + 1);
+    const result = cached(f.expected[0]![0]!);
+    top.value = (
+      rows === 1 && cols === 1 ? { formula, result } : { formula, result, shareType: 'array', ref: `${f.cell}:${cellName(a.row + rows - 1, a.col + cols - 1)}` }
+    ) as ExcelJS.CellFormulaValue;
+    f.expected.forEach((row, r) =>
+      row.forEach((v, c) => {
+        if (r > 0 || c > 0) ws.getCell(a.row + r + 1, a.col + c + 1).value = cached(v);
+      }),
+    );
+  }
+  ws.views = [{ state: 'frozen', ySplit: 1 }];
+  await wb.xlsx.writeFile(path);
+}

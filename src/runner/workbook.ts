@@ -1,0 +1,414 @@
+/**
+ * A workbook evaluated headlessly: exceljs reads the file, HyperFormula evaluates every formula
+ * on every sheet, with the RATCHET functions registered as a plugin (plugin.ts).
+ *
+ * The file is never modified. Formulas are read in the typed form (`RATCHET.FIT(`) or the stored
+ * form Excel writes (`_xldudf_RATCHET_FIT(`), including array-formula and shared-formula cells as
+ * exceljs reports them; cells inside an array formula's range hold cached results in the file and
+ * are cleared before evaluation so the fresh result can spill there.
+ */
+import ExcelJS from 'exceljs';
+import { DetailedCellError, HyperFormula, type RawCellContent, type SimpleCellAddress } from 'hyperformula';
+import { cellName, parseCellRef, parseRange, qualifiedName } from './address.js';
+import { callsRatchet, toStoredForm, toTypedForm } from './formula-text.js';
+import { sizingStateOf } from './plugin.js';
+
+/** A cell value in the runner's JSON: numbers, text, logicals, null for blank, error codes as text. */
+export type JsonCell = number | string | boolean | null;
+
+/** What an input cell may be set to. A string starting with "=" is a formula. */
+export type InputValue = number | string | boolean | null;
+
+/** One formula cell after evaluation. */
+export interface FormulaResult {
+  readonly sheet: string;
+  /** "B7" of the formula cell (the top-left of its spill). */
+  readonly cell: string;
+  /** Formula in the typed form, with a leading "=". */
+  readonly formula: string;
+  /** Values of the result: one row of one cell for a scalar, the spilled block otherwise. */
+  readonly values: JsonCell[][];
+  /** Error messages by "Sheet!A1" for error cells of this result. */
+  readonly messages: Readonly<Record<string, string>>;
+  /** True when the formula calls a RATCHET function. */
+  readonly ratchet: boolean;
+}
+
+/** The runner's JSON document: "Sheet!A1" → value, plus messages of error cells. */
+export interface RunnerJson {
+  [address: string]: JsonCell | Record<string, string>;
+  messages: Record<string, string>;
+}
+
+/** Engine settings: Excel-like dynamic arrays, full precision in results. */
+const HF_CONFIG = {
+  licenseKey: 'gpl-v3',
+  useArrayArithmetic: true,
+  smartRounding: false,
+  evaluateNullToZero: true,
+  leapYear1900: true,
+  maxRows: 1048576,
+  maxColumns: 16384,
+} as const;
+
+/** Most re-sizing passes per recalculation (each pass re-enters only the cells that changed size). */
+const MAX_PASSES = 25;
+
+/** Excel serial day number of a Date (1900 date system, UTC). */
+function excelSerial(d: Date): number {
+  return d.getTime() / 86400000 + 25569;
+}
+
+/** exceljs cell value → HyperFormula raw content. Text is kept as text ("12" stays text). */
+function rawOfValue(v: ExcelJS.CellValue): RawCellContent {
+  if (v === null || v === undefined) return null;
+  if (typeof v === 'number' || typeof v === 'boolean') return v;
+  if (typeof v === 'string') return `'${v}`;
+  if (v instanceof Date) return excelSerial(v);
+  if (typeof v === 'object') {
+    if ('richText' in v && Array.isArray(v.richText)) return `'${v.richText.map((r) => r.text).join('')}`;
+    if ('error' in v) return String(v.error);
+    if ('text' in v && typeof v.text === 'string') return `'${v.text}`;
+  }
+  return `'${String(v)}`;
+}
+
+/** HyperFormula cell value → JSON cell. */
+function jsonOf(v: unknown): JsonCell {
+  if (v === null || v === undefined) return null;
+  if (v instanceof DetailedCellError) return v.value;
+  if (typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean') return v;
+  return String(v);
+}
+
+/** Parses a value typed on the command line: "" blank, numbers, TRUE/FALSE, "=…" formula, else text. */
+export function parseInputValue(text: string): InputValue {
+  const t = text.trim();
+  if (t === '') return null;
+  if (t.startsWith('=')) return t;
+  if (/^(true|false)$/i.test(t)) return t.toLowerCase() === 'true';
+  const n = Number(t);
+  if (Number.isFinite(n) && /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return n;
+  return text;
+}
+
+/** Thrown for a file the runner cannot read as a workbook; the message is meant for users. */
+export class WorkbookReadError extends Error {
+  override readonly name = 'WorkbookReadError';
+}
+
+/** A formula value as exceljs reports it, with the array/shared attributes its typings omit. */
+interface FormulaCellValue {
+  formula?: string;
+  sharedFormula?: string;
+  result?: unknown;
+  shareType?: string;
+  ref?: string;
+}
+
+/** A workbook loaded into the engine. */
+export class EvaluatedWorkbook {
+  private constructor(
+    private readonly hf: HyperFormula,
+    private readonly source: ExcelJS.Workbook,
+    private readonly sheetNames: readonly string[],
+  ) {}
+
+  /**
+   * Reads an .xlsx file and evaluates it. Cost: reading plus one evaluation of every formula
+   * (array results re-sized in a few more passes over the formulas that spill).
+   * @throws WorkbookReadError when the file is missing, unreadable or not an .xlsx workbook.
+   */
+  static async fromFile(path: string): Promise<EvaluatedWorkbook> {
+    const wb = new ExcelJS.Workbook();
+    try {
+      await wb.xlsx.readFile(path);
+    } catch (e) {
+      const code = (e as { code?: string }).code;
+      const why =
+        code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : code === 'EACCES' ? 'permission denied' : 'it is not an .xlsx workbook (Excel 2007+ Open XML) or it is damaged';
+      throw new WorkbookReadError(`Cannot read "${path}": ${why}.`);
+    }
+    if (wb.worksheets.length === 0) throw new WorkbookReadError(`Cannot read "${path}": it has no worksheets.`);
+    return EvaluatedWorkbook.fromExcel(wb);
+  }
+
+  /** Evaluates an exceljs workbook held in memory (it is not modified). */
+  static fromExcel(wb: ExcelJS.Workbook): EvaluatedWorkbook {
+    const sheets: Record<string, RawCellContent[][]> = {};
+    const names: string[] = [];
+    for (const ws of wb.worksheets) {
+      names.push(ws.name);
+      const grid: RawCellContent[][] = [];
+      const cleared = new Set<string>();
+      const put = (r: number, c: number, v: RawCellContent) => {
+        while (grid.length <= r) grid.push([]);
+        const row = grid[r]!;
+        while (row.length <= c) row.push(null);
+        row[c] = v;
+      };
+      ws.eachRow({ includeEmpty: false }, (row) => {
+        row.eachCell({ includeEmpty: false }, (cell) => {
+          const r = Number(cell.row) - 1;
+          const c = Number(cell.col) - 1;
+          const v = cell.value as ExcelJS.CellValue;
+          if (v !== null && typeof v === 'object' && ('formula' in v || 'sharedFormula' in v)) {
+            const text = cell.formula;
+            if (typeof text === 'string' && text !== '') {
+              put(r, c, `=${toTypedForm(text.replace(/^=/, ''))}`);
+              const fv = v as FormulaCellValue;
+              if (fv.shareType === 'array' && typeof fv.ref === 'string') {
+                const g = parseRange(fv.ref);
+                for (let rr = g.top; rr <= g.bottom; rr++)
+                  for (let cc = g.left; cc <= g.right; cc++) if (rr !== r || cc !== c) cleared.add(`${rr}:${cc}`);
+              }
+              return;
+            }
+            put(r, c, null);
+            return;
+          }
+          put(r, c, rawOfValue(v));
+        });
+      });
+      for (const k of cleared) {
+        const [rr, cc] = k.split(':').map(Number) as [number, number];
+        const row = grid[rr];
+        if (row && cc < row.length && !(typeof row[cc] === 'string' && (row[cc] as string).startsWith('='))) row[cc] = null;
+      }
+      sheets[ws.name] = grid;
+    }
+    const hf = HyperFormula.buildFromSheets(sheets, HF_CONFIG);
+    const book = new EvaluatedWorkbook(hf, wb, names);
+    book.settle();
+    return book;
+  }
+
+  /** Sheet names in workbook order. */
+  get sheets(): readonly string[] {
+    return this.sheetNames;
+  }
+
+  /** Number of RATCHET calls evaluated so far (each pass counts). */
+  get ratchetCalls(): number {
+    return sizingStateOf(this.hf).calls;
+  }
+
+  private address(ref: string): SimpleCellAddress {
+    const p = parseCellRef(ref);
+    const sheet = this.hf.getSheetId(p.sheet);
+    if (sheet === undefined) throw new Error(`${ref}: there is no sheet named "${p.sheet}" (sheets: ${this.sheetNames.join(', ')})`);
+    return { sheet, row: p.row, col: p.col };
+  }
+
+  /**
+   * Sets input cells (a formula when the text starts with "=") and recalculates everything that
+   * depends on them, re-sizing array results. Typed and stored forms are both accepted.
+   * @param changes "Sheet!A1" → value.
+   * @throws Error naming a malformed reference, an unknown sheet, or a cell inside a spilled result.
+   */
+  set(changes: Readonly<Record<string, InputValue>>): void {
+    const entries = Object.entries(changes).map(([ref, v]) => {
+      const addr = this.address(ref);
+      const raw: RawCellContent = typeof v === 'string' ? (v.startsWith('=') ? `=${toTypedForm(v.slice(1))}` : `'${v}`) : v;
+      if (this.hf.isCellPartOfArray(addr) && this.hf.getCellFormula(addr) === undefined) {
+        throw new Error(`${ref}: the cell holds part of a spilled result; change the formula at the top-left of the result instead`);
+      }
+      return { addr, raw, ref, v };
+    });
+    this.hf.batch(() => {
+      for (const e of entries) this.hf.setCellContents(e.addr, [[e.raw]]);
+    });
+    for (const e of entries) this.recordSet(e.ref, e.v);
+    this.settle();
+  }
+
+  private readonly setLog: [string, InputValue][] = [];
+  private recordSet(ref: string, v: InputValue): void {
+    this.setLog.push([ref, v]);
+  }
+
+  /** Re-enters formulas whose results changed size until every array result has its size. */
+  private settle(): void {
+    const sizing = sizingStateOf(this.hf);
+    const probed = new Set<string>();
+    for (let pass = 0; pass < MAX_PASSES; pass++) {
+      const todo = new Set(sizing.dirty);
+      sizing.dirty.clear();
+      // A result held at #SPILL! is never evaluated, so its size cannot shrink on its own: forget
+      // its size once and let one evaluation learn it again.
+      for (const k of this.spilledRatchetCells()) {
+        if (probed.has(k)) continue;
+        probed.add(k);
+        for (const key of [...sizing.learned.keys()]) if (key.startsWith(`${k}|`)) sizing.learned.delete(key);
+        todo.add(k);
+      }
+      if (todo.size === 0) return;
+      this.hf.batch(() => {
+        for (const k of todo) {
+          const [sheet, row, col] = k.split(':').map(Number) as [number, number, number];
+          const addr = { sheet, row, col };
+          const f = this.hf.getCellFormula(addr);
+          if (f !== undefined) this.hf.setCellContents(addr, [[f]]);
+        }
+      });
+    }
+  }
+
+  private *spilledRatchetCells(): Generator<string> {
+    for (const { addr, formula } of this.formulaCells()) {
+      if (!callsRatchet(formula)) continue;
+      const v = this.hf.getCellValue(addr);
+      if (v instanceof DetailedCellError && v.type === 'SPILL') yield `${addr.sheet}:${addr.row}:${addr.col}`;
+    }
+  }
+
+  private *formulaCells(): Generator<{ addr: SimpleCellAddress; formula: string }> {
+    for (let sheet = 0; sheet < this.sheetNames.length; sheet++) {
+      const dim = this.hf.getSheetDimensions(sheet);
+      for (let row = 0; row < dim.height; row++) {
+        for (let col = 0; col < dim.width; col++) {
+          const addr = { sheet, row, col };
+          const f = this.hf.getCellFormula(addr);
+          if (f !== undefined) yield { addr, formula: f };
+        }
+      }
+    }
+  }
+
+  /** Rows × columns an evaluated formula spills into (1 × 1 for a scalar). */
+  private spillSize(addr: SimpleCellAddress): { rows: number; cols: number } {
+    const v = this.hf.dependencyGraph.getCell(addr) as unknown as { width?: unknown; height?: unknown } | undefined;
+    if (v && typeof v.width === 'number' && typeof v.height === 'number' && !(this.hf.getCellValue(addr) instanceof DetailedCellError)) {
+      return { rows: v.height, cols: v.width };
+    }
+    return { rows: 1, cols: 1 };
+  }
+
+  /** The value of one cell as JSON ("Sheet!A1"). */
+  value(ref: string): JsonCell {
+    return jsonOf(this.hf.getCellValue(this.address(ref)));
+  }
+
+  /** The error message of one cell, if it holds an error with a message. */
+  message(ref: string): string | undefined {
+    const v = this.hf.getCellValue(this.address(ref));
+    return v instanceof DetailedCellError && v.message ? v.message : undefined;
+  }
+
+  /**
+   * A block of values: `count` rows × `cols` columns from "Sheet!A1".
+   * Convenience for tests and the demo.
+   */
+  block(ref: string, rows: number, cols: number): JsonCell[][] {
+    const a = this.address(ref);
+    const out: JsonCell[][] = [];
+    for (let r = 0; r < rows; r++) {
+      const row: JsonCell[] = [];
+      for (let c = 0; c < cols; c++) row.push(jsonOf(this.hf.getCellValue({ sheet: a.sheet, row: a.row + r, col: a.col + c })));
+      out.push(row);
+    }
+    return out;
+  }
+
+  /** The spilled result anchored at "Sheet!A1" (one row of one cell for a scalar). */
+  result(ref: string): JsonCell[][] {
+    const a = this.address(ref);
+    const s = this.spillSize(a);
+    return this.block(ref, s.rows, s.cols);
+  }
+
+  /** Every formula cell with its result, sheet by sheet, row by row. */
+  results(): FormulaResult[] {
+    const out: FormulaResult[] = [];
+    for (const { addr, formula } of this.formulaCells()) {
+      const sheet = this.sheetNames[addr.sheet]!;
+      const s = this.spillSize(addr);
+      const values: JsonCell[][] = [];
+      const messages: Record<string, string> = {};
+      for (let r = 0; r < s.rows; r++) {
+        const row: JsonCell[] = [];
+        for (let c = 0; c < s.cols; c++) {
+          const at = { sheet: addr.sheet, row: addr.row + r, col: addr.col + c };
+          const v = this.hf.getCellValue(at);
+          if (v instanceof DetailedCellError && v.message) messages[qualifiedName(sheet, at.row, at.col)] = v.message;
+          row.push(jsonOf(v));
+        }
+        values.push(row);
+      }
+      out.push({ sheet, cell: cellName(addr.row, addr.col), formula, values, messages, ratchet: callsRatchet(formula) });
+    }
+    return out;
+  }
+
+  /** The runner's JSON: every formula cell and every cell its result spills into. */
+  toJson(): RunnerJson {
+    const json: RunnerJson = { messages: {} };
+    for (const res of this.results()) {
+      const a = this.address(`${quoteSheet(res.sheet)}!${res.cell}`);
+      res.values.forEach((row, r) => row.forEach((v, c) => (json[qualifiedName(res.sheet, a.row + r, a.col + c)] = v)));
+      Object.assign(json.messages, res.messages);
+    }
+    // "messages" last, so the document reads values first.
+    const { messages, ...values } = json;
+    return { ...values, messages } as RunnerJson;
+  }
+
+  /**
+   * Writes a copy of the workbook with the current inputs, formulas kept in the stored form
+   * (`_xldudf_RATCHET_…`), computed values cached, and spilled results written as array formulas
+   * over their current range. The source file is not touched.
+   */
+  async writeCopy(path: string): Promise<void> {
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.load((await this.source.xlsx.writeBuffer()) as ArrayBuffer);
+    for (const [ref, v] of this.setLog) {
+      const p = parseCellRef(ref);
+      const ws = wb.getWorksheet(p.sheet)!;
+      const cell = ws.getCell(p.row + 1, p.col + 1);
+      if (typeof v === 'string' && v.startsWith('=')) cell.value = { formula: toStoredForm(v.slice(1)) } as ExcelJS.CellFormulaValue;
+      else cell.value = v;
+    }
+    const cellOut = (v: JsonCell): ExcelJS.CellValue => {
+      if (typeof v === 'string' && /^#[A-Z/0-9!?]+[!?A]$/.test(v)) return { error: v } as ExcelJS.CellErrorValue;
+      return v;
+    };
+    for (const ws of wb.worksheets) {
+      // Old array ranges: their cached cells are cleared before fresh results are written.
+      ws.eachRow({ includeEmpty: false }, (row) =>
+        row.eachCell({ includeEmpty: false }, (cell) => {
+          const v = cell.value as FormulaCellValue | null;
+          if (v && typeof v === 'object' && v.shareType === 'array' && typeof v.ref === 'string') {
+            const g = parseRange(v.ref);
+            for (let r = g.top; r <= g.bottom; r++) for (let c = g.left; c <= g.right; c++) if (r !== g.top || c !== g.left) ws.getCell(r + 1, c + 1).value = null;
+          }
+        }),
+      );
+    }
+    for (const res of this.results()) {
+      const ws = wb.getWorksheet(res.sheet)!;
+      const a = parseCellRef(`${quoteSheet(res.sheet)}!${res.cell}`);
+      const stored = toStoredForm(res.formula.replace(/^=/, ''));
+      const first = res.values[0]![0]!;
+      const result = first === null ? undefined : cellOut(first);
+      const spills = res.values.length > 1 || res.values[0]!.length > 1;
+      const top = ws.getCell(a.row + 1, a.col + 1);
+      top.value = (
+        spills
+          ? { formula: stored, result, shareType: 'array', ref: `${res.cell}:${cellName(a.row + res.values.length - 1, a.col + res.values[0]!.length - 1)}` }
+          : { formula: stored, result }
+      ) as ExcelJS.CellFormulaValue;
+      res.values.forEach((row, r) =>
+        row.forEach((v, c) => {
+          if (r === 0 && c === 0) return;
+          ws.getCell(a.row + r + 1, a.col + c + 1).value = v === null ? null : cellOut(v);
+        }),
+      );
+    }
+    await wb.xlsx.writeFile(path);
+  }
+}
+
+/** A sheet name quoted for a reference when it needs quotes. */
+export function quoteSheet(name: string): string {
+  return /^[A-Za-z_][A-Za-z0-9_.]*$/.test(name) ? name : `'${name.replace(/'/g, "''")}'`;
+}
