@@ -276,7 +276,7 @@ def main():
                 lab[int(i)] = f
         labels.append({"n": n, "folds": F, "seed": s, "repeat": r, "fold": lab})
     holds = []
-    for n, p, s in [(10, 0.25, 0), (10, 0.25, 1), (37, 0.3, 11), (30, 0.1, 0)]:
+    for n, p, s in [(10, 0.25, 0), (10, 0.25, 1), (37, 0.3, 11), (25, 0.28, 0)]:
         _, te = holdout_indices(n, p, s)
         holds.append({"n": n, "testFraction": p, "seed": s, "test": [int(i) for i in te]})
     write(

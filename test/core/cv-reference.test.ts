@@ -1,0 +1,84 @@
+/**
+ * Cross-validation scores against an outside reference computed fold by fold (fixture
+ * test/reference/fixtures/cv_datasets.json, written by `/usr/bin/python3 test/reference/gen_cv.py`
+ * with scikit-learn 1.2.1, SciPy 1.10.1, NumPy 1.24.2 and R 4.2.2 — versions recorded in the file):
+ *  - data: R's datasets package — `cars` (speed → dist), `pressure` (temperature → pressure),
+ *    `airquality` (Temp → Ozone, complete cases), exported by Rscript inside the generator;
+ *  - folds: seed 0 from `sklearn.model_selection.KFold(n_splits=F, shuffle=False)` and
+ *    `train_test_split(shuffle=False)`; seeded cases from the generator's own Python SplitMix64 and
+ *    Fisher–Yates (an implementation independent of src/core/prng.ts);
+ *  - candidate 0: `sklearn.isotonic.IsotonicRegression(out_of_bounds="clip")` on each training set;
+ *  - K ≥ 2: the knot model solved by `scipy.optimize.lsq_linear(method="bvls")` on the
+ *    cumulative-step form, K knots evenly spaced over each training x range (numpy.linspace),
+ *    predictions by numpy.interp (flat beyond the ends); hold-out R² by sklearn.metrics.r2_score.
+ * Tolerance: 1e-9 relative (absolute 1e-9 near zero), as issue 3 asks.
+ */
+import { describe, expect, it } from 'vitest';
+import { crossValidate, holdoutValidate, type CrossValidationResult } from '../../src/core/index.js';
+import fixture from '../reference/fixtures/cv_datasets.json' with { type: 'json' };
+
+const REL = 1e-9;
+
+interface RefScore {
+  knots: number;
+  cvRmse: number;
+  cvSe: number;
+  cvR2: number;
+  cvMae: number;
+  trainRmse: number;
+  foldRmse: number[];
+}
+interface RefCase {
+  name: string;
+  method: 'k-fold' | 'holdout';
+  x: number[];
+  y: number[];
+  w: number[] | null;
+  seed: number;
+  folds?: number;
+  repeats?: number;
+  testFraction?: number;
+  testRows?: number;
+  candidates: number[];
+  skipped: number[];
+  scores: RefScore[];
+}
+
+const cases = (fixture as unknown as { cases: RefCase[] }).cases;
+
+function runCase(c: RefCase): CrossValidationResult {
+  const common = { candidates: c.candidates, seed: c.seed, ...(c.w ? { weights: c.w } : {}) };
+  return c.method === 'k-fold'
+    ? crossValidate(c.x, c.y, { ...common, folds: c.folds!, repeats: c.repeats! })
+    : holdoutValidate(c.x, c.y, { ...common, testFraction: c.testFraction! });
+}
+
+describe('cross-validation = scikit-learn / SciPy fold by fold (cv_datasets.json)', () => {
+  it('the fixture covers K-fold with seed 0, weights with zeros, seeded repeats and hold-out', () => {
+    expect(cases.length).toBeGreaterThanOrEqual(10);
+    expect(cases.some((c) => c.method === 'k-fold' && c.seed === 0)).toBe(true);
+    expect(cases.some((c) => c.w?.includes(0))).toBe(true);
+    expect(cases.some((c) => (c.repeats ?? 1) > 1 && c.seed !== 0)).toBe(true);
+    expect(cases.some((c) => c.method === 'holdout')).toBe(true);
+  });
+
+  for (const c of cases) {
+    const label = `${c.name} (${c.method}, seed ${c.seed}, candidates ${c.candidates.join(',')})`;
+    it(`${label}: cvRmse, cvSe, cvR2, cvMae, trainRmse and every fold's RMSE match`, () => {
+      const r = runCase(c);
+      expect(r.method).toBe(c.method);
+      expect(r.n).toBe(c.w ? c.w.filter((v) => v > 0).length : c.x.length);
+      if (c.method === 'holdout') expect(r.testRows).toBe(c.testRows);
+      expect(r.scores.map((s) => s.knots)).toEqual(c.candidates);
+      r.scores.forEach((s, i) => {
+        const e = c.scores[i]!;
+        expect(s.cvRmse, `K=${s.knots} cvRmse`).toBeCloseRel(e.cvRmse, REL);
+        expect(s.cvSe, `K=${s.knots} cvSe`).toBeCloseRel(e.cvSe, REL);
+        expect(s.cvR2, `K=${s.knots} cvR2`).toBeCloseRel(e.cvR2, REL);
+        expect(s.cvMae, `K=${s.knots} cvMae`).toBeCloseRel(e.cvMae, REL);
+        expect(s.trainRmse, `K=${s.knots} trainRmse`).toBeCloseRel(e.trainRmse, REL);
+        expect(s.foldRmse, `K=${s.knots} foldRmse`).toBeAllCloseRel(e.foldRmse, REL);
+      });
+    });
+  }
+});

@@ -1,0 +1,125 @@
+/**
+ * SplitMix64 (src/core/prng.ts), the generator behind every shuffled split. Checked against:
+ *  - the published sequence of the Rosetta Code task "Pseudo-random numbers/Splitmix64" (state
+ *    1234567; also reproduced by the Python generator in cv_prng.json),
+ *  - an independent Python implementation in test/reference/gen_cv.py (fixture cv_prng.json,
+ *    `/usr/bin/python3 test/reference/gen_cv.py`),
+ *  - a BigInt transcription of the algorithm (Steele, Lea & Flood 2014) written in this test, on
+ *    random 64-bit states (fast-check).
+ */
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { SplitMix64, checkSeed, RatchetError } from '../../src/core/index.js';
+import prng from '../reference/fixtures/cv_prng.json' with { type: 'json' };
+
+const M64 = (1n << 64n) - 1n;
+
+/** The algorithm in BigInt arithmetic, straight from its definition. */
+function bigSplitMix(state: bigint): () => bigint {
+  let s = state & M64;
+  return () => {
+    s = (s + 0x9e3779b97f4a7c15n) & M64;
+    let z = s;
+    z = ((z ^ (z >> 30n)) * 0xbf58476d1ce4e5b9n) & M64;
+    z = ((z ^ (z >> 27n)) * 0x94d049bb133111ebn) & M64;
+    return z ^ (z >> 31n);
+  };
+}
+
+describe('SplitMix64 outputs', () => {
+  it('state 1234567 gives the published first five outputs (Rosetta Code, "Pseudo-random numbers/Splitmix64")', () => {
+    const g = SplitMix64.fromSeed(1234567);
+    const got = Array.from({ length: 5 }, () => g.nextBigInt());
+    expect(got).toEqual([6457827717110365317n, 3203168211198807973n, 9817491932198370423n, 4593380528125082431n, 16408922859458223821n]);
+    expect(prng.published.outputs.map(BigInt)).toEqual(got); // the Python generator agrees
+  });
+
+  it('the first 8 outputs for seeds 0, 1, 42 and 2^53 − 1 equal the Python implementation (cv_prng.json)', () => {
+    for (const [seed, outputs] of Object.entries(prng.sequences)) {
+      const g = SplitMix64.fromSeed(Number(seed));
+      expect(outputs.map(() => g.nextBigInt().toString()), `seed ${seed}`).toEqual(outputs);
+    }
+  });
+
+  it('the 32-bit-halves arithmetic equals BigInt arithmetic on any 64-bit state (property)', () => {
+    fc.assert(
+      fc.property(fc.bigInt({ min: 0n, max: M64 }), (state) => {
+        const g = new SplitMix64(Number(state >> 32n), Number(state & 0xffffffffn));
+        const ref = bigSplitMix(state);
+        for (let k = 0; k < 20; k++) {
+          const v = g.nextBigInt();
+          if (v !== ref()) return false;
+          if ((BigInt(g.hi) << 32n) + BigInt(g.lo) !== v) return false;
+        }
+        return true;
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it('states whose low half overflows on the increment carry into the high half', () => {
+    // 0xFFFFFFFF in the low half + 0x7F4A7C15 must carry.
+    const state = (5n << 32n) | 0xffffffffn;
+    const g = new SplitMix64(5, 0xffffffff);
+    expect(g.nextBigInt()).toBe(bigSplitMix(state)());
+  });
+});
+
+describe('SplitMix64.below (uniform whole numbers without bias)', () => {
+  it('equals the rule "high 32 bits, reject below 2^32 mod m, then mod m" written out in BigInt', () => {
+    for (const m of [1, 2, 3, 7, 10, 1000, 2 ** 31 + 1, 3_000_000_000, 2 ** 32]) {
+      const g = SplitMix64.fromSeed(99);
+      const ref = bigSplitMix(99n);
+      const threshold = 2n ** 32n % BigInt(m);
+      for (let k = 0; k < 50; k++) {
+        let r: bigint;
+        do r = ref() >> 32n;
+        while (r < threshold);
+        expect(g.below(m)).toBe(Number(r % BigInt(m)));
+      }
+    }
+  });
+
+  it('for m = 3·2^30 the rejection branch is exercised and results stay in range', () => {
+    // 2^32 mod 3·2^30 = 2^30: a quarter of the draws are rejected.
+    const m = 3 * 2 ** 30;
+    const g = SplitMix64.fromSeed(5);
+    let seen = 0;
+    for (let k = 0; k < 2000; k++) {
+      const v = g.below(m);
+      expect(v).toBeGreaterThanOrEqual(0);
+      expect(v).toBeLessThan(m);
+      seen++;
+    }
+    expect(seen).toBe(2000);
+  });
+
+  it('is roughly uniform: 60000 draws on 0…5 give each value 10000 ± 400 times (about 4.4 sd)', () => {
+    const g = SplitMix64.fromSeed(2024);
+    const counts = new Array(6).fill(0);
+    for (let k = 0; k < 60000; k++) counts[g.below(6)]++;
+    for (const c of counts) expect(Math.abs(c - 10000)).toBeLessThan(400);
+  });
+});
+
+describe('seeds', () => {
+  it('accept whole numbers 0 … 2^53 − 1 and map them to the 64-bit state exactly', () => {
+    expect(checkSeed(0)).toBe(0);
+    expect(checkSeed(Number.MAX_SAFE_INTEGER)).toBe(Number.MAX_SAFE_INTEGER);
+    const g = SplitMix64.fromSeed(Number.MAX_SAFE_INTEGER);
+    expect(g.nextBigInt()).toBe(bigSplitMix(2n ** 53n - 1n)());
+  });
+
+  it('reject negative, fractional, unsafe and non-numbers with BAD_OPTION naming the seed', () => {
+    for (const bad of [-1, 1.5, 2 ** 53, NaN, Infinity, '3' as unknown as number]) {
+      expect(() => checkSeed(bad)).toThrow(RatchetError);
+      expect(() => SplitMix64.fromSeed(bad)).toThrow(/^seed: needs a whole number from 0 to 9007199254740991; got /);
+    }
+    try {
+      checkSeed(-1);
+    } catch (e) {
+      expect((e as RatchetError).code).toBe('BAD_OPTION');
+      expect((e as RatchetError).message).toBe('seed: needs a whole number from 0 to 9007199254740991; got -1.');
+    }
+  });
+});
