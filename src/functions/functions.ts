@@ -38,7 +38,7 @@ export const readValueTypes: ValueTypeReader = (sheet, range) =>
 
 function createWorker(): WorkerLike {
   if (typeof Worker === 'undefined') return inProcessWorker();
-  return new Worker(new URL('./worker.ts', import.meta.url)) as unknown as WorkerLike;
+  return new Worker(/* webpackChunkName: "worker" */ new URL('./worker.ts', import.meta.url)) as unknown as WorkerLike;
 }
 
 let client: WorkerClient | undefined;

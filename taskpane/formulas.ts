@@ -1,0 +1,155 @@
+/**
+ * The formulas the task pane inserts or offers to copy: RATCHET.KNOTS, PREDICT, STATS, CV and
+ * BESTK over the chosen ranges, and the size of the area each result spills into.
+ * Pure functions, no host APIs.
+ */
+
+/** Direction codes as the worksheet functions take them. */
+export type DirectionCode = 1 | -1 | 0;
+
+/** References to the data, as text ready for a formula: absolute A1 or a table column. */
+export interface DataRefs {
+  readonly y: string;
+  readonly x: string;
+  readonly w?: string | undefined;
+}
+
+/** Fit settings of the pane. */
+export interface FitSettings {
+  /** 0 = classic fit, or a knot count ≥ 2. */
+  readonly knots: number;
+  readonly direction: DirectionCode;
+}
+
+/** Cross-validation settings of the pane; `candidates` undefined = the functions' default. */
+export interface CvSettings {
+  readonly candidates?: readonly number[] | undefined;
+  readonly folds: number;
+  readonly repeats: number;
+  readonly seed: number;
+  /** 1 one-standard-error rule, 0 minimum. */
+  readonly rule: 1 | 0;
+}
+
+/** The kinds of formula the pane inserts. */
+export type FormulaKind = 'KNOTS' | 'PREDICT' | 'STATS' | 'CV' | 'BESTK';
+
+/**
+ * The candidates argument as formula text: `SEQUENCE(n,1,a)` for a run a, a+1, …, otherwise an
+ * array constant `{0;2;5}`.
+ * @example candidatesText([2, 3, 4]) // → "SEQUENCE(3,1,2)"
+ */
+export function candidatesText(c: readonly number[]): string {
+  if (c.length === 1) return String(c[0]);
+  const run = c.length > 1 && c.every((v, i) => i === 0 || v === c[i - 1]! + 1) && c[0] !== 0;
+  if (run) return `SEQUENCE(${c.length},1,${c[0]})`;
+  return `{${c.join(';')}}`;
+}
+
+/** Trailing optional arguments that are omitted are dropped; inner omitted ones stay empty. */
+function argList(args: readonly (string | undefined)[]): string {
+  let end = args.length;
+  while (end > 0 && args[end - 1] === undefined) end--;
+  return args
+    .slice(0, end)
+    .map((a) => a ?? '')
+    .join(',');
+}
+
+/**
+ * The formula text of one kind, e.g. `=RATCHET.KNOTS($B$2:$B$31,$A$2:$A$31,5,1)`.
+ * `newXs` is the reference PREDICT reads (default: the x data).
+ */
+export function formulaFor(kind: FormulaKind, refs: DataRefs, fit: FitSettings, cv: CvSettings, newXs?: string): string {
+  const w = refs.w;
+  const k = String(fit.knots);
+  const d = String(fit.direction);
+  switch (kind) {
+    case 'KNOTS':
+      return `=RATCHET.KNOTS(${argList([refs.y, refs.x, k, d, w])})`;
+    case 'STATS':
+      return `=RATCHET.STATS(${argList([refs.y, refs.x, k, d, w])})`;
+    case 'PREDICT':
+      return `=RATCHET.PREDICT(${argList([newXs ?? refs.x, refs.y, refs.x, k, d, w])})`;
+    case 'CV':
+    case 'BESTK': {
+      const cand = cv.candidates === undefined ? undefined : candidatesText(cv.candidates);
+      const base = [refs.y, refs.x, cand, String(cv.folds), String(cv.repeats), String(cv.seed), d, w];
+      if (kind === 'CV') return `=RATCHET.CV(${argList(base)})`;
+      // BESTK has `rule` after weights; write it only when it is not the default (1).
+      return `=RATCHET.BESTK(${argList([...base.slice(0, 7), w, cv.rule === 1 ? undefined : '0'])})`;
+    }
+  }
+}
+
+/** Every formula the pane offers, in display order. */
+export function allFormulas(refs: DataRefs, fit: FitSettings, cv: CvSettings, newXs?: string): Record<FormulaKind, string> {
+  return {
+    KNOTS: formulaFor('KNOTS', refs, fit, cv),
+    PREDICT: formulaFor('PREDICT', refs, fit, cv, newXs),
+    STATS: formulaFor('STATS', refs, fit, cv),
+    CV: formulaFor('CV', refs, fit, cv),
+    BESTK: formulaFor('BESTK', refs, fit, cv),
+  };
+}
+
+/** What the spill size of a result depends on, as computed by the core / functions. */
+export interface SpillInputs {
+  /** Rows of the knot table the functions return for these data and settings (RATCHET.KNOTS). */
+  readonly knotRows: number;
+  /** Number of candidates CV compares (the default list when none are given). */
+  readonly candidates: number;
+  /** Shape of PREDICT's new_xs. */
+  readonly newXs: { rows: number; cols: number };
+}
+
+/** Rows of the STATS table (n, dropped, knots, direction, r2, rmse, mae, sse, levels). */
+export const STATS_ROWS = 9;
+/** Columns of the CV table (knots, cv_rmse, cv_se, cv_r2, cv_mae, train_rmse). */
+export const CV_COLS = 6;
+
+/**
+ * Rows × columns a result occupies from its anchor cell: KNOTS knotRows × 2, STATS 9 × 2, CV
+ * (candidates + 1 header row) × 6, PREDICT the shape of new_xs, BESTK 1 × 1.
+ */
+export function spillSize(kind: FormulaKind, s: SpillInputs): { rows: number; cols: number } {
+  switch (kind) {
+    case 'KNOTS':
+      return { rows: s.knotRows, cols: 2 };
+    case 'STATS':
+      return { rows: STATS_ROWS, cols: 2 };
+    case 'CV':
+      return { rows: s.candidates + 1, cols: CV_COLS };
+    case 'PREDICT':
+      return { rows: s.newXs.rows, cols: s.newXs.cols };
+    case 'BESTK':
+      return { rows: 1, cols: 1 };
+  }
+}
+
+/**
+ * Parses the candidates field: blank → undefined (the default list); "2-12" or "2..12" a run;
+ * "0, 2, 3, 5" a list (commas, semicolons or spaces). Each must be 0 or a whole number ≥ 2.
+ * @throws Error with a message for the field.
+ */
+export function parseCandidates(text: string): number[] | undefined {
+  const s = text.trim();
+  if (s === '') return undefined;
+  const run = /^(\d+)\s*(?:-|\.\.|…|to)\s*(\d+)$/.exec(s);
+  let out: number[];
+  if (run) {
+    const a = Number(run[1]);
+    const b = Number(run[2]);
+    if (b < a) throw new Error(`Candidates: the run ${s} goes down; write the smaller count first.`);
+    if (b - a > 999) throw new Error('Candidates: at most 1000 knot counts.');
+    out = [];
+    for (let k = a; k <= b; k++) out.push(k);
+  } else {
+    out = s.split(/[\s,;]+/).map((t) => Number(t));
+  }
+  for (const k of out) {
+    if (!Number.isInteger(k) || k < 0 || k === 1) throw new Error(`Candidates: each must be 0 (classic) or a whole number ≥ 2; got "${s}".`);
+  }
+  if (new Set(out).size !== out.length) throw new Error('Candidates: each knot count may appear once.');
+  return out;
+}

@@ -1,0 +1,79 @@
+// Webpack build of the Ratchet add-in.
+//   npm run build       production bundle in dist/ (offline: no network, no certificates)
+//   npm run dev-server  https://localhost:3000 with the Office dev certificates (office-addin-dev-certs)
+// Outputs: functions.js (custom functions; its JSDoc becomes functions.json through
+// custom-functions-metadata-plugin, which also adds the CustomFunctions.associate calls),
+// taskpane.js + taskpane.html (the shared-runtime page that loads both bundles), the worker chunk
+// (from `new Worker(new URL('./worker.ts', import.meta.url))`), assets/ icons and manifest.xml.
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { createRequire } from 'node:module';
+import HtmlWebpackPlugin from 'html-webpack-plugin';
+import CopyWebpackPlugin from 'copy-webpack-plugin';
+
+const require = createRequire(import.meta.url);
+const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin');
+const here = path.dirname(fileURLToPath(import.meta.url));
+const port = Number(process.env.npm_package_config_dev_server_port || 3000);
+
+async function httpsOptions() {
+  const devCerts = require('office-addin-dev-certs');
+  return devCerts.getHttpsServerOptions();
+}
+
+export default async (env, options) => {
+  const dev = options.mode !== 'production';
+  const serve = Boolean(env && env.WEBPACK_SERVE);
+  return {
+    mode: dev ? 'development' : 'production',
+    devtool: dev ? 'source-map' : false,
+    context: here,
+    entry: {
+      functions: './src/functions/functions.ts',
+      taskpane: './taskpane/taskpane.ts',
+    },
+    output: {
+      path: path.resolve(here, 'dist'),
+      filename: '[name].js',
+      chunkFilename: '[name].[contenthash:8].js',
+      clean: true,
+    },
+    resolve: {
+      extensions: ['.ts', '.js'],
+      // Sources import './x.js' (ESM style); resolve that to the .ts file.
+      extensionAlias: { '.js': ['.ts', '.js'] },
+    },
+    module: {
+      rules: [
+        {
+          test: /\.ts$/,
+          exclude: /node_modules/,
+          use: { loader: 'ts-loader', options: { configFile: path.resolve(here, 'tsconfig.json'), onlyCompileBundledFiles: true, transpileOnly: false, compilerOptions: { noEmit: false } } },
+        },
+      ],
+    },
+    plugins: [
+      new CustomFunctionsMetadataPlugin({ output: 'functions.json', input: './src/functions/functions.ts' }),
+      new HtmlWebpackPlugin({ filename: 'taskpane.html', template: './taskpane/taskpane.html', chunks: ['functions', 'taskpane'], scriptLoading: 'defer', inject: 'body' }),
+      new CopyWebpackPlugin({
+        patterns: [
+          { from: 'assets/*.png', to: 'assets/[name][ext]' },
+          { from: 'manifest.xml', to: 'manifest.xml' },
+        ],
+      }),
+    ],
+    // One webpack runtime for both entries: the functions and the pane run in one page (the shared
+    // runtime), so they must share module instances — one registry, one result cache.
+    optimization: { runtimeChunk: 'single', splitChunks: { chunks: 'all', name: 'shared', minSize: 0 } },
+    performance: { hints: false },
+    devServer: serve
+      ? {
+          port,
+          hot: false,
+          headers: { 'Access-Control-Allow-Origin': '*' },
+          server: { type: 'https', options: await httpsOptions() },
+          static: { directory: path.resolve(here, 'dist') },
+        }
+      : undefined,
+  };
+};
