@@ -52,7 +52,9 @@ export interface CandidateScore {
   cvRmse: number;
   /**
    * Standard error of cvRmse: sd of the per-fold RMSEs (denominator F·R − 1) / √(F·R). Hold-out:
-   * delta-method SE of the test RMSE (see {@link holdoutValidate}).
+   * delta-method SE of the test RMSE (see {@link holdoutValidate}). The folds share training rows,
+   * so the per-fold RMSEs are correlated and this SE is optimistic, more so with repeats (memory:
+   * Bengio & Grandvalet 2004, JMLR 5).
    */
   cvSe: number;
   /** 1 − pooled held-out SSE / (R · Σ w (y − ȳ_w)² over all rows). */

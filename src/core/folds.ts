@@ -53,7 +53,7 @@ export function repeatState(seed: number, repeat: number): [number, number] {
  * @param seed a whole number 1 … 2⁵³ − 1 (0 is allowed and simply seeds the generator; the
  *   splitting functions treat seed 0 as "no shuffling" before calling this).
  * @param repeat whole number ≥ 0 (default 0).
- * @example Array.from(seededPermutation(5, 1)) // → a fixed order of 0…4, the same on every machine
+ * @example Array.from(seededPermutation(5, 1)) // → [0, 4, 2, 1, 3] (on every machine)
  */
 export function seededPermutation(n: number, seed: number, repeat = 0): Uint32Array {
   const [hi, lo] = repeatState(seed, repeat);
@@ -92,7 +92,7 @@ function splitOrder(n: number, seed: number, repeat: number): Uint32Array {
  * @param seed whole number 0 … 2⁵³ − 1; 0 = no shuffling.
  * @param repeat whole number ≥ 0 (default 0); ignored for seed 0.
  * @throws RatchetError BAD_OPTION (folds out of range, bad seed).
- * @example Array.from(kFoldAssignment(5, 2, 0)) // → [0, 0, 0, 1, 1]
+ * @example Array.from(kFoldAssignment(5, 2, 0)) // → [0, 0, 0, 1, 1]; with seed 1 → [0, 1, 0, 1, 0]
  */
 export function kFoldAssignment(n: number, folds: number, seed: number, repeat = 0): Uint32Array {
   checkFolds(folds, n);

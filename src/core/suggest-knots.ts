@@ -42,7 +42,7 @@ function complexity(knots: number): number {
  * - `'one-se'` (default): find the minimiser of cvRmse (ties: the simplest), take
  *   threshold = its cvRmse + its cvSe, and suggest the simplest candidate with cvRmse ≤ threshold
  *   — the one-standard-error rule (Breiman, Friedman, Olshen & Stone 1984, Classification and
- *   Regression Trees, §3.4.3; Hastie, Tibshirani & Friedman, The Elements of Statistical
+ *   Regression Trees, §3.4.3 (section number from memory); Hastie, Tibshirani & Friedman, The Elements of Statistical
  *   Learning, 2nd ed. 2009, §7.10). It prefers a simpler curve whose error is statistically
  *   indistinguishable from the best.
  * - `'min'`: the minimiser itself (ties: the simplest); threshold = the minimum.
