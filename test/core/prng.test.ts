@@ -80,18 +80,24 @@ describe('SplitMix64.below (uniform whole numbers without bias)', () => {
     }
   });
 
-  it('for m = 3·2^30 the rejection branch is exercised and results stay in range', () => {
-    // 2^32 mod 3·2^30 = 2^30: a quarter of the draws are rejected.
+  it('for m = 3·2^30 about a quarter of the draws are rejected (2^32 mod m = 2^30), and results stay in range', () => {
     const m = 3 * 2 ** 30;
     const g = SplitMix64.fromSeed(5);
-    let seen = 0;
+    const ref = bigSplitMix(5n);
+    let rejected = 0;
     for (let k = 0; k < 2000; k++) {
+      let r = ref() >> 32n;
+      while (r < 2n ** 30n) {
+        rejected++;
+        r = ref() >> 32n;
+      }
       const v = g.below(m);
-      expect(v).toBeGreaterThanOrEqual(0);
+      expect(v).toBe(Number(r % BigInt(m)));
       expect(v).toBeLessThan(m);
-      seen++;
     }
-    expect(seen).toBe(2000);
+    // Expected rejections: 2000 · (1/4)/(3/4) ≈ 667 (sd ≈ 30).
+    expect(rejected).toBeGreaterThan(550);
+    expect(rejected).toBeLessThan(800);
   });
 
   it('is roughly uniform: 60000 draws on 0…5 give each value 10000 ± 400 times (about 4.4 sd)', () => {
