@@ -10,11 +10,14 @@
  *  - candidate 0: `sklearn.isotonic.IsotonicRegression(out_of_bounds="clip")` on each training set;
  *  - K ≥ 2: the knot model solved by `scipy.optimize.lsq_linear(method="bvls")` on the
  *    cumulative-step form, K knots evenly spaced over each training x range (numpy.linspace),
- *    predictions by numpy.interp (flat beyond the ends); hold-out R² by sklearn.metrics.r2_score.
+ *    predictions by numpy.interp (flat beyond the ends); hold-out R² by sklearn.metrics.r2_score;
+ *  - direction 'auto' (mtcars qsec → drat, ρ = 0.09): sklearn's `increasing='auto'` and the sign
+ *    of `scipy.stats.spearmanr` on each training set — the fixture records that the direction
+ *    differs from fold to fold.
  * Tolerance: 1e-9 relative (absolute 1e-9 near zero), as issue 3 asks.
  */
 import { describe, expect, it } from 'vitest';
-import { crossValidate, holdoutValidate, type CrossValidationResult } from '../../src/core/index.js';
+import { crossValidate, holdoutValidate, type CrossValidationResult, type DirectionOption } from '../../src/core/index.js';
 import fixture from '../reference/fixtures/cv_datasets.json' with { type: 'json' };
 
 const REL = 1e-9;
@@ -27,6 +30,7 @@ interface RefScore {
   cvMae: number;
   trainRmse: number;
   foldRmse: number[];
+  foldDirections: ('up' | 'down')[];
 }
 interface RefCase {
   name: string;
@@ -35,6 +39,7 @@ interface RefCase {
   y: number[];
   w: number[] | null;
   seed: number;
+  direction: DirectionOption;
   folds?: number;
   repeats?: number;
   testFraction?: number;
@@ -47,7 +52,7 @@ interface RefCase {
 const cases = (fixture as unknown as { cases: RefCase[] }).cases;
 
 function runCase(c: RefCase): CrossValidationResult {
-  const common = { candidates: c.candidates, seed: c.seed, ...(c.w ? { weights: c.w } : {}) };
+  const common = { candidates: c.candidates, seed: c.seed, direction: c.direction, ...(c.w ? { weights: c.w } : {}) };
   return c.method === 'k-fold'
     ? crossValidate(c.x, c.y, { ...common, folds: c.folds!, repeats: c.repeats! })
     : holdoutValidate(c.x, c.y, { ...common, testFraction: c.testFraction! });
@@ -60,6 +65,10 @@ describe('cross-validation = scikit-learn / SciPy fold by fold (cv_datasets.json
     expect(cases.some((c) => c.w?.includes(0))).toBe(true);
     expect(cases.some((c) => (c.repeats ?? 1) > 1 && c.seed !== 0)).toBe(true);
     expect(cases.some((c) => c.method === 'holdout')).toBe(true);
+    expect(cases.some((c) => c.direction === 'down')).toBe(true);
+    // An 'auto' case whose training sets disagree on the direction (so it tests per-fold choice).
+    const auto = cases.find((c) => c.direction === 'auto')!;
+    for (const s of auto.scores) expect(new Set(s.foldDirections)).toEqual(new Set(['up', 'down']));
   });
 
   for (const c of cases) {

@@ -30,14 +30,20 @@ import math
 import os
 import subprocess
 import sys
+import warnings
 
 import numpy as np
 import scipy
 import sklearn
 from scipy.optimize import lsq_linear
+from scipy.stats import spearmanr
 from sklearn.isotonic import IsotonicRegression
 from sklearn.metrics import r2_score
 from sklearn.model_selection import KFold, train_test_split
+
+# sklearn warns when the Spearman confidence interval of an 'auto' fit spans zero; that is the point
+# of the mtcars case (the direction differs between training sets), so the warning is expected.
+warnings.filterwarnings("ignore", message="Confidence interval of the Spearman correlation")
 
 OUT = os.path.join("test", "reference", "fixtures")
 COMMAND = "/usr/bin/python3 test/reference/gen_cv.py"
@@ -130,14 +136,24 @@ R_VERSION = subprocess.run(
 
 
 # ---------------------------------------------------------------- models
-def fit_predict_isotonic(xtr, ytr, wtr, xte):
-    m = IsotonicRegression(out_of_bounds="clip", increasing=True)
+def fit_predict_isotonic(xtr, ytr, wtr, xte, direction):
+    """direction 'up' / 'down' / 'auto' = sklearn's increasing=True / False / 'auto' (Spearman sign
+    of the training rows, decided by sklearn.isotonic.check_increasing)."""
+    inc = {"up": True, "down": False, "auto": "auto"}[direction]
+    m = IsotonicRegression(out_of_bounds="clip", increasing=inc)
     m.fit(xtr, ytr, sample_weight=wtr)
-    return m.predict(xtr), m.predict(xte), True
+    return m.predict(xtr), m.predict(xte), True, "up" if m.increasing_ else "down"
 
 
-def fit_predict_knots(xtr, ytr, wtr, K, xte):
-    """Knot model reference; returns (train fit, test prediction, unique?)."""
+def fit_predict_knots(xtr, ytr, wtr, K, xte, direction):
+    """Knot model reference; returns (train fit, test prediction, unique?, direction used).
+    'auto' = up when scipy.stats.spearmanr of the training rows is >= 0 (sklearn's rule);
+    'down' fits -y upwards and negates."""
+    if direction == "auto":
+        direction = "up" if spearmanr(xtr, ytr)[0] >= 0 else "down"
+    if direction == "down":
+        ftr, fte, unique, _ = fit_predict_knots(xtr, -ytr, wtr, K, xte, "up")
+        return -ftr, -fte, unique, "down"
     t = np.linspace(xtr.min(), xtr.max(), K)
     # Hat (interpolation) basis, flat beyond the ends: H[i, j] = weight of knot j at x_i.
     def hats(x):
@@ -167,10 +183,10 @@ def fit_predict_knots(xtr, ytr, wtr, K, xte):
     theta_r = L @ res.x
     # Fill the knots without data by linear interpolation in t between identified ones (flat beyond).
     theta = np.interp(t, t[ident], theta_r)
-    return np.interp(xtr, t, theta), np.interp(xte, t, theta), unique
+    return np.interp(xtr, t, theta), np.interp(xte, t, theta), unique, "up"
 
 
-def run_case(name, x, y, w, folds, repeats, seed, candidates, holdout=None):
+def run_case(name, x, y, w, folds, repeats, seed, candidates, holdout=None, direction="up"):
     n_all = len(x)
     wfull = np.ones(n_all) if w is None else np.asarray(w, dtype=float)
     keep = wfull > 0  # zero-weight rows are left out before the split
@@ -186,12 +202,13 @@ def run_case(name, x, y, w, folds, repeats, seed, candidates, holdout=None):
     scores, skipped = [], []
     for K in candidates:
         sse = sae = sw = 0.0
-        train_rmse, fold_rmse, unique = [], [], True
+        train_rmse, fold_rmse, unique, used = [], [], True, []
         for tr, te in tasks:
             if K == 0:
-                ftr, fte, u = fit_predict_isotonic(xs[tr], ys[tr], ws[tr], xs[te])
+                ftr, fte, u, d = fit_predict_isotonic(xs[tr], ys[tr], ws[tr], xs[te], direction)
             else:
-                ftr, fte, u = fit_predict_knots(xs[tr], ys[tr], ws[tr], K, xs[te])
+                ftr, fte, u, d = fit_predict_knots(xs[tr], ys[tr], ws[tr], K, xs[te], direction)
+            used.append(d)
             unique = unique and u
             e = ys[te] - fte
             sse += float(np.sum(ws[te] * e**2))
@@ -224,6 +241,7 @@ def run_case(name, x, y, w, folds, repeats, seed, candidates, holdout=None):
                 "cvMae": sae / sw,
                 "trainRmse": float(np.mean(train_rmse)),
                 "foldRmse": fold_rmse,
+                "foldDirections": used,
             }
         )
     case = {
@@ -232,6 +250,7 @@ def run_case(name, x, y, w, folds, repeats, seed, candidates, holdout=None):
         "y": [float(v) for v in y],
         "w": None if w is None else [float(v) for v in wfull],
         "seed": seed,
+        "direction": direction,
         "candidates": [s["knots"] for s in scores],
         "skipped": skipped,
         "scores": scores,
@@ -305,6 +324,8 @@ def main():
     pres_x, pres_y = r_dataset("pressure", "temperature", "pressure")
     air_x, air_y = r_dataset('airquality[complete.cases(airquality[, c("Temp", "Ozone")]), ]', "Temp", "Ozone")
     # Invented weights (not part of the dataset): 0, 1, 2 repeating, so some rows have weight 0.
+    # mtcars qsec -> drat: Spearman rho 0.09 overall, and the sign differs between training sets.
+    mt_x, mt_y = r_dataset("mtcars", "qsec", "drat")
     cars_w = np.array([i % 3 for i in range(len(cars_x))], dtype=float)
     upto = lambda x, top: [0] + list(range(2, min(top, len(np.unique(x))) + 1))  # noqa: E731
     cases = [
@@ -316,6 +337,8 @@ def main():
         run_case("cars with invented weights 0,1,2, 5 folds", cars_x, cars_y, cars_w, 5, 1, 0, upto(cars_x, 10)),
         run_case("cars, seed 1, 5 folds, 2 repeats", cars_x, cars_y, None, 5, 2, 1, upto(cars_x, 10)),
         run_case("airquality, seed 42, 4 folds, 3 repeats", air_x, air_y, None, 4, 3, 42, upto(air_x, 8)),
+        run_case("mtcars qsec->drat, direction auto, 5 folds", mt_x, mt_y, None, 5, 1, 0, upto(mt_x, 10), direction="auto"),
+        run_case("mtcars qsec->drat, direction down, seed 3, 4 folds", mt_x, mt_y, None, 4, 1, 3, upto(mt_x, 8), direction="down"),
         run_case("pressure hold-out 0.25, seed 0", pres_x, pres_y, None, None, None, 0, upto(pres_x, 8), holdout=0.25),
         run_case("airquality hold-out 0.3, seed 7", air_x, air_y, None, None, None, 7, upto(air_x, 10), holdout=0.3),
     ]
@@ -324,7 +347,7 @@ def main():
             "source": "scikit-learn IsotonicRegression(out_of_bounds='clip') for candidate 0; SciPy lsq_linear bvls knot "
             + "model for K >= 2; folds from sklearn KFold(shuffle=False) / train_test_split(shuffle=False) for seed 0, "
             + "from the Python SplitMix64 permutation otherwise; data from R's datasets package (cars, pressure, "
-            + "airquality complete cases of Temp and Ozone)",
+            + "airquality complete cases of Temp and Ozone, mtcars qsec and drat)",
             "versions": versions,
             "command": COMMAND,
             "cases": cases,
