@@ -304,8 +304,8 @@ describe('agreement with cross-validation by hand through fitMonotone and predic
           // Classic fits agree to rounding. Knot fits get their training rows in another order
           // (sorted by x here, row order by hand); where ties leave knot values only jointly
           // determined, knotRegression's 1e-10 roughness tie-break amplifies that rounding
-          // (about 1e-16 / 1e-10), so held-out predictions may differ by ~1e-8 relative.
-          const rel = s.knots === 0 ? 1e-9 : 1e-6;
+          // (about 1e-16 / 1e-10): 3000 random cases differed by at most 1.2e-9, rare ones by ~1.5e-8.
+          const rel = s.knots === 0 ? 1e-9 : 1e-7;
           expect(s.cvRmse).toBeCloseRel(m.cvRmse, rel);
           expect(s.foldRmse).toBeAllCloseRel(m.foldRmse, rel);
         }
