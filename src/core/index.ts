@@ -12,7 +12,7 @@ export { isotonicRegression, type IsotonicFit } from './isotonic.js';
 export { evenKnots, quantileKnots, checkKnotCount, checkKnotPositions } from './knots.js';
 export { solveMonotoneTridiagonal, type MonotoneQpSolution } from './monotone-qp.js';
 export { knotRegression, type KnotFit, type KnotFitOptions } from './knot-fit.js';
-export { interpolate, interpolateAt, intervalIndex } from './interpolate.js';
+export { interpolate, interpolateAt, intervalIndex, lerp } from './interpolate.js';
 export { invertAt, invertChecked, checkKnotTable } from './invert.js';
 export { fitStatistics, type FitStatistics } from './statistics.js';
 export { fitMonotone, fitChecked, predict, checkKnotSpec, type ModelOptions, type MonotoneModel, type KnotSpec } from './model.js';
@@ -22,5 +22,5 @@ export { foldSizes, repeatState, seededPermutation, kFoldAssignment, checkFolds,
 export { suggestKnots, type SuggestionRule, type Suggestion, type ScoreForSuggestion } from './suggest-knots.js';
 export { crossValidate, holdoutValidate, defaultCandidates, type CrossValidationOptions, type CrossValidationResult, type CandidateScore, type HoldoutOptions, type KnotPlacement } from './cross-validate.js';
 export { fitSurface, surfaceChecked, predictSurface, checkSurfaceKnots, checkAxisDirection, SURFACE_MAX_NODES, SURFACE_EXACT_NODES, type SurfaceOptions, type SurfaceModel, type SurfaceKnotSpec, type AxisDirection, type OptimalityCertificate } from './surface.js';
-export { latticeEdges, latticeCertificate, orderEnvelopeMean, activeSetLattice, admmLattice, type LatticeEdges, type LatticeSolution } from './surface-solve.js';
+export { latticeEdges, latticeCertificate, kktCertificate, orderEnvelopeMean, activeSetSparse, admmLattice, inducedOrder, stencilToSparse, applySparse, sparsePositiveDefinite, type LatticeEdges, type LatticeSolution, type SparseSymmetric } from './surface-solve.js';
 export { locate, locateOnAxis, evaluateLattice, assembleLattice, addTieBreak, applyStencil, type LatticeSystem, type LatticeLocation } from './surface-lattice.js';

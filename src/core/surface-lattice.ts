@@ -190,3 +190,4 @@ export function applyStencil(stencil: Float64Array, k1: number, k2: number, v: A
     }
   }
 }
+

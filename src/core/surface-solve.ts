@@ -121,21 +121,105 @@ function workspace(m: number) {
   return { r: new Float64Array(m), z: new Float64Array(m), p: new Float64Array(m), q: new Float64Array(m) };
 }
 
+/** A symmetric sparse matrix in compressed rows (each row lists its own column too). */
+export interface SparseSymmetric {
+  readonly n: number;
+  readonly start: Int32Array;
+  readonly col: Int32Array;
+  readonly val: Float64Array;
+}
+
+/** out = A·v. O(nnz). */
+export function applySparse(A: SparseSymmetric, v: ArrayLike<number>, out: Float64Array): void {
+  const { n, start, col, val } = A;
+  for (let i = 0; i < n; i++) {
+    let s = 0;
+    for (let k = start[i]!; k < start[i + 1]!; k++) s += val[k]! * v[col[k]!]!;
+    out[i] = s;
+  }
+}
+
 /**
- * Checks the KKT conditions of the lattice QP at θ with multipliers λ (negative entries count as 0).
- * `scaleSS` is the objective's natural size (weighted total sum of squares of y). O(9·K1K2 + E).
+ * The stencil matrix restricted to the listed nodes, in compressed rows over their compact
+ * indices (`index[node]` = compact index, −1 for nodes left out; couplings to left-out nodes are
+ * dropped — callers leave out only nodes without couplings). O(9·m).
  */
-export function latticeCertificate(
-  sys: LatticeSystem,
+export function stencilToSparse(sys: LatticeSystem, nodes: Int32Array, index: Int32Array): SparseSymmetric {
+  const { k1, k2, stencil } = sys;
+  const m = nodes.length;
+  const start = new Int32Array(m + 1);
+  const col: number[] = [];
+  const val: number[] = [];
+  for (let i = 0; i < m; i++) {
+    const p = nodes[i]!;
+    const a = p % k1;
+    const b = (p - a) / k1;
+    for (let db = -1; db <= 1; db++) {
+      if (b + db < 0 || b + db >= k2) continue;
+      for (let da = -1; da <= 1; da++) {
+        if (a + da < 0 || a + da >= k1) continue;
+        const v = stencil[9 * p + 3 * (db + 1) + (da + 1)]!;
+        const j = index[p + da + db * k1]!;
+        if (v !== 0 && j >= 0) {
+          col.push(j);
+          val.push(v);
+        }
+      }
+    }
+    start[i + 1] = col.length;
+  }
+  return { n: m, start, col: Int32Array.from(col), val: Float64Array.from(val) };
+}
+
+/**
+ * True when the sparse matrix is numerically positive definite: banded Cholesky in the given
+ * order (band storage n·(bw + 1) values, bw the largest |i − j| of a coupling), every pivot above
+ * `relative` times its diagonal entry. Cost O(n·bw²).
+ */
+export function sparsePositiveDefinite(A: SparseSymmetric, relative = 1e-10): boolean {
+  const { n, start, col, val } = A;
+  let bw = 0;
+  for (let i = 0; i < n; i++) for (let k = start[i]!; k < start[i + 1]!; k++) bw = Math.max(bw, Math.abs(col[k]! - i));
+  const W = bw + 1;
+  const L = new Float64Array(n * W); // L[i, j] (i − bw ≤ j ≤ i) at i·W + (j − i + bw)
+  const row = new Float64Array(W);
+  for (let i = 0; i < n; i++) {
+    row.fill(0);
+    let d = 0;
+    for (let k = start[i]!; k < start[i + 1]!; k++) {
+      const j = col[k]!;
+      if (j <= i) row[j - i + bw] = row[j - i + bw]! + val[k]!;
+      if (j === i) d = val[k]!;
+    }
+    const j0 = Math.max(0, i - bw);
+    for (let j = j0; j <= i; j++) {
+      let s = row[j - i + bw]!;
+      for (let k = Math.max(j0, j - bw); k < j; k++) s -= L[i * W + (k - i + bw)]! * L[j * W + (k - j + bw)]!;
+      if (j === i) {
+        if (!(d > 0) || !(s > relative * d)) return false;
+        L[i * W + bw] = Math.sqrt(s);
+      } else L[i * W + (j - i + bw)] = s / L[j * W + bw]!;
+    }
+  }
+  return true;
+}
+
+/**
+ * Checks the KKT conditions of the QP ½θᵀHθ − cᵀθ, θ_hi ≥ θ_lo at θ with multipliers λ (negative
+ * entries count as 0). `applyH` computes H·v; `scaleSS` is the objective's natural size (weighted
+ * total sum of squares of y). O(cost of H·v + E).
+ */
+export function kktCertificate(
+  applyH: (v: Float64Array, out: Float64Array) => void,
+  rhs: Float64Array,
   edges: LatticeEdges,
   theta: Float64Array,
   lambda: Float64Array,
   scaleSS: number,
 ): OptimalityCertificate {
-  const { k1, k2, stencil, rhs } = sys;
-  const N = k1 * k2;
+  const N = rhs.length;
   const h = new Float64Array(N);
-  applyStencil(stencil, k1, k2, theta, h);
+  applyH(theta, h);
   let scale = 0;
   let tmax = 0;
   const res = new Float64Array(N);
@@ -165,36 +249,122 @@ export function latticeCertificate(
   };
 }
 
+/** {@link kktCertificate} for a lattice system in stencil form. */
+export function latticeCertificate(
+  sys: LatticeSystem,
+  edges: LatticeEdges,
+  theta: Float64Array,
+  lambda: Float64Array,
+  scaleSS: number,
+): OptimalityCertificate {
+  return kktCertificate((v, out) => applyStencil(sys.stencil, sys.k1, sys.k2, v, out), sys.rhs, edges, theta, lambda, scaleSS);
+}
+
+/** Cholesky solve of a small dense SPD system in place (b ← M⁻¹b); false if not positive definite. */
+function denseSolve(M: Float64Array, b: Float64Array, G: number): boolean {
+  for (let j = 0; j < G; j++) {
+    let d = M[j * G + j]!;
+    for (let k = 0; k < j; k++) d -= M[j * G + k]! * M[j * G + k]!;
+    if (!(d > 1e-14 * Math.abs(M[j * G + j]!)) || !(d > 0)) return false;
+    const r = Math.sqrt(d);
+    M[j * G + j] = r;
+    for (let i = j + 1; i < G; i++) {
+      let s = M[i * G + j]!;
+      for (let k = 0; k < j; k++) s -= M[i * G + k]! * M[j * G + k]!;
+      M[i * G + j] = s / r;
+    }
+  }
+  for (let i = 0; i < G; i++) {
+    let s = b[i]!;
+    for (let k = 0; k < i; k++) s -= M[i * G + k]! * b[k]!;
+    b[i] = s / M[i * G + i]!;
+  }
+  for (let i = G - 1; i >= 0; i--) {
+    let s = b[i]!;
+    for (let k = i + 1; k < G; k++) s -= M[k * G + i]! * b[k]!;
+    b[i] = s / M[i * G + i]!;
+  }
+  return true;
+}
+
+/** Largest group count solved with a dense Cholesky factor (G² ≤ 1,000 values). */
+const DENSE_GROUPS = 31;
+
 /**
- * Exact primal active-set method (Nocedal & Wright 2006, §16.5) for the lattice QP. The working set
- * is a forest of edges held with equality (a blocking edge always joins two different groups, so it
- * stays a forest and its constraints stay linearly independent); each group of joined nodes carries
- * one value. Subproblems — the group-reduced normal equations GᵀHG φ = Gᵀc — are solved by Jacobi-
- * preconditioned conjugate gradients on the stencil to rounding level (no dense matrix). The
- * multiplier of a working edge is the sum of the gradient Hθ − c over the part of its tree on the
- * edge's upper side. Starts at θ = 0 (feasible) with an empty working set.
+ * Exact primal active-set method (Nocedal & Wright 2006, §16.5) for ½θᵀAθ − cᵀθ subject to
+ * θ_hi(e) ≥ θ_lo(e), A sparse symmetric positive definite. The working set is a forest of edges
+ * held with equality (a blocking edge always joins two different groups, so it stays a forest and
+ * its constraints stay linearly independent); each group of joined variables carries one value.
+ * Subproblems — the group-reduced normal equations GᵀAG φ = Gᵀc — are solved by a dense Cholesky
+ * factor when there are at most 31 groups (at most 961 matrix values) and otherwise by Jacobi-
+ * preconditioned conjugate gradients to rounding level, warm-started. The multiplier of a working
+ * edge is the sum of the gradient Aθ − c over the part of its tree on the edge's upper side. Starts
+ * at θ = 0 (feasible, and every equality holds there) with an empty working set, or — given an
+ * approximate solution `warm` — with a spanning forest of the edges it holds tight (within 1e-7 of
+ * its value range); the method then only corrects that guess, and the answer is exact either way.
  *
- * Cost per iteration: O(K1K2 + E) plus a CG solve of O(9·K1K2) per step; iterations are in
- * practice a small multiple of the number of nodes. Returns null when `maxIterations` is reached
- * (the caller then falls back to ADMM).
+ * Cost per iteration: O(nnz + E) plus the subproblem (O(nnz) per CG step); iterations are in
+ * practice a small multiple of the number of variables. Returns null when `maxIterations` is
+ * reached (the caller then falls back to ADMM).
  */
-export function activeSetLattice(sys: LatticeSystem, edges: LatticeEdges, scaleSS: number, maxIterations?: number): LatticeSolution | null {
-  const { k1, k2, stencil, rhs } = sys;
-  const N = k1 * k2;
+export function activeSetSparse(
+  A: SparseSymmetric,
+  rhs: Float64Array,
+  edges: LatticeEdges,
+  scaleSS: number,
+  maxIterations?: number,
+  warm?: Float64Array,
+): LatticeSolution | null {
+  const N = A.n;
   const E = edges.lo.length;
   const { lo, hi } = edges;
   const inW = new Uint8Array(E);
+  if (warm) {
+    // Warm start: join the edges the approximate solution holds tight (a forest, by union-find).
+    let vmin = Infinity;
+    let vmax = -Infinity;
+    for (let p = 0; p < N; p++) {
+      vmin = Math.min(vmin, warm[p]!);
+      vmax = Math.max(vmax, warm[p]!);
+    }
+    const tight = 1e-7 * Math.max(vmax - vmin, Math.abs(vmax), 1e-300);
+    const root = new Int32Array(N).map((_, i) => i);
+    const top = (i: number): number => {
+      while (root[i] !== i) {
+        root[i] = root[root[i]!]!;
+        i = root[i]!;
+      }
+      return i;
+    };
+    for (let e = 0; e < E; e++) {
+      if (Math.abs(warm[hi[e]!]! - warm[lo[e]!]!) <= tight) {
+        const a = top(lo[e]!);
+        const b = top(hi[e]!);
+        if (a !== b) {
+          root[a] = b;
+          inW[e] = 1;
+        }
+      }
+    }
+  }
   const theta = new Float64Array(N);
   const cand = new Float64Array(N);
   const group = new Int32Array(N);
   const parent = new Int32Array(N);
+  const label = new Int32Array(N);
   const full = new Float64Array(N);
   const hv = new Float64Array(N);
   const grad = new Float64Array(N);
   const lambda = new Float64Array(E);
   const limit = maxIterations ?? 20 * (N + E) + 100;
+  const gbAll = new Float64Array(N);
+  const phiAll = new Float64Array(N);
+  const gdAll = new Float64Array(N);
+  const denseAll = new Float64Array(DENSE_GROUPS * DENSE_GROUPS);
+  const work = workspace(N);
   let cscale = 0;
-  for (let p = 0; p < N; p++) cscale = Math.max(cscale, Math.abs(rhs[p]!), Math.abs(stencil[9 * p + 4]!));
+  for (let p = 0; p < N; p++) cscale = Math.max(cscale, Math.abs(rhs[p]!));
+  for (let k = 0; k < A.val.length; k++) cscale = Math.max(cscale, Math.abs(A.val[k]!));
 
   const find = (i: number): number => {
     while (parent[i] !== i) {
@@ -215,40 +385,46 @@ export function activeSetLattice(sys: LatticeSystem, edges: LatticeEdges, scaleS
       }
     }
     let G = 0;
-    const label = new Int32Array(N).fill(-1);
+    label.fill(-1);
     for (let i = 0; i < N; i++) {
       const r = find(i);
       if (label[r]! < 0) label[r] = G++;
       group[i] = label[r]!;
     }
-    // Reduced system: diagonal, right side, warm start.
-    const gd = new Float64Array(G);
-    const gb = new Float64Array(G);
-    const phi = new Float64Array(G);
-    for (let b2 = 0; b2 < k2; b2++) {
-      for (let a = 0; a < k1; a++) {
-        const p = b2 * k1 + a;
-        const g = group[p]!;
-        gb[g] = gb[g]! + rhs[p]!;
-        phi[g] = theta[p]!;
-        for (let db = -1; db <= 1; db++) {
-          if (b2 + db < 0 || b2 + db >= k2) continue;
-          for (let da = -1; da <= 1; da++) {
-            if (a + da < 0 || a + da >= k1) continue;
-            const q = p + da + db * k1;
-            if (group[q] === g) gd[g] = gd[g]! + stencil[9 * p + 3 * (db + 1) + (da + 1)]!;
-          }
-        }
+    // Reduced system: diagonal (or the whole matrix when small), right side, warm start.
+    const gb = gbAll.subarray(0, G).fill(0);
+    const phi = phiAll.subarray(0, G);
+    const dense = G <= DENSE_GROUPS ? denseAll.subarray(0, G * G).fill(0) : null;
+    const gd = gdAll.subarray(0, G).fill(0);
+    for (let i = 0; i < N; i++) {
+      const g = group[i]!;
+      gb[g] = gb[g]! + rhs[i]!;
+      phi[g] = theta[i]!;
+      for (let k = A.start[i]!; k < A.start[i + 1]!; k++) {
+        const h = group[A.col[k]!]!;
+        if (h === g) gd[g] = gd[g]! + A.val[k]!;
+        if (dense) dense[g * G + h] = dense[g * G + h]! + A.val[k]!;
       }
     }
     for (let g = 0; g < G; g++) if (!(gd[g]! > 0)) fail('NUMERICAL', 'knots', 'internal: a group normal equation is not positive');
-    const apply = (v: Float64Array, out: Float64Array): void => {
-      for (let p = 0; p < N; p++) full[p] = v[group[p]!]!;
-      applyStencil(stencil, k1, k2, full, hv);
-      out.fill(0);
-      for (let p = 0; p < N; p++) out[group[p]!] = out[group[p]!]! + hv[p]!;
-    };
-    pcg(apply, gd, gb, phi, 1e-14, 4 * G + 50, workspace(G));
+    let solved = false;
+    if (dense) {
+      const b = gb.slice();
+      if (denseSolve(dense, b, G)) {
+        phi.set(b);
+        solved = true;
+      }
+    }
+    if (!solved) {
+      const apply = (v: Float64Array, out: Float64Array): void => {
+        for (let p = 0; p < N; p++) full[p] = v[group[p]!]!;
+        applySparse(A, full, hv);
+        out.fill(0);
+        for (let p = 0; p < N; p++) out[group[p]!] = out[group[p]!]! + hv[p]!;
+      };
+      const w = { r: work.r.subarray(0, G), z: work.z.subarray(0, G), p: work.p.subarray(0, G), q: work.q.subarray(0, G) };
+      pcg(apply, gd, gb, phi, 1e-13, 10 * G + 100, w);
+    }
     for (let p = 0; p < N; p++) cand[p] = phi[group[p]!]!;
 
     // Ratio test over the edges outside the working set.
@@ -279,7 +455,7 @@ export function activeSetLattice(sys: LatticeSystem, edges: LatticeEdges, scaleS
     theta.set(cand);
 
     // Multipliers of the working edges: subtree sums of the gradient on each tree.
-    applyStencil(stencil, k1, k2, theta, hv);
+    applySparse(A, theta, hv);
     let gscale = cscale;
     for (let p = 0; p < N; p++) {
       grad[p] = hv[p]! - rhs[p]!;
@@ -302,12 +478,57 @@ export function activeSetLattice(sys: LatticeSystem, edges: LatticeEdges, scaleS
         lambda,
         solver: 'active-set',
         iterations: iter,
-        certificate: latticeCertificate(sys, edges, theta, lambda, scaleSS),
+        certificate: kktCertificate((v, out) => applySparse(A, v, out), rhs, edges, theta, lambda, scaleSS),
       };
     }
     inW[drop] = 0;
   }
   return null;
+}
+
+/**
+ * The lattice order induced on a subset of nodes (`index[node]` ≥ 0 for members, their compact
+ * index): one edge per covering pair p < q — q above p along both constrained axes (equal along an
+ * unconstrained one) with no member strictly between. Keeps every order relation among the members
+ * that passes through left-out nodes. O(m² log m) for m members.
+ */
+export function inducedOrder(k1: number, d1: AxisDirection, d2: AxisDirection, nodes: Int32Array): LatticeEdges {
+  const m = nodes.length;
+  const s1 = d1 === 'up' ? 1 : d1 === 'down' ? -1 : 0;
+  const s2 = d2 === 'up' ? 1 : d2 === 'down' ? -1 : 0;
+  const A = new Float64Array(m);
+  const B = new Float64Array(m);
+  const rawA = new Int32Array(m);
+  const rawB = new Int32Array(m);
+  for (let i = 0; i < m; i++) {
+    const p = nodes[i]!;
+    rawA[i] = p % k1;
+    rawB[i] = (p - rawA[i]!) / k1;
+    A[i] = s1 * rawA[i]!;
+    B[i] = s2 * rawB[i]!;
+  }
+  const lo: number[] = [];
+  const hi: number[] = [];
+  const cands: number[] = [];
+  for (let i = 0; i < m; i++) {
+    cands.length = 0;
+    for (let j = 0; j < m; j++) {
+      if (j === i) continue;
+      const okA = s1 === 0 ? rawA[j] === rawA[i] : A[j]! >= A[i]!;
+      const okB = s2 === 0 ? rawB[j] === rawB[i] : B[j]! >= B[i]!;
+      if (okA && okB) cands.push(j);
+    }
+    cands.sort((x, y) => A[x]! - A[y]! || B[x]! - B[y]!);
+    let minB = Infinity;
+    for (const j of cands) {
+      if (B[j]! < minB) {
+        lo.push(i);
+        hi.push(j);
+        minB = B[j]!;
+      }
+    }
+  }
+  return { lo: Int32Array.from(lo), hi: Int32Array.from(hi) };
 }
 
 /** λₑ for working edges: Σ of grad over the tree side holding hi(e). O(N + E). */
@@ -496,7 +717,8 @@ function chainMultipliers(
  * when both the stationarity and the complementarity of {@link latticeCertificate} are ≤ `tol`.
  *
  * Cost: O(9·K1K2) per CG step and O(K1K2) per sweep for the projections.
- * @throws RatchetError NUMERICAL when `maxSweeps` pass without meeting the tolerance.
+ * @throws RatchetError NUMERICAL when `maxSweeps` pass without meeting the tolerance (with
+ *   `strict`; otherwise the last checked iterate is returned).
  */
 export function admmLattice(
   sys: LatticeSystem,
@@ -506,6 +728,7 @@ export function admmLattice(
   scaleSS: number,
   tol: number,
   maxSweeps: number,
+  strict = true,
 ): LatticeSolution {
   const { k1, k2, stencil, rhs } = sys;
   const N = k1 * k2;
@@ -601,6 +824,7 @@ export function admmLattice(
       }
     }
   }
+  if (!strict) return best!;
   const c = best!.certificate;
   return fail(
     'NUMERICAL',
