@@ -2,8 +2,9 @@
  * Reading worksheet arguments (host-neutral {@link CellArg}s) into numbers and options.
  *
  * Cell rules, the same for every function (documented in docs/functions.md, "Cells"):
- * - a number is used as is; it must be finite and of magnitude at most {@link MAX_MAGNITUDE} (larger
- *   values would overflow sums of squares), else `#VALUE!`;
+ * - a number is used as is; it must be finite and 0 or of magnitude from {@link MIN_MAGNITUDE} (1e-300)
+ *   to {@link MAX_MAGNITUDE} (1e100) — larger values would overflow sums of squares, smaller ones
+ *   underflow knot spacings — else `#VALUE!`;
  * - a blank — `null`, `""`, or a cell the blank policy ({@link applyBlankTypes}) marks empty — is
  *   "no value": a data row with a blank x, y or weight is left out, never read as 0;
  * - text in a data range is `#VALUE!` (also numbers stored as text, with a hint to convert them);
@@ -23,6 +24,12 @@ import { hashFloat64 } from './hash.js';
 
 /** Largest accepted magnitude of a number in any argument (sums of squares of n ≤ 10⁶ such values stay finite). */
 export const MAX_MAGNITUDE = 1e100;
+
+/**
+ * Smallest accepted non-zero magnitude. Excel itself holds no numbers below about 2.2e-308; values
+ * this small (subnormal range) make knot spacings underflow, so they are refused rather than fitted.
+ */
+export const MIN_MAGNITUDE = 1e-300;
 
 /** A rectangular grid of cells, row-major. */
 export type Grid = readonly (readonly CellValueIn[])[];
@@ -92,7 +99,10 @@ function checkRectangular(name: string, grid: Grid): number {
 function dataCell(name: string, v: CellValueIn, pos: () => string): number {
   if (typeof v === 'number') {
     if (!Number.isFinite(v)) fail('NON_FINITE', name, `needs finite numbers; ${pos()} is ${describeCell(v)}`);
-    if (Math.abs(v) > MAX_MAGNITUDE) fail('NON_FINITE', name, `needs numbers of magnitude at most 1e100; ${pos()} is ${v}`);
+    const a = Math.abs(v);
+    if (a > MAX_MAGNITUDE || (a < MIN_MAGNITUDE && a !== 0)) {
+      fail('NON_FINITE', name, `needs numbers of magnitude from 1e-300 to 1e100, or 0; ${pos()} is ${v}`);
+    }
     return v === 0 ? 0 : v; // −0 → +0 so equal data hash equally
   }
   if (isBlank(v)) return BLANK;
