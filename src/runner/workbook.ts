@@ -7,6 +7,7 @@
  * exceljs reports them; cells inside an array formula's range hold cached results in the file and
  * are cleared before evaluation so the fresh result can spill there.
  */
+import { readFileSync, statSync } from 'node:fs';
 import ExcelJS from 'exceljs';
 import { DetailedCellError, HyperFormula, type RawCellContent, type SimpleCellAddress } from 'hyperformula';
 import { cellName, parseCellRef, parseRange, qualifiedName } from './address.js';
@@ -121,13 +122,20 @@ export class EvaluatedWorkbook {
    */
   static async fromFile(path: string): Promise<EvaluatedWorkbook> {
     const wb = new ExcelJS.Workbook();
+    let data: Buffer;
     try {
-      await wb.xlsx.readFile(path);
+      if (statSync(path).isDirectory()) throw new WorkbookReadError(`Cannot read "${path}": it is a folder.`);
+      data = readFileSync(path);
     } catch (e) {
+      if (e instanceof WorkbookReadError) throw e;
       const code = (e as { code?: string }).code;
-      const why =
-        code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : code === 'EACCES' ? 'permission denied' : 'it is not an .xlsx workbook (Excel 2007+ Open XML) or it is damaged';
+      const why = code === 'ENOENT' ? 'no such file' : code === 'EACCES' ? 'permission denied' : `the file cannot be opened (${code ?? String(e)})`;
       throw new WorkbookReadError(`Cannot read "${path}": ${why}.`);
+    }
+    try {
+      await wb.xlsx.load(data as unknown as ArrayBuffer);
+    } catch {
+      throw new WorkbookReadError(`Cannot read "${path}": it is not an .xlsx workbook (Excel 2007+ Open XML) or it is damaged.`);
     }
     if (wb.worksheets.length === 0) throw new WorkbookReadError(`Cannot read "${path}": it has no worksheets.`);
     return EvaluatedWorkbook.fromExcel(wb);

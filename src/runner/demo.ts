@@ -1,0 +1,166 @@
+/**
+ * `npm run demo`: evaluates every sample workbook with the headless runner and, per sample,
+ * prints the suggested knot count, its cv_rmse and the knot table, and writes an SVG picture of
+ * the fit (data points, fitted curve, knots, axes and labels) to out/.
+ *
+ * Everything shown is computed by RATCHET formulas evaluated in the workbook (the runner sets
+ * them into free cells of the Data sheet in memory; the sample files are not changed).
+ */
+import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join, relative } from 'node:path';
+import { EvaluatedWorkbook, type JsonCell } from './workbook.js';
+import type { SampleData } from './samples.js';
+import { parseRange } from './address.js';
+
+/** What the demo computed for one sample. */
+export interface DemoResult {
+  readonly file: string;
+  readonly title: string;
+  readonly suggested: number;
+  readonly cvRmse: number;
+  readonly cvSe: number;
+  readonly knots: [number, number][];
+  readonly classic: [number, number][];
+  readonly points: [number, number][];
+  readonly svgPath: string;
+}
+
+const num = (v: JsonCell | undefined): number => (typeof v === 'number' ? v : NaN);
+
+function columnOf(book: EvaluatedWorkbook, ref: string): JsonCell[] {
+  const g = parseRange(ref);
+  return book.block(`Data!${ref.split(':')[0]}`, g.bottom - g.top + 1, g.right - g.left + 1).flat();
+}
+
+/**
+ * Runs the demo over the samples listed in samples/expected.json.
+ * @param root repository root; SVGs go to root/out/.
+ * @param log where the text report goes.
+ * @param outDir where the SVGs go (default root/out, which is not committed).
+ */
+export async function runDemo(root: string, log: (line: string) => void = console.log, outDir = join(root, 'out')): Promise<DemoResult[]> {
+  const samplesDir = join(root, 'samples');
+  mkdirSync(outDir, { recursive: true });
+  const index = JSON.parse(readFileSync(join(samplesDir, 'expected.json'), 'utf8')) as {
+    samples: Record<string, { title: string; data: SampleData }>;
+  };
+  const results: DemoResult[] = [];
+  for (const [file, s] of Object.entries(index.samples)) {
+    const book = await EvaluatedWorkbook.fromFile(join(samplesDir, file));
+    const d = s.data;
+    const w = d.weights ?? '';
+    // Default candidates (2 … min(20, distinct x)), 5 folds, 1 repeat, seed 1, one-SE rule.
+    book.set({
+      'Data!AA1': `=RATCHET.BESTK(${d.ys},${d.xs},,,,,${d.direction},${w})`,
+      'Data!AB1': `=RATCHET.CV(${d.ys},${d.xs},,,,,${d.direction},${w})`,
+      'Data!AJ1': `=RATCHET.KNOTS(${d.ys},${d.xs},AA1,${d.direction},${w})`,
+      'Data!AM1': `=RATCHET.KNOTS(${d.ys},${d.xs},0,${d.direction},${w})`,
+    });
+    const bestCell = book.value('Data!AA1');
+    if (typeof bestCell !== 'number') throw new Error(`${file}: BESTK gave ${String(bestCell)}: ${book.message('Data!AA1') ?? ''}`);
+    const cv = book.result('Data!AB1');
+    const row = cv.find((r) => r[0] === bestCell) ?? [];
+    const knots = book.result('Data!AJ1').map((r) => [num(r[0]), num(r[1])] as [number, number]);
+    const classic = book.result('Data!AM1').map((r) => [num(r[0]), num(r[1])] as [number, number]);
+    const xs = columnOf(book, d.xs);
+    const ys = columnOf(book, d.ys);
+    const points: [number, number][] = [];
+    xs.forEach((x, i) => {
+      const y = ys[i];
+      if (typeof x === 'number' && typeof y === 'number') points.push([x, y]);
+    });
+    const svgPath = join(outDir, file.replace(/\.xlsx$/, '.svg'));
+    writeFileSync(svgPath, fitSvg({ title: s.title, xLabel: d.xLabel, yLabel: d.yLabel, points, knots, classic, suggested: bestCell }));
+    const result: DemoResult = { file, title: s.title, suggested: bestCell, cvRmse: num(row[1]), cvSe: num(row[2]), knots, classic, points, svgPath };
+    results.push(result);
+
+    log(`${file} — ${s.title} (invented data)`);
+    log(`  suggested knot count: ${bestCell}  (5-fold cross-validation, seed 1, one-standard-error rule)`);
+    log(`  cv_rmse at ${bestCell} knots: ${fmt(result.cvRmse)}  (cv_se ${fmt(result.cvSe)})`);
+    log(`  knot table (x, fitted value):`);
+    for (const [x, y] of knots) log(`    ${fmt(x).padStart(12)}  ${fmt(y).padStart(12)}`);
+    log(`  picture: ${relative(process.cwd(), svgPath) || svgPath}`);
+    log('');
+  }
+  return results;
+}
+
+function fmt(v: number): string {
+  if (!Number.isFinite(v)) return String(v);
+  return String(Number(v.toPrecision(6)));
+}
+
+/** "Nice" tick positions covering [lo, hi]: about `count` steps of 1, 2 or 5 × 10^k. */
+export function niceTicks(lo: number, hi: number, count = 6): number[] {
+  if (!(hi > lo)) return [lo];
+  const raw = (hi - lo) / count;
+  const mag = 10 ** Math.floor(Math.log10(raw));
+  const step = [1, 2, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
+  const out: number[] = [];
+  for (let t = Math.ceil(lo / step) * step; t <= hi + step * 1e-9; t += step) out.push(Number(t.toPrecision(12)));
+  return out;
+}
+
+const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
+
+/** The SVG picture of one fit: data points, classic fit (thin), knot fit and its knots, axes, labels. */
+export function fitSvg(p: {
+  title: string;
+  xLabel: string;
+  yLabel: string;
+  points: readonly [number, number][];
+  knots: readonly [number, number][];
+  classic: readonly [number, number][];
+  suggested: number;
+}): string {
+  const W = 720;
+  const H = 460;
+  const m = { left: 72, right: 24, top: 48, bottom: 64 };
+  const allX = [...p.points.map((q) => q[0]), ...p.knots.map((q) => q[0])];
+  const allY = [...p.points.map((q) => q[1]), ...p.knots.map((q) => q[1]), ...p.classic.map((q) => q[1])];
+  let [x0, x1] = [Math.min(...allX), Math.max(...allX)];
+  let [y0, y1] = [Math.min(...allY), Math.max(...allY)];
+  const padX = (x1 - x0 || 1) * 0.04;
+  const padY = (y1 - y0 || 1) * 0.08;
+  [x0, x1, y0, y1] = [x0 - padX, x1 + padX, y0 - padY, y1 + padY];
+  const sx = (x: number) => m.left + ((x - x0) / (x1 - x0)) * (W - m.left - m.right);
+  const sy = (y: number) => H - m.bottom - ((y - y0) / (y1 - y0)) * (H - m.top - m.bottom);
+  const f = (v: number) => v.toFixed(1);
+  const parts: string[] = [];
+  parts.push(`<svg xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" font-family="sans-serif" font-size="12">`);
+  parts.push(`<rect width="${W}" height="${H}" fill="white"/>`);
+  parts.push(`<text x="${W / 2}" y="22" text-anchor="middle" font-size="15" font-weight="bold">${esc(p.title)}</text>`);
+  parts.push(`<text x="${W / 2}" y="38" text-anchor="middle" fill="#555">invented data · monotone fit with ${p.suggested} knots (suggested by cross-validation) and the classic fit</text>`);
+  // Axes, ticks and grid.
+  const bx = H - m.bottom;
+  parts.push(`<line x1="${m.left}" y1="${bx}" x2="${W - m.right}" y2="${bx}" stroke="black"/>`);
+  parts.push(`<line x1="${m.left}" y1="${m.top}" x2="${m.left}" y2="${bx}" stroke="black"/>`);
+  for (const t of niceTicks(x0, x1)) {
+    parts.push(`<line x1="${f(sx(t))}" y1="${bx}" x2="${f(sx(t))}" y2="${bx + 5}" stroke="black"/>`);
+    parts.push(`<line x1="${f(sx(t))}" y1="${m.top}" x2="${f(sx(t))}" y2="${bx}" stroke="#eee"/>`);
+    parts.push(`<text x="${f(sx(t))}" y="${bx + 18}" text-anchor="middle">${t}</text>`);
+  }
+  for (const t of niceTicks(y0, y1)) {
+    parts.push(`<line x1="${m.left - 5}" y1="${f(sy(t))}" x2="${m.left}" y2="${f(sy(t))}" stroke="black"/>`);
+    parts.push(`<line x1="${m.left}" y1="${f(sy(t))}" x2="${W - m.right}" y2="${f(sy(t))}" stroke="#eee"/>`);
+    parts.push(`<text x="${m.left - 8}" y="${f(sy(t) + 4)}" text-anchor="end">${t}</text>`);
+  }
+  parts.push(`<text x="${(m.left + W - m.right) / 2}" y="${H - 18}" text-anchor="middle">${esc(p.xLabel)}</text>`);
+  parts.push(`<text transform="translate(18 ${(m.top + bx) / 2}) rotate(-90)" text-anchor="middle">${esc(p.yLabel)}</text>`);
+  // Curves: the classic fit (thin, grey) and the knot fit; both flat to the ends of the data.
+  const line = (table: readonly [number, number][]) => table.map(([x, y]) => `${f(sx(x))},${f(sy(y))}`).join(' ');
+  parts.push(`<polyline points="${line(p.classic)}" fill="none" stroke="#999" stroke-width="1.2" stroke-dasharray="4 3"/>`);
+  parts.push(`<polyline points="${line(p.knots)}" fill="none" stroke="#1f5fa8" stroke-width="2.4"/>`);
+  for (const [x, y] of p.points) parts.push(`<circle cx="${f(sx(x))}" cy="${f(sy(y))}" r="3.2" fill="#e07b00" fill-opacity="0.85"/>`);
+  for (const [x, y] of p.knots) parts.push(`<rect x="${f(sx(x) - 4.5)}" y="${f(sy(y) - 4.5)}" width="9" height="9" fill="white" stroke="#1f5fa8" stroke-width="2"/>`);
+  // Legend in the upper corner the curve leaves empty (left when rising, right when falling).
+  const rising = (p.knots[0]?.[1] ?? 0) <= (p.knots[p.knots.length - 1]?.[1] ?? 0);
+  const lx = rising ? m.left + 14 : W - m.right - 236;
+  const ly = m.top + 10;
+  parts.push(`<rect x="${lx - 8}" y="${ly - 10}" width="230" height="66" fill="white" fill-opacity="0.9" stroke="#ccc"/>`);
+  parts.push(`<circle cx="${lx}" cy="${ly}" r="3.2" fill="#e07b00"/><text x="${lx + 12}" y="${ly + 4}">data (${p.points.length} points)</text>`);
+  parts.push(`<line x1="${lx - 6}" y1="${ly + 18}" x2="${lx + 6}" y2="${ly + 18}" stroke="#1f5fa8" stroke-width="2.4"/><rect x="${lx - 4}" y="${ly + 14}" width="8" height="8" fill="white" stroke="#1f5fa8" stroke-width="2"/><text x="${lx + 12}" y="${ly + 22}">fit with ${p.suggested} knots, and its knots</text>`);
+  parts.push(`<line x1="${lx - 6}" y1="${ly + 36}" x2="${lx + 6}" y2="${ly + 36}" stroke="#999" stroke-dasharray="4 3"/><text x="${lx + 12}" y="${ly + 40}">classic fit</text>`);
+  parts.push('</svg>');
+  return `${parts.join('\n')}\n`;
+}

@@ -1,0 +1,188 @@
+/**
+ * The formulas-and-expected table: one row per formula — the sheet it runs on, the formula, and
+ * the value or error code it must give — covering every RATCHET function and every documented
+ * error, evaluated through the headless runner (HyperFormula with the registry's functions).
+ *
+ * Sources of the expected values:
+ * - "(hand)" rows are worked by hand in the comment beside them (pool-adjacent-violators by hand,
+ *   straight lines through exact data, linear interpolation of a knot table);
+ * - "(core)" rows compare with the core called directly (src/core), the same route the sample
+ *   expectations take, so the runner and the worksheet layer are checked against the engine;
+ * - error rows follow the error table of the worksheet functions (issue 4: argument problems are
+ *   #VALUE! naming the argument; INVERT outside the range is #N/A; error cells propagate).
+ */
+import { describe, expect, it } from 'vitest';
+import { crossValidate, suggestKnots } from '../../src/core/index.js';
+import { closeBlock, evaluate, type Setup, type SetupCell } from './helpers.js';
+
+type Value = number | string | boolean | null;
+
+interface Row {
+  /** What the row checks. */
+  readonly what: string;
+  /** Cells of the sheet the formula runs on (the formula goes to H1). */
+  readonly setup: Record<string, SetupCell>;
+  /** The formula, typed or stored form. */
+  readonly formula: string;
+  /** Expected block (top-left first) — or an error code. */
+  readonly expected: Value[][] | string;
+  /** For errors: a fragment the message must contain. */
+  readonly message?: string;
+}
+
+/** x = 1…6 in A1:A6, y in B1:B6. */
+function xy(y: readonly (Value | { f: string })[], x: readonly Value[] = [1, 2, 3, 4, 5, 6]): Record<string, SetupCell> {
+  const cells: Record<string, SetupCell> = {};
+  x.forEach((v, i) => (cells[`A${i + 1}`] = v));
+  y.forEach((v, i) => (cells[`B${i + 1}`] = v as SetupCell));
+  return cells;
+}
+
+// Base data: y = 1 3 2 4 6 5 at x = 1…6. Rising PAVA (hand): (3,2) pool to 2.5, (6,5) pool to 5.5,
+// so the fit is 1 2.5 2.5 4 5.5 5.5; residuals 0 .5 −.5 0 .5 −.5 → SSE 1, RMSE √(1/6), MAE 1/3;
+// ȳ = 3.5, SST = 17.5, R² = 1 − 1/17.5; four levels (1, 2.5, 4, 5.5).
+const BASE = xy([1, 3, 2, 4, 6, 5]);
+// Exact line y = 2x + 1: any knot model with knots at the data ends reproduces it.
+const LINE = xy([3, 5, 7, 9, 11, 13]);
+// Falling data: y = 6 4 5 3 1 2; falling PAVA (hand): (4,5) → 4.5, (1,2) → 1.5.
+const FALLING = xy([6, 4, 5, 3, 1, 2]);
+// A knot table (x 0, 2, 4; value 0, 4, 4) for EVAL and INVERT.
+const TABLE = { D1: 0, E1: 0, D2: 2, E2: 4, D3: 4, E3: 4 };
+
+// Cross-validation with seed 0 (no shuffle), 2 folds over the base data (hand):
+// fold 1 = rows 1–3, fold 2 = rows 4–6, held-out rows outside the training range read flat.
+// Classic: train 4–6 → fit 4 5.5 5.5, rows 1–3 read 4: errors −3 −1 −2 (SSE 14);
+//          train 1–3 → fit 1 2.5 2.5, rows 4–6 read 2.5: errors 1.5 3.5 2.5 (SSE 20.75).
+// cv_rmse = √(34.75/6); per-fold RMSE √(14/3), √(20.75/3); cv_se = sd/√2 (sd with n − 1);
+// cv_r2 = 1 − 34.75/17.5; cv_mae = 13.5/6; train RMSE √(0.5/3) in both folds.
+const f1 = Math.sqrt(14 / 3);
+const f2 = Math.sqrt(20.75 / 3);
+const seHand = Math.abs(f1 - f2) / Math.SQRT2 / Math.SQRT2;
+// Two knots: train 4–6 → least-squares line 4.5 … 5.5, rows 1–3 read 4.5 (SSE 20.75);
+//            train 1–3 → line 1.5 … 2.5, rows 4–6 read 2.5 (SSE 20.75). cv_rmse = √(41.5/6);
+//            absolute errors 3.5 1.5 2.5 and 1.5 3.5 2.5 → cv_mae 15/6; equal folds → cv_se 0;
+//            training residuals −.5 1 −.5 in both folds → train RMSE √(1.5/3).
+const cvK2 = Math.sqrt(41.5 / 6);
+
+const BASE_X = [1, 2, 3, 4, 5, 6];
+const BASE_Y = [1, 3, 2, 4, 6, 5];
+const coreCv = crossValidate(BASE_X, BASE_Y, { candidates: [2, 3, 4], folds: 3, seed: 7 });
+
+const ROWS: Row[] = [
+  // ---- FIT ----
+  { what: 'FIT classic rising (hand)', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: [[1], [2.5], [2.5], [4], [5.5], [5.5]] },
+  { what: 'FIT stored form reads the same (hand)', setup: BASE, formula: '_xldudf_RATCHET_FIT(B1:B6,A1:A6)', expected: [[1], [2.5], [2.5], [4], [5.5], [5.5]] },
+  { what: 'FIT falling, direction -1 (hand)', setup: FALLING, formula: '=RATCHET.FIT(B1:B6,A1:A6,0,-1)', expected: [[6], [4.5], [4.5], [3], [1.5], [1.5]] },
+  { what: 'FIT direction 0 picks falling (hand)', setup: FALLING, formula: '=RATCHET.FIT(B1:B6,A1:A6,0,0)', expected: [[6], [4.5], [4.5], [3], [1.5], [1.5]] },
+  // Weights 1, 3 pool 3 and 2 to (3 + 6)/4 = 2.25 (hand).
+  { what: 'FIT weighted (hand)', setup: { A1: 1, A2: 2, A3: 3, B1: 1, B2: 3, B3: 2, C1: 1, C2: 1, C3: 3 }, formula: '=RATCHET.FIT(B1:B3,A1:A3,0,1,C1:C3)', expected: [[1], [2.25], [2.25]] },
+  { what: 'FIT with 2 knots reproduces an exact line (hand)', setup: LINE, formula: '=RATCHET.FIT(B1:B6,A1:A6,2)', expected: [[3], [5], [7], [9], [11], [13]] },
+  { what: 'FIT with knot positions from an array constant (hand)', setup: LINE, formula: '=RATCHET.FIT(B1:B6,A1:A6,{1;3;6})', expected: [[3], [5], [7], [9], [11], [13]] },
+  // Row 3 has a blank x: left out, its fitted cell is "", the rest pool as 1, (3) , (6,5) → 5.5 … (hand)
+  { what: 'FIT leaves a row with a blank x out and shows it empty (hand)', setup: xy([1, 3, 2, 4, 6, 5], [1, 2, null, 4, 5, 6]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: [[1], [3], [''], [4], [5.5], [5.5]] },
+  { what: 'FIT over a row of data keeps the row shape (hand)', setup: { A1: 1, B1: 2, C1: 3, A2: 2, B2: 1, C2: 3 }, formula: '=RATCHET.FIT(A2:C2,A1:C1)', expected: [[1.5, 1.5, 3]] },
+  { what: 'FIT with ROUND around it vectorises (hand)', setup: BASE, formula: '=ROUND(RATCHET.FIT(B1:B6,A1:A6)/3,2)', expected: [[0.33], [0.83], [0.83], [1.33], [1.83], [1.83]] },
+  // ---- PREDICT ----
+  { what: 'PREDICT, flat beyond the data (hand)', setup: LINE, formula: '=RATCHET.PREDICT({0;3.5;10},B1:B6,A1:A6,2)', expected: [[3], [8], [13]] },
+  { what: 'PREDICT classic between data points interpolates (hand)', setup: BASE, formula: '=RATCHET.PREDICT(3.5,B1:B6,A1:A6)', expected: [[3.25]] },
+  { what: 'PREDICT at SEQUENCE inputs (hand)', setup: LINE, formula: '=RATCHET.PREDICT(SEQUENCE(1,3,2,2),B1:B6,A1:A6,2)', expected: [[5, 9, 13]] },
+  // ---- KNOTS ----
+  // The classic table is the smallest that reproduces PREDICT: (4, 4) lies on the line from
+  // (3, 2.5) to (5, 5.5) and is not needed (hand).
+  { what: 'KNOTS classic: the smallest reproducing table (hand)', setup: BASE, formula: '=RATCHET.KNOTS(B1:B6,A1:A6)', expected: [[1, 1], [2, 2.5], [3, 2.5], [5, 5.5], [6, 5.5]] },
+  { what: 'KNOTS with 2 knots (hand)', setup: LINE, formula: '=RATCHET.KNOTS(B1:B6,A1:A6,2)', expected: [[1, 3], [6, 13]] },
+  { what: 'KNOTS with 3 explicit positions (hand)', setup: LINE, formula: '=RATCHET.KNOTS(B1:B6,A1:A6,{1;3;6})', expected: [[1, 3], [3, 7], [6, 13]] },
+  // ---- EVAL ----
+  { what: 'EVAL interpolates a knot table, flat beyond (hand)', setup: TABLE, formula: '=RATCHET.EVAL({-1;1.5;9},D1:E3)', expected: [[0], [3], [4]] },
+  { what: 'EVAL of an array-constant table (hand)', setup: {}, formula: '=RATCHET.EVAL(2,{1,1;6,5})', expected: [[1.8]] },
+  // ---- INVERT ----
+  { what: 'INVERT, tie middle by default (hand)', setup: TABLE, formula: '=RATCHET.INVERT({2;4},D1:E3)', expected: [[1], [3]] },
+  { what: 'INVERT, tie -1 lowest x of the flat stretch (hand)', setup: TABLE, formula: '=RATCHET.INVERT(4,D1:E3,-1)', expected: [[2]] },
+  { what: 'INVERT, tie 1 highest x of the flat stretch (hand)', setup: TABLE, formula: '=RATCHET.INVERT(4,D1:E3,1)', expected: [[4]] },
+  // ---- QKNOTS ----
+  // Type-7 quantiles of 1 2 3 4 100 at p = 0, .5, 1: 1, 3, 100 (hand).
+  { what: 'QKNOTS at quantiles (hand)', setup: { A1: 1, A2: 2, A3: 3, A4: 4, A5: 100 }, formula: '=RATCHET.QKNOTS(A1:A5,3)', expected: [[1], [3], [100]] },
+  // ---- STATS ----
+  {
+    what: 'STATS of the classic fit (hand)',
+    setup: BASE,
+    formula: '=RATCHET.STATS(B1:B6,A1:A6)',
+    expected: [['n', 6], ['dropped', 0], ['knots', 5], ['direction', 1], ['r2', 1 - 1 / 17.5], ['rmse', Math.sqrt(1 / 6)], ['mae', 1 / 3], ['sse', 1], ['levels', 4]],
+  },
+  {
+    what: 'STATS counts a dropped row and reports the direction chosen (hand)',
+    setup: xy([6, 4, 5, 3, 1, null]),
+    formula: '=RATCHET.STATS(B1:B6,A1:A6,0,0)',
+    // Rows 1–5: 6, (4,5) → 4.5, 3, 1: SSE 0.5, RMSE √(0.5/5), MAE 1/5; ȳ = 3.8, SST = 14.8.
+    expected: [['n', 5], ['dropped', 1], ['knots', 5], ['direction', -1], ['r2', 1 - 0.5 / 14.8], ['rmse', Math.sqrt(0.1)], ['mae', 0.2], ['sse', 0.5], ['levels', 4]],
+  },
+  // ---- CV ----
+  {
+    what: 'CV, seed 0, 2 folds, classic and 2 knots (hand)',
+    setup: BASE,
+    formula: '=RATCHET.CV(B1:B6,A1:A6,{0;2},2,1,0)',
+    expected: [
+      ['knots', 'cv_rmse', 'cv_se', 'cv_r2', 'cv_mae', 'train_rmse'],
+      [0, Math.sqrt(34.75 / 6), seHand, 1 - 34.75 / 17.5, 13.5 / 6, Math.sqrt(0.5 / 3)],
+      [2, cvK2, 0, 1 - 41.5 / 17.5, 15 / 6, Math.sqrt(1.5 / 3)],
+    ],
+  },
+  {
+    what: 'CV, shuffled, against the core (core)',
+    setup: BASE,
+    formula: '=RATCHET.CV(B1:B6,A1:A6,SEQUENCE(3,1,2),3,1,7)',
+    expected: [['knots', 'cv_rmse', 'cv_se', 'cv_r2', 'cv_mae', 'train_rmse'], ...coreCv.scores.map((s) => [s.knots, s.cvRmse, s.cvSe, s.cvR2, s.cvMae, s.trainRmse])],
+  },
+  // ---- BESTK ----
+  { what: 'BESTK minimum rule picks the smaller cv_rmse (hand)', setup: BASE, formula: '=RATCHET.BESTK(B1:B6,A1:A6,{0;2},2,1,0,1,,0)', expected: [[0]] },
+  { what: 'BESTK one-SE rule, against the core (core)', setup: BASE, formula: '=RATCHET.BESTK(B1:B6,A1:A6,SEQUENCE(3,1,2),3,1,7)', expected: [[suggestKnots(coreCv.scores, 'one-se').knots]] },
+  { what: 'BESTK minimum rule, against the core (core)', setup: BASE, formula: '=RATCHET.BESTK(B1:B6,A1:A6,SEQUENCE(3,1,2),3,1,7,1,,0)', expected: [[suggestKnots(coreCv.scores, 'min').knots]] },
+  // ---- errors: argument problems are #VALUE! naming the argument ----
+  { what: 'text in a data range', setup: xy([1, 3, 'abc', 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: '#VALUE!', message: 'known_ys' },
+  { what: 'a number stored as text in a data range', setup: xy([1, 3, '2', 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: '#VALUE!', message: 'known_ys' },
+  { what: 'a logical in a data range', setup: xy([1, 3, true, 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: '#VALUE!', message: 'known_ys' },
+  { what: 'mismatched sizes', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A5)', expected: '#VALUE!', message: 'known_xs' },
+  { what: 'knots 1', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A6,1)', expected: '#VALUE!', message: 'knots' },
+  { what: 'fractional knots', setup: BASE, formula: '=RATCHET.KNOTS(B1:B6,A1:A6,2.5)', expected: '#VALUE!', message: 'knots' },
+  { what: 'knot positions not increasing', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A6,{1;4;3})', expected: '#VALUE!', message: 'knots' },
+  { what: 'a negative weight', setup: { ...BASE, C1: 1, C2: -1, C3: 1, C4: 1, C5: 1, C6: 1 }, formula: '=RATCHET.FIT(B1:B6,A1:A6,0,1,C1:C6)', expected: '#VALUE!', message: 'weights' },
+  { what: 'direction outside {-1, 0, 1}', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A6,0,2)', expected: '#VALUE!', message: 'direction' },
+  { what: 'fewer than 2 usable rows', setup: xy([1, null, null, null, null, null]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: '#VALUE!', message: 'known_ys' },
+  { what: 'folds 1', setup: BASE, formula: '=RATCHET.CV(B1:B6,A1:A6,2,1)', expected: '#VALUE!', message: 'folds' },
+  { what: 'folds above n', setup: BASE, formula: '=RATCHET.BESTK(B1:B6,A1:A6,2,7)', expected: '#VALUE!', message: 'folds' },
+  { what: 'repeats 0', setup: BASE, formula: '=RATCHET.CV(B1:B6,A1:A6,2,2,0)', expected: '#VALUE!', message: 'repeats' },
+  { what: 'a negative seed', setup: BASE, formula: '=RATCHET.CV(B1:B6,A1:A6,2,2,1,-1)', expected: '#VALUE!', message: 'seed' },
+  { what: 'candidate knot count 1', setup: BASE, formula: '=RATCHET.CV(B1:B6,A1:A6,{1;2})', expected: '#VALUE!', message: 'candidates' },
+  { what: 'BESTK rule outside {0, 1}', setup: BASE, formula: '=RATCHET.BESTK(B1:B6,A1:A6,{2;3},2,1,0,1,,2)', expected: '#VALUE!', message: 'rule' },
+  { what: 'QKNOTS count 1', setup: BASE, formula: '=RATCHET.QKNOTS(A1:A6,1)', expected: '#VALUE!', message: 'count' },
+  { what: 'malformed knot table: x not increasing', setup: {}, formula: '=RATCHET.EVAL(1,{1,2;1,3})', expected: '#VALUE!', message: 'knot_table' },
+  { what: 'malformed knot table: three columns', setup: {}, formula: '=RATCHET.INVERT(1,{1,2,3;4,5,6})', expected: '#VALUE!', message: 'knot_table' },
+  { what: 'INVERT tie outside {-1, 0, 1}', setup: TABLE, formula: '=RATCHET.INVERT(2,D1:E3,3)', expected: '#VALUE!', message: 'tie' },
+  // ---- errors: #N/A for an unreachable target; error cells propagate ----
+  { what: 'INVERT target outside the curve', setup: TABLE, formula: '=RATCHET.INVERT(5,D1:E3)', expected: '#N/A', message: 'outside' },
+  { what: 'a #DIV/0! cell inside a data range propagates', setup: xy([1, 3, { f: '1/0' }, 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: '#DIV/0!' },
+  { what: 'a #N/A cell inside a data range propagates', setup: xy([1, 3, { f: 'NA()' }, 4, 6, 5]), formula: '=RATCHET.STATS(B1:B6,A1:A6)', expected: '#N/A' },
+  { what: 'more arguments than the function takes (runner)', setup: TABLE, formula: '=RATCHET.EVAL(1,D1:E3,1)', expected: '#N/A', message: 'at most 2 arguments' },
+];
+
+describe('formulas and expected values, evaluated by the runner', () => {
+  // One workbook, one sheet per row, so every formula runs in the same engine.
+  const setup: Setup = {};
+  ROWS.forEach((row, i) => (setup[`T${i + 1}`] = { ...row.setup, H1: { f: row.formula.replace(/^=/, '') } }));
+  const book = evaluate(setup);
+
+  it('covers every RATCHET function', () => {
+    const used = new Set(ROWS.flatMap((r) => [...r.formula.matchAll(/RATCHET[._]([A-Z]+)\(/g)].map((m) => m[1])));
+    expect([...used].sort()).toEqual(['BESTK', 'CV', 'EVAL', 'FIT', 'INVERT', 'KNOTS', 'PREDICT', 'QKNOTS', 'STATS']);
+  });
+
+  it.each(ROWS.map((r, i) => [r.what, r, i] as const))('%s', (_what, row, i) => {
+    const at = `T${i + 1}!H1`;
+    if (typeof row.expected === 'string') {
+      expect(book.value(at)).toBe(row.expected);
+      if (row.message !== undefined) expect(book.message(at) ?? '').toContain(row.message);
+    } else {
+      expect(closeBlock(book.result(at), row.expected)).toBeUndefined();
+    }
+  });
+});

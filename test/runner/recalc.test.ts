@@ -1,0 +1,89 @@
+/**
+ * Recalculation in the runner: changing inputs in-process re-evaluates dependent fits, knot
+ * tables and cross-validation rows, and array results grow, shrink, collide (#SPILL!) and recover
+ * as they do in Excel. Expected values are worked by hand in the comments.
+ */
+import { describe, expect, it } from 'vitest';
+import { closeBlock, evaluate } from './helpers.js';
+
+// y = x at x = 1…6: the classic fit is the data, and the smallest knot table is its two ends.
+function book() {
+  return evaluate({
+    D: {
+      A1: 1, A2: 2, A3: 3, A4: 4, A5: 5, A6: 6,
+      B1: 1, B2: 2, B3: 3, B4: 4, B5: 5, B6: 6,
+      C1: 2,
+      D1: { f: '_xldudf_RATCHET_KNOTS(B1:B6,A1:A6)' },
+      G1: { f: 'RATCHET.EVAL(2.5,D1:E10)' },
+      H1: { f: 'RATCHET.FIT(B1:B6,A1:A6)' },
+      J1: { f: 'RATCHET.CV(B1:B6,A1:A6,SEQUENCE(C1,1,2),2,1,0)' },
+      Q1: { f: 'SUM(H1:H6)' },
+    },
+  });
+}
+
+describe('recalculation in-process', () => {
+  it('starts from the hand-worked values', () => {
+    const b = book();
+    expect(b.result('D!D1')).toEqual([[1, 1], [6, 6]]);
+    expect(b.value('D!G1')).toBe(2.5);
+    expect(b.result('D!H1')).toEqual([[1], [2], [3], [4], [5], [6]]);
+    expect(b.result('D!J1').map((r) => r[0])).toEqual(['knots', 2, 3]);
+    expect(b.value('D!Q1')).toBe(21);
+  });
+
+  it('a changed input re-fits, and the KNOTS table grows and shrinks with its data', () => {
+    const b = book();
+    // y3 = 10: PAVA pools 10, 4, 5, 6 to 6.25 → fit 1 2 6.25 6.25 6.25 6.25;
+    // smallest table (1,1) (2,2) (3,6.25) (6,6.25); EVAL at 2.5 = 2 + 0.5·4.25 = 4.125.
+    b.set({ 'D!B3': 10 });
+    expect(b.result('D!D1')).toEqual([[1, 1], [2, 2], [3, 6.25], [6, 6.25]]);
+    expect(b.value('D!G1')).toBe(4.125);
+    expect(b.result('D!H1')).toEqual([[1], [2], [6.25], [6.25], [6.25], [6.25]]);
+    expect(b.value('D!Q1')).toBe(28);
+    // Back to y = x: two rows again, and the cells the larger table used are empty.
+    b.set({ 'D!B3': 3 });
+    expect(b.result('D!D1')).toEqual([[1, 1], [6, 6]]);
+    expect(b.block('D!D3', 2, 2)).toEqual([[null, null], [null, null]]);
+    expect(b.value('D!G1')).toBe(2.5);
+  });
+
+  it('cross-validation rows follow a changed candidate count and changed data', () => {
+    const b = book();
+    b.set({ 'D!C1': 4 });
+    expect(b.result('D!J1').map((r) => r[0])).toEqual(['knots', 2, 3, 4, 5]);
+    const before = b.result('D!J1')[1]![1];
+    b.set({ 'D!B6': 12 });
+    const after = b.result('D!J1')[1]![1];
+    expect(typeof before).toBe('number');
+    expect(after).not.toBe(before);
+    b.set({ 'D!C1': 1 });
+    expect(b.result('D!J1').map((r) => r[0])).toEqual(['knots', 2]);
+  });
+
+  it('a result that would cover a filled cell is #SPILL!, and recovers when there is room', () => {
+    const b = book();
+    b.set({ 'D!D4': 'note' });
+    expect(b.result('D!D1')).toEqual([[1, 1], [6, 6]]);
+    b.set({ 'D!B3': 10 }); // the table needs four rows now; D4 is taken
+    expect(b.value('D!D1')).toBe('#SPILL!');
+    b.set({ 'D!B3': 3 }); // two rows again: fits above D4
+    expect(b.result('D!D1')).toEqual([[1, 1], [6, 6]]);
+    b.set({ 'D!B3': 10, 'D!D4': null }); // four rows and the cell cleared
+    expect(closeBlock(b.result('D!D1'), [[1, 1], [2, 2], [3, 6.25], [6, 6.25]])).toBeUndefined();
+  });
+
+  it('a formula set in-process is read in either form and evaluated', () => {
+    const b = book();
+    b.set({ 'D!S1': '=_xldudf_RATCHET_PREDICT(3.5,B1:B6,A1:A6)', 'D!S2': '=RATCHET.STATS(B1:B6,A1:A6)' });
+    expect(b.value('D!S1')).toBe(3.5);
+    expect(b.result('D!S2')[0]).toEqual(['n', 6]);
+    expect(b.results().find((r) => r.cell === 'S1')?.formula).toBe('=RATCHET.PREDICT(3.5,B1:B6,A1:A6)');
+  });
+
+  it('refuses to write into a spilled result and names the sheet it cannot find', () => {
+    const b = book();
+    expect(() => b.set({ 'D!E2': 5 })).toThrow('D!E2: the cell holds part of a spilled result');
+    expect(() => b.set({ 'Nope!A1': 5 })).toThrow('there is no sheet named "Nope"');
+  });
+});
