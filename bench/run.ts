@@ -5,10 +5,12 @@
 import type { BenchRecord } from './harness.js';
 import { run as coreSuite } from './core.js';
 import { run as cvSuite } from './cv.js';
+import { run as surfaceSuite } from './surface.js';
 
 type Suite = (emit: (r: BenchRecord) => void, options: { quick: boolean }) => Promise<void> | void;
 const suites: [string, Suite][] = [['core', coreSuite]];
 suites.push(['cv', cvSuite]);
+suites.push(['surface', surfaceSuite]);
 
 const json = process.argv.includes('--json');
 const quick = process.argv.includes('--quick');

@@ -289,7 +289,9 @@ export function surfaceChecked(
       rhs[i] = sys.rhs[nodes[i]!]!;
       if (warm) warm[i] = approx!.theta[nodes[i]!]!;
     }
-    sol = activeSetSparse(dataMatrix, rhs, inducedOrder(k1, d1, d2, nodes), scaleSS, exactLimit, warm);
+    // With every node identified the induced order is the lattice's own (covering pairs = neighbours).
+    const order = M === N ? edges : inducedOrder(k1, d1, d2, nodes);
+    sol = activeSetSparse(dataMatrix, rhs, order, scaleSS, exactLimit, warm);
     if (sol) {
       theta = new Float64Array(N);
       for (let i = 0; i < M; i++) theta[nodes[i]!] = sol.theta[i]!;
