@@ -497,9 +497,6 @@ export function holdoutValidate(x: ArrayLike<number>, y: ArrayLike<number>, opti
       testRows++;
     }
   }
-  const scores = candidates.map((k, c) => {
-    const s = scoreOf(k, acc[c]!, sst, 1, true);
-    return s;
-  });
+  const scores = candidates.map((k, c) => scoreOf(k, acc[c]!, sst, 1, true));
   return { scores, folds: 1, repeats: 1, seed, n: p.n, method: 'holdout', testFraction, testRows };
 }
