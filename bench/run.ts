@@ -6,11 +6,13 @@ import type { BenchRecord } from './harness.js';
 import { run as coreSuite } from './core.js';
 import { run as cvSuite } from './cv.js';
 import { run as surfaceSuite } from './surface.js';
+import { run as runnerSuite } from './runner.js';
 
 type Suite = (emit: (r: BenchRecord) => void, options: { quick: boolean }) => Promise<void> | void;
 const suites: [string, Suite][] = [['core', coreSuite]];
 suites.push(['cv', cvSuite]);
 suites.push(['surface', surfaceSuite]);
+suites.push(['runner', runnerSuite]);
 
 const json = process.argv.includes('--json');
 const quick = process.argv.includes('--quick');

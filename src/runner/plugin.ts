@@ -55,19 +55,36 @@ export interface SizingState {
   readonly dirty: Set<string>;
   /** Number of RATCHET calls evaluated (for tests and diagnostics). */
   calls: number;
+  /**
+   * Range arguments converted during the current recalculation, by range address. Within one
+   * recalculation a range's cells are all computed before any formula reads it, so every call
+   * reading the same range can share one converted (never mutated) argument — which lets the
+   * functions' parse memo and result cache recognise it. Cleared before each recalculation
+   * ({@link beginRecalculation}).
+   */
+  readonly ranges: Map<string, CellArg>;
 }
 
 const sizingByGraph = new WeakMap<object, SizingState>();
 
 /** The sizing state of a HyperFormula instance (created on first use). */
 export function sizingStateOf(hf: HyperFormula): SizingState {
-  const graph = hf.dependencyGraph as unknown as object;
+  return sizingFor(hf.dependencyGraph as unknown as object);
+}
+
+/** The sizing state kept for one dependency graph (one engine instance). */
+function sizingFor(graph: object): SizingState {
   let s = sizingByGraph.get(graph);
   if (!s) {
-    s = { learned: new Map(), reserved: new Map(), dirty: new Set(), calls: 0 };
+    s = { learned: new Map(), reserved: new Map(), dirty: new Set(), calls: 0, ranges: new Map() };
     sizingByGraph.set(graph, s);
   }
   return s;
+}
+
+/** Call before any engine operation that recalculates: forgets converted range arguments. */
+export function beginRecalculation(hf: HyperFormula): void {
+  sizingStateOf(hf).ranges.clear();
 }
 
 /** HyperFormula error type of an Excel error code. */
@@ -199,7 +216,7 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
     callRatchet(ast: AstLike, state: StateLike): Internal {
       const fn = byId.get((ast.procedureName ?? '').toUpperCase());
       if (!fn) return new CellError(ErrorType.NAME, `Unknown function ${ast.procedureName}.`);
-      const sizing = sizingStateOf({ dependencyGraph: this.dependencyGraph } as unknown as HyperFormula);
+      const sizing = sizingFor(this.dependencyGraph as unknown as object);
       sizing.calls++;
       const asts = ast.args ?? [];
       if (asts.length > fn.params.length) {
@@ -209,7 +226,16 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
       const args: CellArg[] = fn.params.map((_p, i) => {
         const a = asts[i];
         if (a === undefined || a.type === 'EMPTY') return undefined;
-        return toCellArg(this.evaluateAst(a as never, argState as never));
+        const v = this.evaluateAst(a as never, argState as never) as Internal;
+        const range = v instanceof SimpleRangeValue ? v.range : undefined;
+        if (range === undefined) return toCellArg(v);
+        const key = `${range.start.sheet}:${range.start.row}:${range.start.col}:${range.end.row}:${range.end.col}`;
+        let arg = sizing.ranges.get(key);
+        if (arg === undefined) {
+          arg = toCellArg(v);
+          sizing.ranges.set(key, arg);
+        }
+        return arg;
       });
       let result: CellResult;
       try {
@@ -230,7 +256,7 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
 
     /** Reserves the size this call produced last time here, or one cell when unknown. */
     sizeRatchet(ast: AstLike, state: StateLike): ArraySize {
-      const sizing = sizingStateOf({ dependencyGraph: this.dependencyGraph } as unknown as HyperFormula);
+      const sizing = sizingFor(this.dependencyGraph as unknown as object);
       const key = `${cellKey(state)}|${astKey(ast)}`;
       const d = sizing.learned.get(key) ?? { rows: 1, cols: 1 };
       sizing.reserved.set(key, d);

@@ -12,7 +12,7 @@ import ExcelJS from 'exceljs';
 import { DetailedCellError, HyperFormula, type RawCellContent, type SimpleCellAddress } from 'hyperformula';
 import { cellName, parseCellRef, parseRange, qualifiedName } from './address.js';
 import { callsRatchet, toStoredForm, toTypedForm } from './formula-text.js';
-import { sizingStateOf } from './plugin.js';
+import { beginRecalculation, sizingStateOf } from './plugin.js';
 
 /** A cell value in the runner's JSON: numbers, text, logicals, null for blank, error codes as text. */
 export type JsonCell = number | string | boolean | null;
@@ -91,6 +91,18 @@ export function parseInputValue(text: string): InputValue {
   const n = Number(t);
   if (Number.isFinite(n) && /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return n;
   return text;
+}
+
+/**
+ * The workbook's defined names that refer to one cell or one range, as HyperFormula named
+ * expressions (so `=RATCHET.FIT(Strength,Temperature)` works). Names over several ranges and
+ * Excel's own names (`_xlnm.Print_Area`, …) are left out; a formula using them shows #NAME?.
+ */
+function namedRanges(wb: ExcelJS.Workbook): { name: string; expression: string }[] {
+  const model = (wb.definedNames as unknown as { model: { name: string; ranges: string[] }[] }).model;
+  return model
+    .filter((d) => d.ranges.length === 1 && !d.name.startsWith('_xlnm.') && /^[A-Za-z_\\][A-Za-z0-9_.]*$/.test(d.name))
+    .map((d) => ({ name: d.name, expression: `=${d.ranges[0]!}` }));
 }
 
 /** Thrown for a file the runner cannot read as a workbook; the message is meant for users. */
@@ -185,7 +197,7 @@ export class EvaluatedWorkbook {
       }
       sheets[ws.name] = grid;
     }
-    const hf = HyperFormula.buildFromSheets(sheets, HF_CONFIG);
+    const hf = HyperFormula.buildFromSheets(sheets, HF_CONFIG, namedRanges(wb));
     const book = new EvaluatedWorkbook(hf, wb, names);
     book.settle();
     return book;
@@ -223,6 +235,7 @@ export class EvaluatedWorkbook {
       }
       return { addr, raw, ref, v };
     });
+    beginRecalculation(this.hf);
     this.hf.batch(() => {
       for (const e of entries) this.hf.setCellContents(e.addr, [[e.raw]]);
     });
@@ -251,6 +264,7 @@ export class EvaluatedWorkbook {
         todo.add(k);
       }
       if (todo.size === 0) return;
+      beginRecalculation(this.hf);
       this.hf.batch(() => {
         for (const k of todo) {
           const [sheet, row, col] = k.split(':').map(Number) as [number, number, number];

@@ -87,3 +87,19 @@ describe('recalculation in-process', () => {
     expect(() => b.set({ 'Nope!A1': 5 })).toThrow('there is no sheet named "Nope"');
   });
 });
+
+describe('defined names', () => {
+  it('a named range works as a RATCHET argument and follows its cells', async () => {
+    const { excelOf } = await import('./helpers.js');
+    const { EvaluatedWorkbook } = await import('../../src/runner/workbook.js');
+    const wb = excelOf({
+      'Lab data': { A1: 1, A2: 2, A3: 3, B1: 1, B2: 3, B3: 2, D1: { f: 'RATCHET.FIT(Signal,Conc)' } },
+    });
+    wb.definedNames.add("'Lab data'!$A$1:$A$3", 'Conc');
+    wb.definedNames.add("'Lab data'!$B$1:$B$3", 'Signal');
+    const b = EvaluatedWorkbook.fromExcel(wb);
+    expect(b.result('Lab data!D1')).toEqual([[1], [2.5], [2.5]]); // (3, 2) pool to 2.5 (hand)
+    b.set({ "'Lab data'!B2": 1.5 });
+    expect(b.result('Lab data!D1')).toEqual([[1], [1.5], [2]]);
+  });
+});
