@@ -21,6 +21,23 @@ export function intervalIndex(t: ArrayLike<number>, x: number): number {
 }
 
 /**
+ * The point at share `u` ∈ [0, 1] of the way from `v0` to `v1`: v0 + u(v1 − v0), kept inside
+ * [min(v0, v1), max(v0, v1)]. Without that clamp, rounding can carry the result past `v1` when
+ * |v0| ≫ |v1| (by up to an ulp of v0), which would break the monotonicity of a fitted curve; and
+ * v0 + 1·(v1 − v0) need not be v1, so u ≥ 1 returns `v1` exactly (the flat end beyond the last
+ * knot then equals the last knot value). u ≤ 0 and equal ends return `v0` exactly. Cost O(1).
+ *
+ * @param v0 value at u = 0 (finite). @param v1 value at u = 1 (finite). @param u share, 0 … 1.
+ * @example lerp(2, 4, 0.25) // → 2.5
+ */
+export function lerp(v0: number, v1: number, u: number): number {
+  if (v0 === v1 || u <= 0) return v0;
+  if (u >= 1) return v1;
+  const v = v0 + u * (v1 - v0);
+  return v0 < v1 ? (v < v0 ? v0 : v > v1 ? v1 : v) : v > v0 ? v0 : v < v1 ? v1 : v;
+}
+
+/**
  * Value at `x` of the curve through the points (t_j, v_j): linear between neighbouring knots,
  * equal to v_0 for x ≤ t_0 and to v_{m−1} for x ≥ t_{m−1} (flat extrapolation).
  *
@@ -36,11 +53,7 @@ export function interpolateAt(t: ArrayLike<number>, v: ArrayLike<number>, x: num
   const j = intervalIndex(t, x);
   const t0 = t[j]!;
   const t1 = t[j + 1]!;
-  const v0 = v[j]!;
-  const v1 = v[j + 1]!;
-  if (v0 === v1) return v0;
-  const u = (x - t0) / (t1 - t0);
-  return v0 + u * (v1 - v0);
+  return lerp(v[j]!, v[j + 1]!, (x - t0) / (t1 - t0));
 }
 
 /**

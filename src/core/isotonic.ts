@@ -7,6 +7,7 @@ import { poolTies } from './pool-ties.js';
 import { pavaSorted } from './pava.js';
 import { resolveDirection } from './direction.js';
 import { fail } from './errors.js';
+import { lerp } from './interpolate.js';
 
 /** Result of {@link isotonicRegression}. */
 export interface IsotonicFit {
@@ -119,7 +120,7 @@ export function isotonicChecked(
         const x0 = tx[k - 1]!;
         const x1 = tx[k]!;
         const u = (pooled.x[j]! - x0) / (x1 - x0);
-        value[j] = tv[k - 1] === tv[k] ? tv[k]! : tv[k - 1]! + u * (tv[k]! - tv[k - 1]!);
+        value[j] = lerp(tv[k - 1]!, tv[k]!, u);
       }
     }
   }
@@ -138,7 +139,11 @@ function minimalTable(tx: Float64Array, tv: Float64Array): [Float64Array, Float6
     const a = tv[j]! - tv[p]!;
     const b = tv[j + 1]! - tv[j]!;
     const flat = a === 0 && b === 0;
-    const collinear = a * (tx[j + 1]! - tx[j]!) === b * (tx[j]! - tx[p]!) && a !== 0;
+    // Cross-multiplied slopes; products too small to be exact (near underflow) never count as
+    // collinear — keeping a point is always safe, dropping one the line does not pass is not.
+    const left = a * (tx[j + 1]! - tx[j]!);
+    const right = b * (tx[j]! - tx[p]!);
+    const collinear = a !== 0 && left === right && Math.abs(left) > 1e-290;
     if (!flat && !collinear) keep.push(j);
   }
   if (m > 1) keep.push(m - 1);

@@ -7,7 +7,7 @@ import { checkKnotCount, checkKnotPositions, evenKnots } from './knots.js';
 import { resolveDirection } from './direction.js';
 import { solveMonotoneTridiagonal } from './monotone-qp.js';
 import { fail } from './errors.js';
-import { intervalIndex } from './interpolate.js';
+import { intervalIndex, lerp } from './interpolate.js';
 
 /** Options of {@link knotRegression}. */
 export interface KnotFitOptions extends CommonFitOptions {
@@ -58,8 +58,12 @@ export interface KnotFit {
  * unique, keeps the order, respects the bounds, and leaves the fitted values at the data — which
  * are always unique — unchanged. In the rarer case that the determined knots are still only
  * jointly determined (chains of intervals that each hold rows at a single interior x), a roughness
- * tie-break of relative size 1e-10, Σ (θⱼ₊₁ − θⱼ)² / (tⱼ₊₁ − tⱼ), selects the smoothest optimum;
- * fitted values then agree with the exact optimum to about 1e-10 relative.
+ * tie-break of relative size 1e-8, Σ (θⱼ₊₁ − θⱼ)² / (tⱼ₊₁ − tⱼ), picks a smooth optimum, and
+ * four proximal refinement passes (the same QP with the tie-break centred on the previous answer)
+ * remove its bias: the fitted values at rows with positive weight and the optimality conditions are
+ * then exact to rounding. The knot values the data leave free (and the fitted values of weight-0
+ * rows, which depend on them) come from a system of condition about 1e8, so they are reproducible
+ * to about 1e-8 relative when the same data arrive in another row order.
  *
  * Cost: O(n) for evenly spaced knots, O(n log K) for explicit ones, plus O(K) per active-set
  * iteration; extra memory O(n + K) (fitted values and the tridiagonal system).
@@ -75,7 +79,8 @@ export interface KnotFit {
  *   `'auto'`), lower, upper (bounds on the knot values).
  * @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_BOUNDS,
  *   BAD_OPTION (direction), BAD_KNOTS (count not a whole number ≥ 2, positions not strictly
- *   increasing), TOO_FEW_POINTS (fewer than 2 distinct x with positive weight).
+ *   increasing, or an x range too narrow — a few ulps — for K distinct even positions),
+ *   TOO_FEW_POINTS (fewer than 2 distinct x with positive weight).
  * @example knotRegression([0, 1, 2, 3], [0, 2, 1, 3], { knots: 2 }).knotY // → Float64Array [0.3, 2.7]
  */
 export function knotRegression(x: ArrayLike<number>, y: ArrayLike<number>, options: KnotFitOptions): KnotFit {
@@ -159,8 +164,24 @@ export function knotChecked(
     rc[a] = c[idx[a]!]!;
     if (a + 1 < m) re[a] = idx[a + 1] === idx[a]! + 1 ? e[idx[a]!]! : 0;
   }
-  if (!positiveDefinite(rd, re)) addRoughness(rd, re, idx, t);
-  const { theta } = solveMonotoneTridiagonal(rd, re, rc, lo, hi);
+  const rough = positiveDefinite(rd, re) ? null : addRoughness(rd, re, idx, t);
+  let { theta } = solveMonotoneTridiagonal(rd, re, rc, lo, hi);
+  if (rough !== null) {
+    // Proximal refinement: minimise SSE + ε·roughness(θ − θ_prev) from the tie-broken answer. Each
+    // pass shrinks the tie-break's bias on the data-determined directions by a factor of about
+    // ε/(curvature + ε) ≈ 1e-8, so after PROXIMAL_PASSES the fit is the exact optimum to rounding
+    // while the undetermined directions stay at the smooth choice (the matrix H + εR is unchanged).
+    const shifted = new Float64Array(m);
+    for (let pass = 0; pass < PROXIMAL_PASSES; pass++) {
+      shifted.set(rc);
+      for (let a = 0; a + 1 < m; a++) {
+        const f = rough.eps * rough.r[a]! * (theta[a]! - theta[a + 1]!);
+        shifted[a] = shifted[a]! + f;
+        shifted[a + 1] = shifted[a + 1]! - f;
+      }
+      theta = solveMonotoneTridiagonal(rd, re, shifted, lo, hi).theta;
+    }
+  }
 
   // Knot values: identified ones from the solve, the rest filled linearly (flat beyond the ends).
   const values = new Float64Array(K);
@@ -176,7 +197,7 @@ export function knotChecked(
       const jr = idx[a]!;
       const vl = theta[a - 1]!;
       const vr = theta[a]!;
-      values[j] = vl === vr ? vl : vl + ((t[j]! - t[jl]!) / (t[jr]! - t[jl]!)) * (vr - vl);
+      values[j] = lerp(vl, vr, (t[j]! - t[jl]!) / (t[jr]! - t[jl]!));
     }
   }
   // Guard the order against rounding in the fill, then map back to the user's direction.
@@ -193,8 +214,9 @@ export function knotChecked(
 /*
  * Locating a row: x lies in interval j (0 ≤ j ≤ K − 2, t_j ≤ x < t_{j+1}) with right-knot share
  * u = (x − t_j)/(t_{j+1} − t_j) ∈ [0, 1], after clamping x to [t₀, t_{K−1}]. For evenly spaced knots
- * the scaled position p = (x − t₀)(K − 1)/(t_{K−1} − t₀) gives j = ⌊p⌋ and u = p − j in O(1); for
- * explicit knots a binary search takes O(log K). The two hot loops below repeat this arithmetic
+ * the scaled position p = (x − t₀)(K − 1)/(t_{K−1} − t₀) gives j = ⌊p⌋ up to one interval, which
+ * one comparison with the knots settles, in O(1); for explicit knots a binary search takes O(log K).
+ * Either way u is computed from the knots, so a row exactly on a knot has u = 0 exactly. The two hot loops below repeat this arithmetic
  * inline (rather than storing j and u per row) because memory traffic, not arithmetic, bounds them.
  */
 
@@ -218,22 +240,25 @@ function assemble(
   const K = t.length;
   const t0 = t[0]!;
   const tK = t[K - 1]!;
-  const top = K - 1;
   const last = K - 2;
-  const scale = top / (tK - t0);
+  const scale = (K - 1) / (tK - t0);
   for (let i = 0; i < n; i++) {
     const x = xs[i]!;
     let j = 0;
     let u = 0;
     if (even) {
-      const p = (x - t0) * scale;
-      if (p >= top) {
+      if (x >= tK) {
         j = last;
         u = 1;
-      } else if (p > 0) {
-        j = p | 0;
+      } else if (x > t0) {
+        // The scaled position is a guess that rounding can put one interval off; settle j against
+        // the knots themselves so that a row exactly on a knot gets share exactly 0 of its
+        // neighbour (u = p − j would give 1e-16 and make an empty neighbour look identified).
+        j = ((x - t0) * scale) | 0;
         if (j > last) j = last;
-        u = p - j;
+        if (x < t[j]!) j--;
+        else if (x >= t[j + 1]!) j++;
+        u = (x - t[j]!) / (t[j + 1]! - t[j]!);
       }
     } else if (x >= tK) {
       j = last;
@@ -263,22 +288,25 @@ function evaluate(xs: Float64Array, t: Float64Array, even: boolean, values: Floa
   const K = t.length;
   const t0 = t[0]!;
   const tK = t[K - 1]!;
-  const top = K - 1;
   const last = K - 2;
-  const scale = top / (tK - t0);
+  const scale = (K - 1) / (tK - t0);
   for (let i = 0; i < n; i++) {
     const x = xs[i]!;
     let j = 0;
     let u = 0;
     if (even) {
-      const p = (x - t0) * scale;
-      if (p >= top) {
+      if (x >= tK) {
         j = last;
         u = 1;
-      } else if (p > 0) {
-        j = p | 0;
+      } else if (x > t0) {
+        // The scaled position is a guess that rounding can put one interval off; settle j against
+        // the knots themselves so that a row exactly on a knot gets share exactly 0 of its
+        // neighbour (u = p − j would give 1e-16 and make an empty neighbour look identified).
+        j = ((x - t0) * scale) | 0;
         if (j > last) j = last;
-        u = p - j;
+        if (x < t[j]!) j--;
+        else if (x >= t[j + 1]!) j++;
+        u = (x - t[j]!) / (t[j + 1]! - t[j]!);
       }
     } else if (x >= tK) {
       j = last;
@@ -289,7 +317,7 @@ function evaluate(xs: Float64Array, t: Float64Array, even: boolean, values: Floa
     }
     const v0 = values[j]!;
     const v1 = values[j + 1]!;
-    out[i] = v0 === v1 ? v0 : v0 + u * (v1 - v0);
+    out[i] = lerp(v0, v1, u);
   }
 }
 
@@ -304,8 +332,14 @@ function positiveDefinite(d: Float64Array, e: Float64Array): boolean {
   return true;
 }
 
-/** Adds the roughness tie-break ε Σ (θ_{a+1} − θ_a)² / (t_{a+1} − t_a), ε = 1e-10 · tr(H)/tr(R). */
-function addRoughness(d: Float64Array, e: Float64Array, idx: number[], t: Float64Array): void {
+/** Refinement passes after a roughness tie-break (see knotChecked). */
+const PROXIMAL_PASSES = 4;
+
+/**
+ * Adds the roughness tie-break ε Σ (θ_{a+1} − θ_a)² / (t_{a+1} − t_a), ε = 1e-8 · tr(H)/tr(R), to
+ * (d, e) in place; returns ε and the edge weights r_a = 1/(t_{a+1} − t_a) (null when m < 2).
+ */
+function addRoughness(d: Float64Array, e: Float64Array, idx: number[], t: Float64Array): { eps: number; r: Float64Array } | null {
   const m = d.length;
   const r = new Float64Array(Math.max(m - 1, 0));
   let trH = 0;
@@ -315,11 +349,12 @@ function addRoughness(d: Float64Array, e: Float64Array, idx: number[], t: Float6
     r[a] = 1 / (t[idx[a + 1]!]! - t[idx[a]!]!);
     trR += 2 * r[a]!;
   }
-  if (!(trR > 0)) return;
-  const eps = (1e-10 * trH) / trR;
+  if (!(trR > 0)) return null;
+  const eps = (1e-8 * trH) / trR;
   for (let a = 0; a + 1 < m; a++) {
     d[a] = d[a]! + eps * r[a]!;
     d[a + 1] = d[a + 1]! + eps * r[a]!;
     e[a] = e[a]! - eps * r[a]!;
   }
+  return { eps, r };
 }

@@ -17,7 +17,8 @@ export function checkKnotCount(count: number, name = 'knots', max = 100000): num
  * `count` evenly spaced knots from `min` to `max` inclusive: t_j = min + j·(max − min)/(count − 1),
  * with the last set to `max` exactly. Cost O(count).
  *
- * @throws RatchetError BAD_KNOTS (count not a whole number ≥ 2, or min ≥ max).
+ * @throws RatchetError BAD_KNOTS (count not a whole number ≥ 2, min ≥ max, or a range so narrow
+ *   — a few ulps — that `count` distinct doubles do not fit in it).
  * @example evenKnots(0, 3, 4) // → Float64Array [0, 1, 2, 3]
  */
 export function evenKnots(min: number, max: number, count: number): Float64Array {
@@ -27,6 +28,13 @@ export function evenKnots(min: number, max: number, count: number): Float64Array
   const step = (max - min) / (count - 1);
   for (let j = 0; j < count; j++) t[j] = min + j * step;
   t[count - 1] = max;
+  // A range only a few ulps wide cannot hold `count` distinct doubles: refuse rather than return
+  // repeated positions (which would make the hat functions divide by zero).
+  for (let j = 1; j < count; j++) {
+    if (!(t[j]! > t[j - 1]!)) {
+      fail('BAD_KNOTS', 'knots', `needs an x range wide enough for ${count} distinct knot positions; [${min}, ${max}] is too narrow`);
+    }
+  }
   return t;
 }
 

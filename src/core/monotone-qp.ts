@@ -73,9 +73,6 @@ export function solveMonotoneTridiagonal(
     theta.fill(v);
     join.fill(1);
   }
-  let scale = 0;
-  for (let i = 0; i < m; i++) scale = Math.max(scale, Math.abs(c[i]!), Math.abs(d[i]!));
-  const tol = 1e-13 * scale * m;
 
   const starts = new Int32Array(m);
   const ends = new Int32Array(m);
@@ -140,31 +137,34 @@ export function solveMonotoneTridiagonal(
     }
     for (let k = 0; k < G; k++) candidate.fill(value[k]!, starts[k]!, ends[k]! + 1);
 
-    // Largest step α ∈ [0, 1] toward the candidate that keeps the inactive constraints.
+    // Largest step α ∈ [0, 1] toward the candidate that keeps the inactive constraints. Only a
+    // constraint that the candidate itself breaks can block, and it blocks even when its ratio
+    // rounds to 1 (otherwise the candidate would be taken with a violation of an ulp or so).
     let alpha = 1;
     let block = -3; // −1 lower bound, −2 upper bound, k ≥ 0 chain constraint k
-    if (!loActive && lower > -Infinity) {
+    if (!loActive && candidate[0]! < lower) {
       const slack = theta[0]! - lower;
-      const rate = candidate[0]! - theta[0]!;
-      if (rate < 0 && -slack / rate < alpha) {
-        alpha = Math.max(0, -slack / rate);
+      const ratio = Math.min(1, Math.max(0, slack / (theta[0]! - candidate[0]!)));
+      if (block === -3 || ratio < alpha) {
+        alpha = ratio;
         block = -1;
       }
     }
-    if (!hiActive && upper < Infinity) {
+    if (!hiActive && candidate[m - 1]! > upper) {
       const slack = upper - theta[m - 1]!;
-      const rate = theta[m - 1]! - candidate[m - 1]!;
-      if (rate < 0 && -slack / rate < alpha) {
-        alpha = Math.max(0, -slack / rate);
+      const ratio = Math.min(1, Math.max(0, slack / (candidate[m - 1]! - theta[m - 1]!)));
+      if (block === -3 || ratio < alpha) {
+        alpha = ratio;
         block = -2;
       }
     }
     for (let k = 0; k + 1 < G; k++) {
       const i = ends[k]!;
+      if (!(candidate[i + 1]! < candidate[i]!)) continue;
       const slack = theta[i + 1]! - theta[i]!;
-      const rate = candidate[i + 1]! - candidate[i]! - slack;
-      if (rate < 0 && -slack / rate < alpha) {
-        alpha = Math.max(0, -slack / rate);
+      const ratio = Math.min(1, Math.max(0, slack / (slack - (candidate[i + 1]! - candidate[i]!))));
+      if (block === -3 || ratio < alpha) {
+        alpha = ratio;
         block = i;
       }
     }
@@ -186,14 +186,18 @@ export function solveMonotoneTridiagonal(
     }
     theta.set(candidate);
 
-    // Subproblem solved: multipliers of the working set from g = c − Hθ.
+    // Subproblem solved: multipliers of the working set from g = c − Hθ. The tolerance is in the
+    // units of the multipliers (those of c and Hθ, i.e. weight × y), so the decisions do not depend
+    // on the scale of y: a multiplier counts as negative only beyond the rounding of the sums.
+    let gScale = 0;
     for (let i = 0; i < m; i++) {
       let h = d[i]! * theta[i]!;
       if (i > 0) h += e[i - 1]! * theta[i - 1]!;
       if (i + 1 < m) h += e[i]! * theta[i + 1]!;
       g[i] = c[i]! - h;
+      gScale = Math.max(gScale, Math.abs(c[i]!), Math.abs(h));
     }
-    let worst = -tol;
+    let worst = -1e-13 * m * gScale;
     let drop = -3;
     for (let k = 0; k < G; k++) {
       const s = starts[k]!;
