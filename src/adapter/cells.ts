@@ -13,9 +13,9 @@
  * - scalar options (knots count, direction, folds, …) accept a number, a number written as text
  *   (" 3 "), a one-cell range, and blank/omitted for the default; logicals are `#VALUE!`.
  *
- * Data vectors are parsed once per argument object: the result is memoised by identity in a
- * WeakMap, so a host that passes the same (never mutated) array to many calls pays the O(n) parse
- * and hash once. Cost of a first parse: O(cells).
+ * Data vectors of 64 cells or more are parsed once per argument object: the result is memoised by
+ * identity in a WeakMap, so a host that passes the same (never mutated) array to many calls pays
+ * the O(n) parse and hash once. Cost of a first parse: O(cells); the hash is computed on first use.
  */
 import { fail } from '../core/index.js';
 import type { CellArg, CellValueIn } from '../functions/types.js';
@@ -35,21 +35,31 @@ export const MIN_MAGNITUDE = 1e-300;
 export type Grid = readonly (readonly CellValueIn[])[];
 
 /** A data argument read as numbers: `values[i]` is NaN where the cell is blank. */
-export interface Vector {
-  /** Numbers in reading order (row by row), NaN for blanks. Never mutated. */
-  readonly values: Float64Array;
-  readonly rows: number;
-  readonly cols: number;
-  /** Number of blank cells. */
-  readonly blanks: number;
-  /** Content hash of `values` (bit pattern) and shape; see {@link hashFloat64}. */
-  readonly hash: string;
+export class Vector {
+  private hashCache: string | undefined;
+  constructor(
+    /** Numbers in reading order (row by row), NaN for blanks. Never mutated. */
+    readonly values: Float64Array,
+    readonly rows: number,
+    readonly cols: number,
+    /** Number of blank cells. */
+    readonly blanks: number,
+  ) {}
+  /** Content hash of `values` (bit pattern) and shape, computed on first use; see {@link hashFloat64}. */
+  get hash(): string {
+    this.hashCache ??= `${this.rows}x${this.cols}:${hashFloat64(this.values)}`;
+    return this.hashCache;
+  }
 }
+
+/** Arguments with fewer cells are parsed on every call (cheaper than memoising them). */
+const MEMO_MIN_CELLS = 64;
 
 /** The canonical NaN used for blanks (one bit pattern, so bitwise comparison works). */
 const BLANK = NaN;
 
-const memo = new WeakMap<object, Map<string, Vector>>();
+const memoLine = new WeakMap<object, Vector>();
+const memoAny = new WeakMap<object, Vector>();
 
 /** True for a blank cell value: null, undefined or the empty string. */
 export function isBlank(v: unknown): boolean {
@@ -122,9 +132,9 @@ function dataCell(name: string, v: CellValueIn, pos: () => string): number {
  * @example readVector('known_ys', [[1], [null], [3]]).values // → Float64Array [1, NaN, 3]
  */
 export function readVector(name: string, arg: CellArg, shape: 'line' | 'any' = 'line'): Vector {
-  const memoKey = `${name}|${shape}`;
-  if (typeof arg === 'object' && arg !== null && Array.isArray(arg)) {
-    const hit = memo.get(arg)?.get(memoKey);
+  const memo = shape === 'line' ? memoLine : memoAny;
+  if (Array.isArray(arg)) {
+    const hit = memo.get(arg);
     if (hit) return hit;
   }
   const grid = toGrid(arg);
@@ -146,12 +156,8 @@ export function readVector(name: string, arg: CellArg, shape: 'line' | 'any' = '
       values[k++] = v;
     }
   }
-  const vec: Vector = { values, rows, cols, blanks, hash: `${rows}x${cols}:${hashFloat64(values)}` };
-  if (Array.isArray(arg)) {
-    let m = memo.get(arg);
-    if (!m) memo.set(arg, (m = new Map()));
-    m.set(memoKey, vec);
-  }
+  const vec = new Vector(values, rows, cols, blanks);
+  if (Array.isArray(arg) && rows * cols >= MEMO_MIN_CELLS) memo.set(arg, vec);
   return vec;
 }
 

@@ -4,7 +4,7 @@
 
 /**
  * A 64-bit content hash of the bit patterns of `a` (two independent 32-bit lanes: FNV-1a style
- * multiply-xor and a Murmur3-style mix), returned as 16 hex digits. Equal arrays (bit for bit,
+ * multiply-xor and a Murmur3-style mix), returned as two unsigned decimals "h1.h2". Equal arrays (bit for bit,
  * so NaN blanks and +0 compare equal) give equal hashes; the cache still verifies equality on a
  * hit, so a collision can never return a wrong result. Cost O(n).
  * @example hashFloat64(new Float64Array([1, 2])) === hashFloat64(Float64Array.of(1, 2)) // → true
@@ -28,7 +28,7 @@ export function hashFloat64(a: Float64Array): string {
   h2 ^= h2 >>> 16;
   h2 = Math.imul(h2, 0xc2b2ae35);
   h2 ^= h2 >>> 16;
-  return (h1 >>> 0).toString(16).padStart(8, '0') + (h2 >>> 0).toString(16).padStart(8, '0');
+  return `${h1 >>> 0}.${h2 >>> 0}`;
 }
 
 /** True when two Float64Arrays hold the same bit patterns. O(n). */

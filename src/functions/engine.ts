@@ -60,14 +60,23 @@ export function cacheStats(): Readonly<typeof cache.stats> {
   return cache.stats;
 }
 
+/** The previous fit request and its entry (the fast path of {@link cachedFit}). */
+let lastFit: (FitEntry & { generation: number }) | undefined;
+/** Bumped whenever the cache is cleared or resized, which invalidates {@link lastFit}. */
+let generation = 0;
+
 /** Empties the result cache. */
 export function clearCaches(): void {
   cache.clear();
+  lastFit = undefined;
+  generation++;
 }
 
 /** Changes the cache bounds. */
 export function configureCache(entries: number, bytes: number): void {
   cache.resize(entries, bytes);
+  lastFit = undefined;
+  generation++;
 }
 
 /** Paired data rows: the rows where y, x and (when given) the weight are all present. */
@@ -197,9 +206,24 @@ export const FIT_NAMES: Readonly<Record<string, string>> = { x: 'known_xs', y: '
  * passed the same argument objects), O(n) pairing plus the fit on a miss.
  */
 export function cachedFit(data: DataArgs, knots: number | Float64Array, direction: DirectionOption): FitEntry {
+  // Fast path: the same argument objects as the previous call (no key to build or hash).
+  const last = lastFit;
+  if (
+    last !== undefined &&
+    last.data.y === data.y &&
+    last.data.x === data.x &&
+    last.data.w === data.w &&
+    last.direction === direction &&
+    sameKnots(last.knots, knots) &&
+    last.generation === generation
+  ) {
+    cache.stats.hits++;
+    return last;
+  }
   const key = `fit|${dataKey(data)}|${knotsKey(knots)}|${direction}`;
   const hit = cache.get(key);
   if (hit !== undefined && hit.kind === 'fit' && sameData(hit.data, data) && sameKnots(hit.knots, knots) && hit.direction === direction) {
+    lastFit = { ...hit, data, generation };
     return hit;
   }
   const p = pairRows(data);
@@ -212,6 +236,7 @@ export function cachedFit(data: DataArgs, knots: number | Float64Array, directio
   const entry: FitEntry = { kind: 'fit', data, knots, direction, model, used: p.used, rows: p.rows };
   const bytes = vectorBytes(data) + model.fitted.byteLength + model.knotX.byteLength * 2 + p.used.byteLength;
   cache.set(key, entry, bytes);
+  lastFit = { ...entry, generation };
   return entry;
 }
 

@@ -233,3 +233,69 @@ export async function bestKnotCount(known_ys: any[][], known_xs: any[][], candid
 export async function statistics(known_ys: any[][], known_xs: any[][], knots?: any[][], direction?: any, weights?: any[][], invocation?: CustomFunctions.Invocation): Promise<any[][]> {
   return call('STATS', [known_ys, known_xs, knots, direction, weights], invocation) as Promise<any[][]>;
 }
+
+/**
+ * Value of the monotone surface fitted to known_ys over two inputs at each new (x1, x2) pair (flat beyond the knots).
+ * @customfunction SURFACE SURFACE
+ * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetsurface
+ * @requiresParameterAddresses
+ * @param new_x1s First inputs at which to read the surface: a cell or a range of any shape; blanks stay blank.
+ * @param new_x2s Second inputs, one per new_x1s cell (same number of cells).
+ * @param known_ys Observed values: one column or one row. Rows with a blank here, in an input or in weights are left out.
+ * @param known_x1s First input, one per known_ys cell (a column or a row). Blank cells leave their row out.
+ * @param known_x2s Second input, one per known_ys cell (a column or a row). Blank cells leave their row out.
+ * @param [knots1] Knots along the first input. Omitted or 0: every distinct value. A whole number K from 2 to 200: K evenly spaced knots. A range: knot positions.
+ * @param [knots2] Knots along the second input, as knots1. The surface has knots1 × knots2 values: keep it small.
+ * @param [direction1] Along the first input: 1 rising (default), -1 falling, 0 no constraint.
+ * @param [direction2] Along the second input: 1 rising (default), -1 falling, 0 no constraint.
+ * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
+ * @param invocation Supplied by Excel: parameter addresses.
+ * @returns The spilled result.
+ */
+export async function surface(new_x1s: any[][], new_x2s: any[][], known_ys: any[][], known_x1s: any[][], known_x2s: any[][], knots1?: any[][], knots2?: any[][], direction1?: any, direction2?: any, weights?: any[][], invocation?: CustomFunctions.Invocation): Promise<any[][]> {
+  return call('SURFACE', [new_x1s, new_x2s, known_ys, known_x1s, known_x2s, knots1, knots2, direction1, direction2, weights], invocation) as Promise<any[][]>;
+}
+
+/**
+ * The fitted surface as a table: x1 knots across the first row, x2 knots down the first column, fitted values inside.
+ * @customfunction GRID GRID
+ * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetgrid
+ * @requiresParameterAddresses
+ * @param known_ys Observed values: one column or one row. Rows with a blank here, in an input or in weights are left out.
+ * @param known_x1s First input, one per known_ys cell (a column or a row). Blank cells leave their row out.
+ * @param known_x2s Second input, one per known_ys cell (a column or a row). Blank cells leave their row out.
+ * @param [knots1] Knots along the first input. Omitted or 0: every distinct value. A whole number K from 2 to 200: K evenly spaced knots. A range: knot positions.
+ * @param [knots2] Knots along the second input, as knots1. The surface has knots1 × knots2 values: keep it small.
+ * @param [direction1] Along the first input: 1 rising (default), -1 falling, 0 no constraint.
+ * @param [direction2] Along the second input: 1 rising (default), -1 falling, 0 no constraint.
+ * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
+ * @param invocation Supplied by Excel: parameter addresses.
+ * @returns The spilled result.
+ */
+export async function surfaceGrid(known_ys: any[][], known_x1s: any[][], known_x2s: any[][], knots1?: any[][], knots2?: any[][], direction1?: any, direction2?: any, weights?: any[][], invocation?: CustomFunctions.Invocation): Promise<any[][]> {
+  return call('GRID', [known_ys, known_x1s, known_x2s, knots1, knots2, direction1, direction2, weights], invocation) as Promise<any[][]>;
+}
+
+/**
+ * Cross-validation of knot pairs for the surface: a header row, then knots1, knots2, cv_rmse, cv_se and cv_r2 per pair.
+ * @customfunction CVGRID CVGRID
+ * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetcvgrid
+ * @requiresParameterAddresses
+ * @cancelable
+ * @param known_ys Observed values: one column or one row. Rows with a blank here, in an input or in weights are left out.
+ * @param known_x1s First input, one per known_ys cell (a column or a row). Blank cells leave their row out.
+ * @param known_x2s Second input, one per known_ys cell (a column or a row). Blank cells leave their row out.
+ * @param [candidates1] Knot counts to compare along the first input (0 = every level): a number or a range. Default 2 to 6.
+ * @param [candidates2] Knot counts to compare along the second input, as candidates1. Every pair is scored.
+ * @param [folds] Number of folds, 2 to the number of rows. Default 5.
+ * @param [repeats] Number of repeats with fresh shuffles, ≥ 1. Default 1.
+ * @param [seed] Whole number for the shuffle; 0 means no shuffle (blocks in row order). Default 1.
+ * @param [direction1] Along the first input: 1 rising (default), -1 falling, 0 no constraint.
+ * @param [direction2] Along the second input: 1 rising (default), -1 falling, 0 no constraint.
+ * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
+ * @param invocation Supplied by Excel: parameter addresses and cancellation.
+ * @returns The spilled result.
+ */
+export async function surfaceCrossValidation(known_ys: any[][], known_x1s: any[][], known_x2s: any[][], candidates1?: any[][], candidates2?: any[][], folds?: any, repeats?: any, seed?: any, direction1?: any, direction2?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return call('CVGRID', [known_ys, known_x1s, known_x2s, candidates1, candidates2, folds, repeats, seed, direction1, direction2, weights], invocation) as Promise<any[][]>;
+}

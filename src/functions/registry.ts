@@ -6,6 +6,7 @@
  */
 import type { CellArg, CellResult, InvokeContext, ParamSpec, SheetFunction } from './types.js';
 import * as impl from './implementations.js';
+import { SURFACE_FUNCTIONS } from './surface-functions.js';
 
 /** Namespace users type before each function name. */
 export const NAMESPACE = 'RATCHET';
@@ -100,6 +101,7 @@ export const SHEET_FUNCTIONS: readonly SheetFunction[] = Object.freeze([
     true,
     impl.STATS,
   ),
+  ...SURFACE_FUNCTIONS.map((s) => fn(s.name, s.description, s.params, s.returnsArray, s.invoke, s.longWork)),
 ]);
 
 const byName = new Map(SHEET_FUNCTIONS.map((f) => [f.name, f]));

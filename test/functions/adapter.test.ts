@@ -343,12 +343,17 @@ describe('Excel value conversion', () => {
 });
 
 describe('readers', () => {
-  it('parse once per argument object (identity memo)', () => {
-    const arg = col(1, 2, null);
-    const a = readVector('known_ys', arg);
-    expect(readVector('known_ys', arg)).toBe(a);
-    expect(Array.from(a.values)).toEqual([1, 2, NaN]);
+  it('parse ranges of 64+ cells once per argument object (identity memo); small ones every time', () => {
+    const big = col(...Array.from({ length: 64 }, (_, i) => (i === 5 ? null : i)));
+    const a = readVector('known_ys', big);
+    expect(readVector('known_xs', big)).toBe(a);
     expect(a.blanks).toBe(1);
+    expect(a.values[5]).toBeNaN();
+    const small = col(1, 2, null);
+    const b = readVector('known_ys', small);
+    expect(readVector('known_ys', small)).not.toBe(b);
+    expect(Array.from(b.values)).toEqual([1, 2, NaN]);
+    expect(b.blanks).toBe(1);
   });
   it('equal content in different objects hashes equally; -0 and 0 are the same number', () => {
     expect(readVector('known_ys', col(0, 1)).hash).toBe(readVector('known_ys', col(-0, 1)).hash);

@@ -1,0 +1,94 @@
+/**
+ * functions.json is generated from the JSDoc of src/functions/functions.ts by the Office toolchain's
+ * own generator (custom-functions-metadata, the library inside custom-functions-metadata-plugin
+ * that the webpack build runs). This test runs that generator directly — no webpack — and checks
+ * a snapshot of what users and Excel see (ids, names, parameter counts, dimensionality, optional
+ * flags, options) against the argument lists of the issue, plus agreement with the registry
+ * (descriptions, help URLs), which is the one source of truth.
+ */
+import { beforeAll, describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
+import { SHEET_FUNCTIONS, helpUrlOf } from '../../src/functions/registry.js';
+
+interface ParamMeta {
+  name: string;
+  description?: string;
+  dimensionality?: string;
+  optional?: boolean;
+  type?: string;
+}
+interface FunctionMeta {
+  id: string;
+  name: string;
+  description: string;
+  helpUrl: string;
+  parameters: ParamMeta[];
+  result: { dimensionality?: string; type?: string };
+  options?: Record<string, boolean>;
+}
+
+const source = fileURLToPath(new URL('../../src/functions/functions.ts', import.meta.url));
+let functions: FunctionMeta[] = [];
+let errors: string[] = [];
+
+beforeAll(async () => {
+  const result = await generateCustomFunctionsMetadata(source, false);
+  errors = result.errors;
+  functions = errors.length === 0 ? (JSON.parse(result.metadataJson) as { functions: FunctionMeta[] }).functions : [];
+});
+
+/** Compact form: "name" (scalar) / "name[]" (matrix), "?" when optional. */
+function signature(f: FunctionMeta): string {
+  const ps = f.parameters.map((p) => `${p.name}${p.dimensionality === 'matrix' ? '[]' : ''}${p.optional ? '?' : ''}`);
+  return `${f.id}/${f.name}(${ps.join(', ')}) → ${f.result.dimensionality === 'matrix' ? 'matrix' : (f.result.type ?? 'any')} ${JSON.stringify(f.options ?? {})}`;
+}
+
+describe('generated functions.json', () => {
+  it('generates without errors', () => {
+    expect(errors).toEqual([]);
+  });
+
+  it('snapshot: ids, names, parameters (count, dimensionality, optional) and options', () => {
+    const addr = '{"requiresParameterAddresses":true}';
+    const cancel = '{"cancelable":true,"requiresParameterAddresses":true}';
+    expect(functions.map(signature)).toEqual([
+      `FIT/FIT(known_ys[], known_xs[], knots[]?, direction?, weights[]?) → matrix ${addr}`,
+      `PREDICT/PREDICT(new_xs[], known_ys[], known_xs[], knots[]?, direction?, weights[]?) → matrix ${addr}`,
+      `KNOTS/KNOTS(known_ys[], known_xs[], knots[]?, direction?, weights[]?) → matrix ${addr}`,
+      `EVAL/EVAL(new_xs[], knot_table[]) → matrix ${addr}`,
+      `INVERT/INVERT(target_ys[], knot_table[], tie?) → matrix ${addr}`,
+      `QKNOTS/QKNOTS(known_xs[], count) → matrix ${addr}`,
+      `CV/CV(known_ys[], known_xs[], candidates[]?, folds?, repeats?, seed?, direction?, weights[]?) → matrix ${cancel}`,
+      `BESTK/BESTK(known_ys[], known_xs[], candidates[]?, folds?, repeats?, seed?, direction?, weights[]?, rule?) → number ${cancel}`,
+      `STATS/STATS(known_ys[], known_xs[], knots[]?, direction?, weights[]?) → matrix ${addr}`,
+    ]);
+    expect(functions.map((f) => f.parameters.length)).toEqual([5, 6, 5, 2, 3, 2, 8, 9, 5]);
+  });
+
+  it('agrees with the registry: names, order, descriptions, optional flags, result kind, cancelable', () => {
+    expect(functions.map((f) => f.id)).toEqual(SHEET_FUNCTIONS.map((f) => f.name));
+    for (const [i, meta] of functions.entries()) {
+      const reg = SHEET_FUNCTIONS[i]!;
+      expect(meta.description).toBe(reg.description);
+      expect(meta.parameters.map((p) => p.name)).toEqual(reg.params.map((p) => p.name));
+      expect(meta.parameters.map((p) => p.description)).toEqual(reg.params.map((p) => p.description));
+      expect(meta.parameters.map((p) => p.optional === true)).toEqual(reg.params.map((p) => p.optional));
+      expect(meta.result.dimensionality === 'matrix').toBe(reg.returnsArray);
+      expect(meta.options?.cancelable === true).toBe(reg.longWork === true);
+    }
+  });
+
+  it('every function has a description, per-argument descriptions and a help URL on its README section', () => {
+    const reference = readFileSync(fileURLToPath(new URL('../../docs/functions.md', import.meta.url)), 'utf8');
+    for (const f of functions) {
+      expect(f.description.length).toBeGreaterThan(20);
+      for (const p of f.parameters) expect(p.description?.length ?? 0).toBeGreaterThan(10);
+      expect(f.helpUrl).toBe(helpUrlOf(f.id));
+      expect(f.helpUrl).toMatch(/^https:\/\/.+README\.md#ratchet[a-z]+$/);
+      // GitHub's anchor of the heading "### RATCHET.FIT" is "ratchetfit".
+      expect(reference).toContain(`\n### RATCHET.${f.id}\n`);
+    }
+  });
+});
