@@ -31,6 +31,8 @@ export default async (env, options) => {
     entry: {
       functions: './src/functions/functions.ts',
       taskpane: './taskpane/taskpane.ts',
+      // Browser preview (npm run preview): the same pane without Office; never loads office.js.
+      preview: './taskpane/preview.ts',
     },
     output: {
       path: path.resolve(here, 'dist'),
@@ -54,17 +56,21 @@ export default async (env, options) => {
     },
     plugins: [
       new CustomFunctionsMetadataPlugin({ output: 'functions.json', input: './src/functions/functions.ts' }),
-      new HtmlWebpackPlugin({ filename: 'taskpane.html', template: './taskpane/taskpane.html', chunks: ['functions', 'taskpane'], scriptLoading: 'defer', inject: 'body' }),
+      // The pane loads office.js only when hosted in Office, then imports the functions module itself
+      // (CustomFunctions.associate needs office.js first), so the page carries the taskpane chunk only.
+      new HtmlWebpackPlugin({ filename: 'taskpane.html', template: './taskpane/taskpane.html', chunks: ['taskpane'], scriptLoading: 'defer', inject: 'body' }),
+      new HtmlWebpackPlugin({ filename: 'preview.html', template: './taskpane/taskpane.html', chunks: ['preview'], scriptLoading: 'defer', inject: 'body', ratchetMode: 'preview' }),
       new CopyWebpackPlugin({
         patterns: [
           { from: 'assets/*.png', to: 'assets/[name][ext]' },
           { from: 'manifest.xml', to: 'manifest.xml' },
+          { from: 'taskpane/taskpane.css', to: 'taskpane.css' },
         ],
       }),
     ],
     // One webpack runtime for both entries: the functions and the pane run in one page (the shared
     // runtime), so they must share module instances — one registry, one result cache.
-    optimization: { runtimeChunk: 'single', splitChunks: { chunks: 'all', name: 'shared', minSize: 0 } },
+    optimization: { runtimeChunk: 'single', splitChunks: { chunks: 'initial', name: 'shared', minSize: 0 } },
     performance: { hints: false },
     devServer: serve
       ? {

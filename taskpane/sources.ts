@@ -160,7 +160,7 @@ export async function sourceFromXlsx(fileName: string, data: ArrayBuffer): Promi
   try {
     await wb.xlsx.load(data);
   } catch (e) {
-    throw new Error(`${fileName}: not a readable .xlsx workbook (${e instanceof Error ? e.message : String(e)}).`);
+    throw new Error(`${fileName}: not a readable .xlsx workbook (${e instanceof Error ? e.message : String(e)}).`, { cause: e });
   }
   return sourceFromWorksheets(fileName, wb.worksheets);
 }

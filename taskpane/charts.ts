@@ -1,0 +1,219 @@
+/**
+ * The pane's two Chart.js charts: (1) data points, fitted curve and knots; (2) cv_rmse ± cv_se
+ * against the knot count with the suggestion and the rule's threshold. Colours come from CSS
+ * custom properties so both follow the light/dark theme.
+ */
+import {
+  Chart,
+  Filler,
+  Legend,
+  LinearScale,
+  LineController,
+  LineElement,
+  PointElement,
+  ScatterController,
+  Title,
+  Tooltip,
+  type ChartConfiguration,
+  type ChartDataset,
+} from 'chart.js';
+import type { CvRow, FitView } from './analysis.js';
+
+Chart.register(ScatterController, LineController, LinearScale, PointElement, LineElement, Filler, Legend, Tooltip, Title);
+
+type XY = { x: number; y: number };
+
+function cssVar(name: string, fallback: string): string {
+  const v = getComputedStyle(document.documentElement).getPropertyValue(name).trim();
+  return v === '' ? fallback : v;
+}
+
+interface Palette {
+  points: string;
+  curve: string;
+  knots: string;
+  band: string;
+  grid: string;
+  text: string;
+  mark: string;
+}
+
+function palette(): Palette {
+  return {
+    points: cssVar('--chart-points', '#4a6fa5'),
+    curve: cssVar('--chart-curve', '#c2410c'),
+    knots: cssVar('--chart-knots', '#15803d'),
+    band: cssVar('--chart-band', 'rgba(74,111,165,0.22)'),
+    grid: cssVar('--chart-grid', 'rgba(0,0,0,0.1)'),
+    text: cssVar('--chart-text', '#1b1b1f'),
+    mark: cssVar('--chart-mark', '#b91c1c'),
+  };
+}
+
+const numberFormat = new Intl.NumberFormat('en', { maximumSignificantDigits: 6 });
+
+/** The fit chart. */
+export class FitChart {
+  readonly chart: Chart<'scatter', XY[]>;
+  constructor(canvas: HTMLCanvasElement) {
+    const p = palette();
+    const config: ChartConfiguration<'scatter', XY[]> = {
+      type: 'scatter',
+      data: {
+        datasets: [
+          { label: 'Data', data: [], pointRadius: 3, pointHoverRadius: 5, backgroundColor: p.points, borderColor: p.points, order: 3 },
+          { label: 'Fitted curve', data: [], showLine: true, pointRadius: 0, pointHitRadius: 4, borderWidth: 2.5, borderColor: p.curve, backgroundColor: p.curve, order: 1 },
+          { label: 'Knots', data: [], pointStyle: 'rectRot', pointRadius: 5, pointHoverRadius: 7, backgroundColor: p.knots, borderColor: p.knots, order: 0 },
+        ],
+      },
+      options: {
+        animation: false,
+        maintainAspectRatio: false,
+        responsive: true,
+        parsing: false,
+        normalized: true,
+        scales: {
+          x: { type: 'linear', title: { display: true, text: 'x' }, grid: {}, ticks: {} },
+          y: { type: 'linear', title: { display: true, text: 'y' }, grid: {}, ticks: {} },
+        },
+        plugins: {
+          legend: { position: 'bottom', labels: { sort: (a, b) => (a.datasetIndex ?? 0) - (b.datasetIndex ?? 0) } },
+          title: { display: false },
+          tooltip: { callbacks: { label: (c) => `${c.dataset.label}: (${numberFormat.format(c.parsed.x ?? NaN)}, ${numberFormat.format(c.parsed.y ?? NaN)})` } },
+        },
+      },
+    };
+    this.chart = new Chart(canvas, config);
+    this.theme();
+  }
+
+  /** Shows a fit; `labels` name the axes. */
+  show(view: FitView | undefined, labels: { x: string; y: string }): void {
+    const d = this.chart.data.datasets;
+    d[0]!.data = view ? view.points.map((q) => ({ x: q.x, y: q.y })) : [];
+    const vertices = view ? view.knots.map(([x, y]) => ({ x, y })) : [];
+    d[1]!.data = vertices;
+    d[2]!.data = vertices.map((v) => ({ ...v }));
+    // Many knots (classic fit at every distinct x): smaller markers so the data stay visible.
+    (d[2] as ChartDataset<'scatter', XY[]>).pointRadius = vertices.length > 40 ? 2.5 : 5;
+    const sc = this.chart.options.scales!;
+    (sc.x as { title: { text: string } }).title.text = labels.x;
+    (sc.y as { title: { text: string } }).title.text = labels.y;
+    this.chart.update();
+  }
+
+  /** Re-reads the theme colours. */
+  theme(): void {
+    const p = palette();
+    const d = this.chart.data.datasets;
+    Object.assign(d[0]!, { backgroundColor: p.points, borderColor: p.points });
+    Object.assign(d[1]!, { backgroundColor: p.curve, borderColor: p.curve });
+    Object.assign(d[2]!, { backgroundColor: p.knots, borderColor: p.knots });
+    applyAxisTheme(this.chart, p);
+    this.chart.update();
+  }
+}
+
+function applyAxisTheme(chart: Chart, p: Palette): void {
+  // Assign single properties: Chart.js options are proxies, and copying them (spread) is not supported.
+  for (const s of Object.values(chart.options.scales ?? {})) {
+    const scale = s as { grid: { color?: unknown }; ticks: { color?: unknown }; title: { color?: unknown } };
+    scale.grid.color = p.grid;
+    scale.ticks.color = p.text;
+    scale.title.color = p.text;
+  }
+  const pl = chart.options.plugins as { legend: { labels: { color?: unknown } }; title: { color?: unknown } };
+  pl.legend.labels.color = p.text;
+  pl.title.color = p.text;
+}
+
+/** What the CV chart shows. */
+export interface CvView {
+  readonly rows: readonly CvRow[];
+  readonly best: number;
+  readonly rule: 1 | 0;
+  /** The rule's cut-off (min cv_rmse + its SE for one-SE, min cv_rmse for minimum). */
+  readonly threshold: number;
+}
+
+/** x position of a candidate on the CV chart (the classic fit, 0, sits left of the smallest count). */
+function knotTick(k: number): string {
+  return k === 0 ? 'classic' : String(k);
+}
+
+/** The cross-validation chart. */
+export class CvChart {
+  readonly chart: Chart<'line', XY[]>;
+  constructor(canvas: HTMLCanvasElement) {
+    const p = palette();
+    const config: ChartConfiguration<'line', XY[]> = {
+      type: 'line',
+      data: {
+        datasets: [
+          { label: 'cv_rmse ± cv_se', data: [], pointRadius: 0, borderWidth: 1, borderColor: p.band, backgroundColor: p.band, fill: '+1', order: 4 },
+          { label: 'cv_rmse − cv_se', data: [], pointRadius: 0, borderWidth: 1, borderColor: p.band, backgroundColor: p.band, fill: false, order: 4 },
+          { label: 'cv_rmse', data: [], pointRadius: 3, borderWidth: 2, borderColor: p.points, backgroundColor: p.points, fill: false, order: 2 },
+          { label: 'Rule threshold', data: [], pointRadius: 0, borderWidth: 1.5, borderDash: [6, 4], borderColor: p.mark, backgroundColor: p.mark, fill: false, order: 3 },
+          { label: 'Suggested', data: [], showLine: false, pointStyle: 'star', pointRadius: 11, pointBorderWidth: 2.5, borderColor: p.mark, backgroundColor: p.mark, order: 0 },
+        ],
+      },
+      options: {
+        animation: false,
+        maintainAspectRatio: false,
+        responsive: true,
+        parsing: false,
+        scales: {
+          x: { type: 'linear', title: { display: true, text: 'knot count' }, grid: {}, ticks: { precision: 0, callback: (v) => knotTick(Number(v)) } },
+          y: { type: 'linear', title: { display: true, text: 'cv_rmse' }, grid: {}, ticks: {} },
+        },
+        plugins: {
+          title: { display: true, text: 'No cross-validation yet' },
+          legend: { position: 'bottom', labels: { filter: (item) => item.text !== 'cv_rmse − cv_se', sort: (a, b) => (a.datasetIndex ?? 0) - (b.datasetIndex ?? 0) } },
+          tooltip: { callbacks: { label: (c) => `${c.dataset.label}: ${numberFormat.format(c.parsed.y ?? NaN)} at ${knotTick(c.parsed.x ?? NaN)}` } },
+        },
+      },
+    };
+    this.chart = new Chart(canvas, config);
+    this.theme();
+  }
+
+  /** Shows a CV result (undefined clears the chart). */
+  show(view: CvView | undefined): void {
+    const d = this.chart.data.datasets;
+    const rows = view ? [...view.rows].sort((a, b) => a.knots - b.knots) : [];
+    d[0]!.data = rows.map((r) => ({ x: r.knots, y: r.cvRmse + r.cvSe }));
+    d[1]!.data = rows.map((r) => ({ x: r.knots, y: r.cvRmse - r.cvSe }));
+    d[2]!.data = rows.map((r) => ({ x: r.knots, y: r.cvRmse }));
+    if (view && rows.length > 0) {
+      const x0 = rows[0]!.knots;
+      const x1 = rows[rows.length - 1]!.knots;
+      d[3]!.data = [
+        { x: x0, y: view.threshold },
+        { x: x1, y: view.threshold },
+      ];
+      const s = rows.find((r) => r.knots === view.best);
+      d[4]!.data = s ? [{ x: s.knots, y: s.cvRmse }] : [];
+      d[3]!.label = view.rule === 1 ? 'One-SE threshold (best cv_rmse + its SE)' : 'Minimum cv_rmse';
+      const name = view.rule === 1 ? 'one-standard-error rule' : 'minimum cv_rmse';
+      this.chart.options.plugins!.title!.text = `Suggested: ${view.best === 0 ? 'classic fit (0)' : `${view.best} knots`} — ${name}`;
+    } else {
+      d[3]!.data = [];
+      d[4]!.data = [];
+      this.chart.options.plugins!.title!.text = 'No cross-validation yet';
+    }
+    this.chart.update();
+  }
+
+  /** Re-reads the theme colours. */
+  theme(): void {
+    const p = palette();
+    const d = this.chart.data.datasets;
+    Object.assign(d[0]!, { borderColor: p.band, backgroundColor: p.band });
+    Object.assign(d[1]!, { borderColor: p.band, backgroundColor: p.band });
+    Object.assign(d[2]!, { borderColor: p.points, backgroundColor: p.points });
+    Object.assign(d[3]!, { borderColor: p.mark, backgroundColor: p.mark });
+    Object.assign(d[4]!, { borderColor: p.mark, backgroundColor: p.mark });
+    applyAxisTheme(this.chart, p);
+    this.chart.update();
+  }
+}

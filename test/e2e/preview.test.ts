@@ -1,0 +1,199 @@
+/**
+ * End-to-end specification of the browser preview, driven by playwright-core in Debian's chromium
+ * (headless). The page is built with the project's webpack config and served on 127.0.0.1.
+ *
+ * Expected values do not come from the page: the test reads the sample workbook itself (exceljs in
+ * Node) and computes RATCHET.KNOTS, CV and BESTK through the registry — the same implementations
+ * the worksheet functions use.
+ *
+ * CI installs chromium (.ci/run). Locally the file may be skipped only with RATCHET_SKIP_E2E=1;
+ * without that variable a missing /usr/bin/chromium is a failure, not a skip.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import ExcelJS from 'exceljs';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
+import { functionByName } from '../../src/functions/registry.js';
+import { parseCsv } from '../../taskpane/csv.js';
+import type { CellArg, CellOut, CellValueIn } from '../../src/functions/types.js';
+import type { Snapshot } from '../../taskpane/app.js';
+
+const CHROMIUM = '/usr/bin/chromium';
+const SKIP = process.env.RATCHET_SKIP_E2E === '1';
+const root = path.resolve(import.meta.dirname, '../..');
+const resultsDir = path.join(root, 'test-results');
+
+/** Columns of a sample's "Data" sheet read in Node, by header name. */
+async function sampleColumns(file: string, xHeader: string, yHeader: string): Promise<{ xs: CellValueIn[][]; ys: CellValueIn[][]; used: number }> {
+  const wb = new ExcelJS.Workbook();
+  await wb.xlsx.readFile(path.join(root, 'samples', file));
+  const ws = wb.getWorksheet('Data');
+  if (!ws) throw new Error(`${file} has no Data sheet`);
+  const header = ws.getRow(1);
+  let cx = -1;
+  let cy = -1;
+  header.eachCell((cell, col) => {
+    if (cell.value === xHeader) cx = col;
+    if (cell.value === yHeader) cy = col;
+  });
+  if (cx < 0 || cy < 0) throw new Error(`${file}: headers ${xHeader} / ${yHeader} not found`);
+  const xs: CellValueIn[][] = [];
+  const ys: CellValueIn[][] = [];
+  let last = 1;
+  for (let r = 2; r <= ws.rowCount; r++) if (typeof ws.getRow(r).getCell(cx).value === 'number' || typeof ws.getRow(r).getCell(cy).value === 'number') last = r;
+  let used = 0;
+  for (let r = 2; r <= last; r++) {
+    const x = ws.getRow(r).getCell(cx).value;
+    const y = ws.getRow(r).getCell(cy).value;
+    xs.push([typeof x === 'number' ? x : null]);
+    ys.push([typeof y === 'number' ? y : null]);
+    if (typeof x === 'number' && typeof y === 'number') used++;
+  }
+  return { xs, ys, used };
+}
+
+function invoke(name: string, args: CellArg[]): CellOut[][] | CellOut {
+  return functionByName(name)!.invoke(args);
+}
+
+async function snap(page: Page): Promise<Snapshot> {
+  return page.evaluate(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot());
+}
+
+async function setValue(page: Page, selector: string, value: string): Promise<void> {
+  await page.fill(selector, value);
+  await page.dispatchEvent(selector, 'change');
+}
+
+describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () => {
+  let server: PreviewServer | undefined;
+  let context: BrowserContext;
+  let page: Page;
+  let userDataDir: string | undefined;
+  const requests: string[] = [];
+  const problems: string[] = [];
+
+  beforeAll(async () => {
+    if (!fs.existsSync(CHROMIUM)) {
+      throw new Error(`${CHROMIUM} is missing: install Debian's chromium (apt-get install chromium; .ci/run does) or set RATCHET_SKIP_E2E=1 to skip this file locally.`);
+    }
+    const dir = await buildPreview(undefined, true);
+    server = await startPreviewServer(dir, 0);
+    userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ratchet-chromium-'));
+    // A fresh profile in a temporary folder (playwright passes it as --user-data-dir).
+    context = await chromium.launchPersistentContext(userDataDir, {
+      executablePath: CHROMIUM,
+      headless: true,
+      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+      acceptDownloads: true,
+      viewport: { width: 900, height: 1400 },
+    });
+    context.on('request', (r) => requests.push(r.url()));
+    page = context.pages()[0] ?? (await context.newPage());
+    page.on('console', (m) => {
+      if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) problems.push(`console ${m.type()}: ${m.text()}`);
+    });
+    page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+    await page.goto(server.url);
+    await page.waitForFunction(() => (document.getElementById('sample') as HTMLSelectElement | null)?.options.length === 4);
+  }, 90_000);
+
+  afterAll(async () => {
+    await context?.close();
+    await server?.close();
+    if (userDataDir) fs.rmSync(userDataDir, { recursive: true, force: true });
+  });
+
+  it('opens a sample: the chart holds every usable row as a point and the KNOTS table as curve vertices', async () => {
+    await page.selectOption('#sample', 'kiln-strength.xlsx');
+    await page.click('#sample-open');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().points.length > 0);
+    const s = await snap(page);
+    expect(s.mode).toBe('preview');
+    const { xs, ys, used } = await sampleColumns('kiln-strength.xlsx', 'temperature °C', 'strength MPa');
+    expect(s.points.length).toBe(used);
+    // classic fit (knots 0), rising
+    const table = invoke('KNOTS', [ys, xs, 0, 1]) as number[][];
+    expect(s.curve.length).toBe(table.length);
+    expect(s.curve.map((p) => p.x)).toEqual(table.map((r) => r[0]));
+    expect(s.curve.map((p) => p.y)).toEqual(table.map((r) => r[1]));
+    // a knot fit: the curve has exactly K vertices
+    await setValue(page, '#knots', '5');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().curve.length === 5);
+    const s5 = await snap(page);
+    const t5 = invoke('KNOTS', [ys, xs, 5, 1]) as number[][];
+    expect(s5.curve).toEqual(t5.map((r) => ({ x: r[0], y: r[1] })));
+    expect(s5.knots).toEqual(s5.curve);
+    expect(s5.formulas.KNOTS).toBe('=RATCHET.KNOTS(Data!$B$2:$B$29,Data!$A$2:$A$29,5,1)');
+  });
+
+  it('suggests the knot count RATCHET.BESTK gives on the same data, and charts the CV table', async () => {
+    await page.click('#suggest');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().cvState === 'done', undefined, { timeout: 20_000 });
+    const s = await snap(page);
+    const { xs, ys } = await sampleColumns('kiln-strength.xlsx', 'temperature °C', 'strength MPa');
+    // defaults of the pane: candidates default, folds 5, repeats 1, seed 1, direction 1, no weights, one-SE rule
+    const best = invoke('BESTK', [ys, xs, undefined, 5, 1, 1, 1, undefined, 1]);
+    expect(s.cv!.best).toBe(best);
+    const cv = invoke('CV', [ys, xs, undefined, 5, 1, 1, 1]) as (number | string)[][];
+    expect(s.cv!.rows.map((r) => [r.knots, r.cvRmse, r.cvSe, r.cvR2, r.cvMae, r.trainRmse])).toEqual(cv.slice(1));
+    expect(s.cv!.points.length).toBe(cv.length - 1);
+    expect(await page.textContent('#cv-status')).toContain('one-standard-error rule');
+    fs.mkdirSync(resultsDir, { recursive: true });
+    await page.screenshot({ path: path.join(resultsDir, 'preview-kiln.png'), fullPage: true });
+  });
+
+  it('downloads the knot table as CSV equal to RATCHET.KNOTS', async () => {
+    const [download] = await Promise.all([page.waitForEvent('download'), page.click('#download')]);
+    const text = fs.readFileSync((await download.path())!, 'utf8');
+    const rows = parseCsv(text);
+    expect(rows[0]).toEqual(['knot_x', 'fitted_value']);
+    const { xs, ys } = await sampleColumns('kiln-strength.xlsx', 'temperature °C', 'strength MPa');
+    const table = invoke('KNOTS', [ys, xs, 5, 1]) as number[][];
+    // full precision: the shortest round-trip decimal of each double
+    expect(rows.slice(1).map((r) => r.map(Number))).toEqual(table);
+    expect(download.suggestedFilename()).toBe('kiln-strength-knots.csv');
+  });
+
+  it('cancels a long cross-validation and can run again afterwards', async () => {
+    await page.selectOption('#sample', 'knot-count-study.xlsx');
+    await page.click('#sample-open');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().data?.x.length === 40);
+    await setValue(page, '#cv-folds', '10');
+    await setValue(page, '#cv-repeats', '1000');
+    await page.click('#suggest');
+    await page.waitForFunction(() => {
+      const s = (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot();
+      return s.cvState === 'running' && s.progress > 0;
+    });
+    const before = await snap(page);
+    expect(before.progress).toBeLessThan(0.9);
+    await page.focus('#cancel'); // keyboard: Cancel is operable with Enter
+
+    await page.keyboard.press('Enter');
+    const s = await snap(page);
+    expect(s.cvState).toBe('cancelled');
+    expect(s.cv).toBeNull();
+    await page.waitForTimeout(300);
+    expect((await snap(page)).cvState).toBe('cancelled');
+    expect(await page.textContent('#cv-status')).toBe('Cancelled.');
+    // a fresh worker serves the next run
+    await setValue(page, '#cv-folds', '5');
+    await setValue(page, '#cv-repeats', '1');
+    await page.click('#suggest');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().cvState === 'done', undefined, { timeout: 20_000 });
+    const { xs, ys } = await sampleColumns('knot-count-study.xlsx', 'setting', 'response');
+    expect((await snap(page)).cv!.best).toBe(invoke('BESTK', [ys, xs, undefined, 5, 1, 1, 1, undefined, 1]));
+  });
+
+  it('sent no request beyond localhost and logged no error or CSP violation', () => {
+    expect(requests.length).toBeGreaterThan(3);
+    const outside = requests.filter((u) => !(u.startsWith(server!.url) || u.startsWith('data:') || u.startsWith('blob:')));
+    expect(outside).toEqual([]);
+    expect(requests.some((u) => u.includes('office.js'))).toBe(false);
+    expect(problems).toEqual([]);
+  });
+});
