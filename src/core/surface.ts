@@ -186,6 +186,13 @@ export function fitSurface(
   return surfaceChecked(xs1, xs2, ys, ws, spec1, spec2, d1, d2, tol);
 }
 
+/** 2^e nearest the largest |v| over rows with positive weight (1 when all are 0). O(n). */
+function powerOfTwoScale(v: Float64Array, w: Float64Array): number {
+  let m = 0;
+  for (let i = 0; i < v.length; i++) if (w[i]! > 0) m = Math.max(m, Math.abs(v[i]!));
+  return m > 0 && Number.isFinite(m) ? 2 ** Math.min(1023, Math.max(-1022, Math.round(Math.log2(m)))) : 1;
+}
+
 /** Knot positions of one axis from its spec and the positive-weight rows. */
 function axisKnots(x: Float64Array, w: Float64Array, spec: SurfaceKnotSpec, name: string, knotsName: string): Float64Array {
   if (typeof spec !== 'number') return spec;
@@ -239,7 +246,12 @@ export function surfaceChecked(
     fail('BAD_KNOTS', 'knots1', `needs a lattice of at most ${SURFACE_MAX_NODES} nodes (K1·K2); got ${k1}×${k2} = ${N}`);
   }
   const loc = locate(t1, t2, xs1, xs2);
-  const sys = assembleLattice(k1, k2, loc, ys, ws);
+  // Solve on y and w scaled by powers of two (exact) so sums of squares neither overflow nor underflow.
+  const sy = powerOfTwoScale(ys, ws);
+  const sw = powerOfTwoScale(ws, ws);
+  const yS = ys.map((v) => v / sy);
+  const wS = ws.map((v) => v / sw);
+  const sys = assembleLattice(k1, k2, loc, yS, wS);
   const identified = new Uint8Array(N);
   const index = new Int32Array(N).fill(-1);
   const seenNodes: number[] = [];
@@ -253,19 +265,19 @@ export function surfaceChecked(
   const nodes = Int32Array.from(seenNodes);
   const M = nodes.length;
 
-  // Weighted total sum of squares: the scale of the complementarity condition.
-  let sw = 0;
+  // Weighted total sum of squares (scaled data): the scale of the complementarity condition.
+  let sumW = 0;
   let swy = 0;
-  for (let i = 0; i < ys.length; i++) {
-    sw += ws[i]!;
-    swy += ws[i]! * ys[i]!;
+  for (let i = 0; i < yS.length; i++) {
+    sumW += wS[i]!;
+    swy += wS[i]! * yS[i]!;
   }
   let sst = 0;
   let syy = 0;
-  for (let i = 0; i < ys.length; i++) {
-    const dv = ys[i]! - swy / sw;
-    sst += ws[i]! * dv * dv;
-    syy += ws[i]! * ys[i]! * ys[i]!;
+  for (let i = 0; i < yS.length; i++) {
+    const dv = yS[i]! - swy / sumW;
+    sst += wS[i]! * dv * dv;
+    syy += wS[i]! * yS[i]! * yS[i]!;
   }
   const scaleSS = sst > 0 ? sst : syy > 0 ? syy : 1;
 
@@ -317,6 +329,7 @@ export function surfaceChecked(
 
   // Guard the order against rounding and fill the nodes the data do not see.
   const values = orderEnvelopeMean(theta, k1, k2, d1, d2, identified);
+  for (let p = 0; p < N; p++) values[p] = values[p]! * sy;
   const fitted = evaluateLattice(values, k1, loc);
   const distinct = new Set<number>();
   for (let p = 0; p < N; p++) distinct.add(values[p]! + 0);
