@@ -113,7 +113,12 @@ export const CODE_OF_TYPE: Readonly<Record<string, string>> = {
   LIC: '#LIC!',
 };
 
-/** A HyperFormula error from a mapped cell error; codes HyperFormula lacks keep their text in the message. */
+/**
+ * A HyperFormula error from a cell error of the adapter's mapping: same code and message. A code
+ * HyperFormula has no type for (#NULL!) becomes its generic #ERROR! with the code at the front
+ * of the message. O(1).
+ * @example toHfError({ code: '#N/A', message: 'target_ys: 99 is outside …' }).type // → 'NA'
+ */
 export function toHfError(e: MappedCellError): CellError {
   const type = TYPE_OF_CODE[e.code];
   if (type !== undefined) return new CellError(type, e.message);
@@ -135,7 +140,13 @@ function scalarIn(v: Internal): CellValueIn {
   return String(v);
 }
 
-/** An evaluated argument → CellArg: ranges and arrays become rows of cells. */
+/**
+ * An evaluated HyperFormula argument → CellArg (src/functions/types.ts). Ranges and arrays become
+ * rows of cells; an empty cell is null (never 0); an error is `{ kind: 'error', code, message? }`
+ * with its Excel code; a rich number (date, currency, percent) is its plain number; a single-cell
+ * reference arrives as a scalar. O(cells).
+ * @example toCellArg(SimpleRangeValue.onlyValues([[1, EmptyValue]])) // → [[1, null]]
+ */
 export function toCellArg(v: Internal): CellArg {
   if (v instanceof SimpleRangeValue) return v.data.map((row) => row.map(scalarIn));
   return scalarIn(v);

@@ -82,7 +82,13 @@ function jsonOf(v: unknown): JsonCell {
   return String(v);
 }
 
-/** Parses a value typed on the command line: "" blank, numbers, TRUE/FALSE, "=…" formula, else text. */
+/**
+ * Parses a value typed on the command line (`--set Sheet!A1=value`): an empty value is a blank
+ * cell, a decimal number (optional sign and exponent) a number, TRUE/FALSE (any case) a logical,
+ * text starting with "=" a formula, anything else text kept as typed. O(length).
+ * @example parseInputValue('2.5e3') // → 2500
+ * @example parseInputValue('12 kg') // → '12 kg'
+ */
 export function parseInputValue(text: string): InputValue {
   const t = text.trim();
   if (t === '') return null;
@@ -153,7 +159,16 @@ export class EvaluatedWorkbook {
     return EvaluatedWorkbook.fromExcel(wb);
   }
 
-  /** Evaluates an exceljs workbook held in memory (it is not modified). */
+  /**
+   * Evaluates an exceljs workbook held in memory (it is not modified). Cell rules: numbers and
+   * logicals as they are; text stays text (even "12" or "=x"); dates become Excel serial day
+   * numbers (1900 system); rich text becomes its plain text; error cells keep their code;
+   * formulas are read in either form; cached values inside an array formula's range are dropped.
+   * Defined names over one range become named expressions.
+   * Cost: O(cells) to load plus the evaluation; an array result whose size is not yet known costs
+   * one more evaluation of that formula.
+   * @example EvaluatedWorkbook.fromExcel(wb).value('Data!D2') // → 1 (the first fitted value)
+   */
   static fromExcel(wb: ExcelJS.Workbook): EvaluatedWorkbook {
     const sheets: Record<string, RawCellContent[][]> = {};
     const names: string[] = [];
@@ -339,7 +354,7 @@ export class EvaluatedWorkbook {
     return this.block(ref, s.rows, s.cols);
   }
 
-  /** Every formula cell with its result, sheet by sheet, row by row. */
+  /** Every formula cell with its result, sheet by sheet, row by row. O(cells of the used ranges). */
   results(): FormulaResult[] {
     const out: FormulaResult[] = [];
     for (const { addr, formula } of this.formulaCells()) {
@@ -362,7 +377,12 @@ export class EvaluatedWorkbook {
     return out;
   }
 
-  /** The runner's JSON: every formula cell and every cell its result spills into. */
+  /**
+   * The runner's JSON: every formula cell and every cell its result spills into, keyed
+   * "Sheet!A1" (sheet name unquoted), then "messages" with the message of each error cell.
+   * O(cells of the used ranges).
+   * @example book.toJson() // → { 'Data!D2': 1, 'Data!D3': 2.5, …, messages: { 'Data!N8': 'target_ys: …' } }
+   */
   toJson(): RunnerJson {
     const json: RunnerJson = { messages: {} };
     for (const res of this.results()) {
