@@ -96,7 +96,9 @@ specs <- list(
   list(name = "up-up 6x6 explicit knots inside the range", n = 250, K1 = 6, K2 = 6, d1 = "up", d2 = "up", w = TRUE, seed = 16,
        t1 = c(1, 2, 3.5, 5, 7, 8.5), t2 = c(0.5, 2, 3, 4.5, 6, 9)),
   list(name = "up-up 8x8 even (iterative-size check at 64 nodes)", n = 500, K1 = 8, K2 = 8, d1 = "up", d2 = "up", w = FALSE, seed = 17),
-  list(name = "none-none 3x4 unconstrained", n = 50, K1 = 3, K2 = 4, d1 = "none", d2 = "none", w = FALSE, seed = 18)
+  list(name = "none-none 3x4 unconstrained", n = 50, K1 = 3, K2 = 4, d1 = "none", d2 = "none", w = FALSE, seed = 18),
+  list(name = "up-up 22x21 even (ADMM warm start, then the exact method)", n = 3000, K1 = 22, K2 = 21, d1 = "up", d2 = "up", w = TRUE, seed = 19),
+  list(name = "up-down 24x20 even (ADMM warm start, then the exact method)", n = 3000, K1 = 24, K2 = 20, d1 = "up", d2 = "down", w = FALSE, seed = 20)
 )
 for (s in specs) {
   set.seed(s$seed)

@@ -139,3 +139,31 @@ describe('errors map to cell errors with the argument named', () => {
     expect(seen.errors).toBeGreaterThan(20);
   });
 });
+
+describe('the examples of docs/surface.md (invented oven data; values as printed there, 6 significant digits)', () => {
+  const temp = col(160, 160, 160, 180, 180, 180, 200, 200, 200, 170, 190, 190);
+  const time = col(10, 20, 30, 10, 20, 30, 10, 20, 30, 25, 15, 25);
+  const hard = col(41, 47, 45, 44, 46, 52, 50, 48, 58, 46, 49, 53);
+  const flat = (r: unknown) => numbers(r).flat().filter((v) => v === v);
+
+  it('SURFACE with 2 × 2 knots and with every level', () => {
+    expect(flat(cell('SURFACE', col(175, 200, 150), col(12, 40, 20), hard, temp, time, 2, 2))).toBeAllCloseRel([44.5632, 56.4064, 43.8641], 5e-6);
+    expect(flat(cell('SURFACE', col(175, 200, 150), col(12, 40, 20), hard, temp, time))).toBeAllCloseRel([43.65, 58, 46], 1e-12);
+  });
+
+  it('GRID with 2 × 2 knots and with every level', () => {
+    expect(flat(cell('GRID', hard, temp, time, 2, 2))).toBeAllCloseRel([160, 200, 10, 41.7109, 47.7316, 30, 46.0174, 56.4064], 5e-6);
+    expect(flat(cell('GRID', hard, temp, time))).toBeAllCloseRel(
+      [160, 170, 180, 190, 200, 10, 41, 42.5, 44, 46.5, 49, 15, 43.5, 43.5, 45, 49, 49, 20, 46, 46, 46, 49, 49, 25, 46, 46, 49, 53, 55.5, 30, 46, 49, 52, 55.5, 58],
+      1e-12,
+    );
+  });
+
+  it('CVGRID with candidates {2;3} × {2;3}, 4 folds, seed 0', () => {
+    const r = cell('CVGRID', hard, temp, time, col(2, 3), col(2, 3), 4, 1, 0) as CellOut[][];
+    expect(flat(r.slice(1))).toBeAllCloseRel(
+      [2, 2, 2.30976, 0.483665, 0.719519, 2, 3, 1.93166, 0.290178, 0.80383, 3, 2, 3.03711, 0.628447, 0.515056, 3, 3, 3.5715, 1.11215, 0.329387],
+      5e-6,
+    );
+  });
+});
