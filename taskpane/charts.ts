@@ -199,8 +199,12 @@ export class CvChart {
     } else {
       d[3]!.data = [];
       d[4]!.data = [];
-      this.chart.options.plugins!.title!.text = 'No cross-validation yet';
+      this.chart.options.plugins!.title!.text = 'No cross-validation yet — press “Suggest knot count”';
     }
+    // An empty chart shows the usual candidate range instead of Chart.js's 0…1 default.
+    const sc = this.chart.options.scales as { x: { min?: number; max?: number }; y: { min?: number; max?: number } };
+    sc.x.min = rows.length > 0 ? undefined : 2;
+    sc.x.max = rows.length > 0 ? undefined : 20;
     this.chart.update();
   }
 

@@ -56,6 +56,7 @@ export class PreviewData {
   async openSample(file: string): Promise<void> {
     const s = SAMPLES.find((q) => q.file === file);
     if (!s) return;
+    el<HTMLInputElement>('file').value = '';
     try {
       const res = await fetch(s.url());
       if (!res.ok) throw new Error(`${file}: could not be read (${res.status}).`);

@@ -189,6 +189,41 @@ describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () 
     expect((await snap(page)).cv!.best).toBe(invoke('BESTK', [ys, xs, undefined, 5, 1, 1, 1, undefined, 1]));
   });
 
+  it('opens a CSV file: rows with a blank are left out, and the formulas reference where the CSV lands in a workbook', async () => {
+    // Invented data; row 4 has no y and is left out.
+    const csv = 'dose,"response, mV"\r\n1,2.0\r\n2,\r\n3,2.5\r\n4,4.1\r\n5,3.9\r\n6,6.0\r\n';
+    await page.setInputFiles('#file', { name: 'assay.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().data?.x.length === 6);
+    await setValue(page, '#knots', '0');
+    const s = await snap(page);
+    expect(s.points).toEqual([
+      { x: 1, y: 2 },
+      { x: 3, y: 2.5 },
+      { x: 4, y: 4.1 },
+      { x: 5, y: 3.9 },
+      { x: 6, y: 6 },
+    ]);
+    const ys = [[2], [null], [2.5], [4.1], [3.9], [6]];
+    const xs = [[1], [2], [3], [4], [5], [6]];
+    const table = invoke('KNOTS', [ys, xs, 0, 1]) as number[][];
+    expect(s.curve).toEqual(table.map((r) => ({ x: r[0], y: r[1] })));
+    expect(s.formulas.STATS).toBe('=RATCHET.STATS(assay!$B$2:$B$7,assay!$A$2:$A$7,0,1)');
+  });
+
+  it('follows the dark colour scheme (screenshot)', async () => {
+    await page.selectOption('#sample', 'adhesive-tack.xlsx');
+    await page.click('#sample-open');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().data?.x.length === 26);
+    await page.selectOption('#direction', '-1');
+    await setValue(page, '#knots', '4');
+    await page.emulateMedia({ colorScheme: 'dark' });
+    await page.waitForTimeout(100);
+    const bg = await page.evaluate(() => getComputedStyle(document.body).backgroundColor);
+    expect(bg).toBe('rgb(24, 24, 27)');
+    await page.screenshot({ path: path.join(resultsDir, 'preview-dark.png'), fullPage: true });
+    await page.emulateMedia({ colorScheme: 'light' });
+  });
+
   it('sent no request beyond localhost and logged no error or CSP violation', () => {
     expect(requests.length).toBeGreaterThan(3);
     const outside = requests.filter((u) => !(u.startsWith(server!.url) || u.startsWith('data:') || u.startsWith('blob:')));
