@@ -33,8 +33,24 @@ export function intervalIndex(t: ArrayLike<number>, x: number): number {
 export function lerp(v0: number, v1: number, u: number): number {
   if (v0 === v1 || u <= 0) return v0;
   if (u >= 1) return v1;
-  const v = v0 + u * (v1 - v0);
+  const d = v1 - v0;
+  // (1 − u)v0 + u·v1 when the difference overflows (ends near ±1.8e308 of opposite signs).
+  const v = Number.isFinite(d) ? v0 + u * d : (1 - u) * v0 + u * v1;
   return v0 < v1 ? (v < v0 ? v0 : v > v1 ? v1 : v) : v > v0 ? v0 : v < v1 ? v1 : v;
+}
+
+/**
+ * The share (x − a)/(b − a) of the way from a to b at which x lies, for a ≠ b, computed without
+ * overflow when b − a or x − a exceeds the largest double (halving all three first, which is
+ * exact). Cost O(1). Returns a value in [0, 1] for x between a and b.
+ *
+ * @example share(3, 2, 6) // → 0.25
+ */
+export function share(x: number, a: number, b: number): number {
+  const num = x - a;
+  const den = b - a;
+  if (Number.isFinite(num) && Number.isFinite(den)) return num / den;
+  return (x / 2 - a / 2) / (b / 2 - a / 2);
 }
 
 /**
@@ -53,7 +69,7 @@ export function interpolateAt(t: ArrayLike<number>, v: ArrayLike<number>, x: num
   const j = intervalIndex(t, x);
   const t0 = t[j]!;
   const t1 = t[j + 1]!;
-  return lerp(v[j]!, v[j + 1]!, (x - t0) / (t1 - t0));
+  return lerp(v[j]!, v[j + 1]!, share(x, t0, t1));
 }
 
 /**

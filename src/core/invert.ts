@@ -5,6 +5,7 @@ import type { TieRule } from './types.js';
 import { fail } from './errors.js';
 import { checkKnotPositions } from './knots.js';
 import { finiteArray, sameLength } from './validate.js';
+import { lerp, share } from './interpolate.js';
 
 /**
  * Checks a knot table for interpolation or inversion: positions finite and strictly increasing
@@ -78,8 +79,7 @@ export function invertChecked(tx: Float64Array, ty: Float64Array, target: number
     if (v >= y0) {
       if (j === 0 || v === y0) xl = tx[j]!;
       else {
-        const v0 = s * ty[j - 1]!;
-        xl = tx[j - 1]! + ((y0 - v0) * (tx[j]! - tx[j - 1]!)) / (v - v0);
+        xl = lerp(tx[j - 1]!, tx[j]!, share(y0, s * ty[j - 1]!, v));
       }
       break;
     }
@@ -91,8 +91,7 @@ export function invertChecked(tx: Float64Array, ty: Float64Array, target: number
     if (v <= y0) {
       if (j === K - 1 || v === y0) xh = tx[j]!;
       else {
-        const v1 = s * ty[j + 1]!;
-        xh = tx[j]! + ((y0 - v) * (tx[j + 1]! - tx[j]!)) / (v1 - v);
+        xh = lerp(tx[j]!, tx[j + 1]!, share(y0, v, s * ty[j + 1]!));
       }
       break;
     }
@@ -100,5 +99,5 @@ export function invertChecked(tx: Float64Array, ty: Float64Array, target: number
   if (xh < xl) xh = xl; // rounding on a steep segment
   if (tie === 'lowest') return xl;
   if (tie === 'highest') return xh;
-  return xl === xh ? xl : xl + (xh - xl) / 2;
+  return xl === xh ? xl : lerp(xl, xh, 0.5);
 }

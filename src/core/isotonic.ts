@@ -7,7 +7,7 @@ import { poolTies } from './pool-ties.js';
 import { pavaSorted } from './pava.js';
 import { resolveDirection } from './direction.js';
 import { fail } from './errors.js';
-import { lerp } from './interpolate.js';
+import { lerp, share } from './interpolate.js';
 
 /** Result of {@link isotonicRegression}. */
 export interface IsotonicFit {
@@ -82,7 +82,24 @@ export function isotonicChecked(
   lower: number,
   upper: number,
 ): IsotonicFit {
-  const pooled = poolTies(xs, ys, ws);
+  // Products w·y of values near 1e308 would overflow while pooling ties: then pool y and w scaled
+  // by powers of two (exact) and scale the pooled weights back (the fit itself is scaled below).
+  let rawY = 0;
+  let rawW = 0;
+  for (let i = 0; i < ys.length; i++) {
+    rawY = Math.max(rawY, Math.abs(ys[i]!));
+    rawW = Math.max(rawW, ws[i]!);
+  }
+  const prescale = rawY > 2 ** 400 || rawW > 2 ** 400;
+  const pre = prescale ? 2 ** -exponentOf(rawY) : 1;
+  const preW = prescale ? 2 ** -exponentOf(rawW) : 1;
+  const pooled = prescale ? poolTies(xs, ys.map((v) => v * pre), ws.map((v) => v * preW)) : poolTies(xs, ys, ws);
+  if (prescale) {
+    for (let j = 0; j < pooled.y.length; j++) {
+      pooled.y[j] = pooled.y[j]! / pre;
+      pooled.w[j] = pooled.w[j]! / preW;
+    }
+  }
   const m = pooled.x.length;
   // Positions with positive pooled weight take part in PAVA.
   const active: number[] = [];
@@ -90,19 +107,33 @@ export function isotonicChecked(
   if (active.length < 2) {
     fail('TOO_FEW_POINTS', 'x', `needs at least 2 distinct values with positive weight; got ${active.length}`);
   }
+  // PAVA runs on y and w scaled by powers of two (exact, so the result is the same bit for bit),
+  // with the largest |y| and the total weight near 1: its cross-multiplied block sums then neither
+  // overflow for y or w near 1e308 nor underflow for tiny ones.
+  let maxY = 0;
+  let maxW = 0;
+  for (let k = 0; k < active.length; k++) {
+    maxY = Math.max(maxY, Math.abs(pooled.y[active[k]!]!));
+    maxW = Math.max(maxW, pooled.w[active[k]!]!);
+  }
+  const yExp = exponentOf(maxY);
+  // Weights to at most 2^-32 each, so that even 2^32 of them sum (and square) far from overflow.
+  const wScale = 2 ** -(exponentOf(maxW) + 32);
   const sign = direction === 'up' ? 1 : -1;
+  const yScale = sign * 2 ** -yExp;
   const ay = new Float64Array(active.length);
   const aw = new Float64Array(active.length);
   for (let k = 0; k < active.length; k++) {
-    ay[k] = sign * pooled.y[active[k]!]!;
-    aw[k] = pooled.w[active[k]!]!;
+    ay[k] = yScale * pooled.y[active[k]!]!;
+    aw[k] = wScale * pooled.w[active[k]!]!;
   }
   const { fitted: af, starts } = pavaSorted(ay, aw);
+  const back = sign * 2 ** yExp;
   const tx = new Float64Array(active.length);
   const tv = new Float64Array(active.length);
   for (let k = 0; k < active.length; k++) {
     tx[k] = pooled.x[active[k]!]!;
-    tv[k] = Math.min(upper, Math.max(lower, sign * af[k]!));
+    tv[k] = Math.min(upper, Math.max(lower, back * af[k]!));
   }
   // Levels: distinct values after clipping (clipping may merge blocks at a bound).
   let levels = starts.length > 0 ? 1 : 0;
@@ -119,8 +150,7 @@ export function isotonicChecked(
         // Zero-weight distinct x strictly between two active positions: interpolate linearly.
         const x0 = tx[k - 1]!;
         const x1 = tx[k]!;
-        const u = (pooled.x[j]! - x0) / (x1 - x0);
-        value[j] = lerp(tv[k - 1]!, tv[k]!, u);
+        value[j] = lerp(tv[k - 1]!, tv[k]!, share(pooled.x[j]!, x0, x1));
       }
     }
   }
@@ -154,4 +184,9 @@ function minimalTable(tx: Float64Array, tv: Float64Array): [Float64Array, Float6
     kv[k] = tv[j]!;
   });
   return [kx, kv];
+}
+
+/** The exponent k of the smallest power of two 2^k ≥ v, clamped to the normal range; 0 for v = 0. */
+function exponentOf(v: number): number {
+  return v > 0 ? Math.min(1023, Math.max(-1022, Math.ceil(Math.log2(v)))) : 0;
 }

@@ -116,6 +116,7 @@ export function knotChecked(
   direction: Direction,
   lower: number,
   upper: number,
+  rescaled = false,
 ): KnotFit {
   const n = xs.length;
   // Range of the rows that count, and the check for two distinct x.
@@ -131,7 +132,8 @@ export function knotChecked(
     }
   }
   if (finiteX !== 0) finiteArray('x', xs); // throws NON_FINITE naming the entry
-  if (!(xmin < xmax)) fail('TOO_FEW_POINTS', 'x', 'needs at least 2 distinct values with positive weight');
+  if (!(xmin < xmax)) fail('TOO_FEW_POINTS', 'x', `needs at least 2 distinct values with positive weight; got ${xmin === xmax ? 1 : 0}`);
+  if (!rescaled && !(xmax - xmin < HUGE)) return knotRescaled(xs, ys, ws, knots, direction, lower, upper);
   const t = typeof knots === 'number' ? evenKnots(xmin, xmax, knots) : knots;
   const K = t.length;
   const even = typeof knots === 'number';
@@ -145,6 +147,7 @@ export function knotChecked(
   const e = new Float64Array(K - 1);
   const c = new Float64Array(K);
   if (!assemble(xs, ys, ws, t, even, sign, d, e, c)) finiteArray('y', ys); // throws NON_FINITE
+  if (!rescaled && !moderate(d, c)) return knotRescaled(xs, ys, ws, knots, direction, lower, upper);
 
   // Reduced problem over the identified knots (positive diagonal).
   const identified = new Uint8Array(K);
@@ -319,6 +322,80 @@ function evaluate(xs: Float64Array, t: Float64Array, even: boolean, values: Floa
     const v1 = values[j + 1]!;
     out[i] = lerp(v0, v1, u);
   }
+}
+
+/** Sums beyond this (2^900) are rescaled before solving, so that no product can overflow. */
+const HUGE = 2 ** 900;
+
+/**
+ * True when the assembled sums are far from overflow and the positive diagonal entries far from
+ * underflow: then no product in the solve can leave the range of doubles.
+ */
+function moderate(d: Float64Array, c: Float64Array): boolean {
+  let maxD = 0;
+  let minD = Infinity;
+  let maxC = 0;
+  for (let j = 0; j < d.length; j++) {
+    const v = d[j]!;
+    if (v > maxD) maxD = v;
+    if (v > 0 && v < minD) minD = v;
+    const a = Math.abs(c[j]!);
+    if (a > maxC) maxC = a;
+  }
+  return maxD < HUGE && maxC < HUGE && minD > 1 / HUGE;
+}
+
+/**
+ * {@link knotChecked} for data whose sums would overflow or underflow (x, y or weights near 1e±300):
+ * fits x, y and w scaled by powers of two — which is exact, so this is the same fit — and scales
+ * the knot positions, knot values and fitted values back.
+ */
+function knotRescaled(
+  xs: Float64Array,
+  ys: Float64Array,
+  ws: Float64Array | null,
+  knots: number | Float64Array,
+  direction: Direction,
+  lower: number,
+  upper: number,
+): KnotFit {
+  let mx = 0;
+  let my = 0;
+  let mw = 0;
+  for (let i = 0; i < xs.length; i++) {
+    mx = Math.max(mx, Math.abs(xs[i]!));
+    my = Math.max(my, Math.abs(ys[i]!));
+    if (ws !== null) mw = Math.max(mw, ws[i]!);
+  }
+  const ex = exponentOf(mx);
+  const ey = exponentOf(my);
+  const ew = ws === null ? 0 : exponentOf(mw);
+  const sx = 2 ** -ex;
+  const sy = 2 ** -ey;
+  const sw = 2 ** -ew;
+  const fit = knotChecked(
+    xs.map((v) => v * sx),
+    ys.map((v) => v * sy),
+    ws === null ? null : ws.map((v) => v * sw),
+    typeof knots === 'number' ? knots : knots.map((v) => v * sx),
+    direction,
+    lower * sy,
+    upper * sy,
+    true,
+  );
+  // Scale back by 2^e in two halves (2^e itself may exceed the largest double).
+  const up = (v: number, e: number) => v * 2 ** Math.floor(e / 2) * 2 ** (e - Math.floor(e / 2));
+  return {
+    ...fit,
+    knotX: typeof knots === 'number' ? fit.knotX.map((v) => up(v, ex)) : knots,
+    knotY: fit.knotY.map((v) => up(v, ey)),
+    fitted: fit.fitted.map((v) => up(v, ey)),
+  };
+}
+
+/** The exponent k of the smallest power of two 2^k ≥ v, clamped to the normal range; 0 for v = 0. */
+function exponentOf(v: number): number {
+  return v > 0 ? Math.min(1023, Math.max(-1022, Math.ceil(Math.log2(v)))) : 0;
 }
 
 /** True when the tridiagonal matrix (d, e) is numerically positive definite (Cholesky pivots). */

@@ -6,7 +6,7 @@
 export interface FitStatistics {
   /** Rows with positive weight. */
   n: number;
-  /** Weighted sum of squared residuals Σ w (y − ŷ)². */
+  /** Weighted sum of squared residuals Σ w (y − ŷ)² (+Infinity only when that exceeds the largest double). */
   sse: number;
   /** Root mean squared error √(SSE / Σw); with unit weights √(SSE / n). */
   rmse: number;
@@ -22,10 +22,10 @@ export interface FitStatistics {
 /**
  * Weighted fit statistics of `fitted` against `y`. Rows with weight 0 are ignored.
  *
- * Cost: O(n), three passes (the second finds a power-of-two scale so that squares neither
- * underflow for tiny y nor overflow for huge y). Inputs are not modified; preconditions (same
- * lengths, finite values, weights ≥ 0 with a positive total) are the callers' — the fitting
- * functions guarantee them.
+ * Cost: O(n), four passes (two find power-of-two scales for y, w and the residuals, so that the
+ * sums neither underflow for tiny y nor overflow for huge y or weights). Inputs are not modified;
+ * preconditions (same lengths, finite values, weights ≥ 0 with a positive total) are the
+ * callers' — the fitting functions guarantee them.
  *
  * @param y observed values.
  * @param fitted fitted values, same length.
@@ -34,46 +34,68 @@ export interface FitStatistics {
  */
 export function fitStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w?: ArrayLike<number>): FitStatistics {
   const n = y.length;
+  // All sums run on y and w scaled by powers of two (exact), so that neither the weighted mean nor
+  // the squares overflow for |y| or w near 1e308 or underflow for 1e-160-sized data (which would
+  // otherwise give R² as 0/0 or x/0, or Infinity for a mean).
+  let maxW = 0;
+  let maxY = 0;
+  for (let i = 0; i < n; i++) {
+    const wi = w === undefined ? 1 : w[i]!;
+    if (wi > 0) {
+      if (wi > maxW) maxW = wi;
+      const a = Math.abs(y[i]!);
+      if (a > maxY) maxY = a;
+    }
+  }
+  const wScale = 2 ** -powerOfTwoExponent(maxW);
+  const yExp = powerOfTwoExponent(maxY);
+  const yScale = 2 ** -yExp;
   let sw = 0;
   let swy = 0;
   let count = 0;
   for (let i = 0; i < n; i++) {
-    const wi = w === undefined ? 1 : w[i]!;
+    const wi = (w === undefined ? 1 : w[i]!) * wScale;
     if (wi > 0) {
       sw += wi;
-      swy += wi * y[i]!;
+      swy += wi * (y[i]! * yScale);
       count++;
     }
   }
-  const mean = swy / sw;
-  // Squares are summed after scaling by the largest |residual| or |deviation|, rounded to a power of
-  // two so the scaling is exact: 1e-160-sized data would otherwise square to 0 (R² as 0/0 or x/0),
-  // and 1e160-sized data to Infinity.
+  const mean = (swy / sw) * 2 ** yExp;
+  // The squares are summed after scaling by the largest |residual| or |deviation| (taken of halves,
+  // so that a difference of two values near ±1.8e308 cannot overflow either).
   let big = 0;
   for (let i = 0; i < n; i++) {
     const wi = w === undefined ? 1 : w[i]!;
-    if (wi > 0) big = Math.max(big, Math.abs(y[i]! - fitted[i]!), Math.abs(y[i]! - mean));
+    if (wi > 0) big = Math.max(big, Math.abs(y[i]! / 2 - fitted[i]! / 2), Math.abs(y[i]! / 2 - mean / 2));
   }
-  const exponent = big > 0 ? Math.min(1023, Math.max(-1022, Math.ceil(Math.log2(big)))) : 0;
-  const s = 2 ** exponent;
-  const inv = 2 ** -exponent; // exact: s and 1/s are both normal powers of two
+  const exponent = powerOfTwoExponent(big) + 1; // |y − ŷ| ≤ 2·big ≤ 2^exponent
+  const inv = 2 ** -(exponent - 1);
   let sse = 0;
   let sae = 0;
   let sst = 0;
   for (let i = 0; i < n; i++) {
-    const wi = w === undefined ? 1 : w[i]!;
+    const wi = (w === undefined ? 1 : w[i]!) * wScale;
     if (wi > 0) {
-      const r = (y[i]! - fitted[i]!) * inv;
+      const r = (y[i]! / 2 - fitted[i]! / 2) * inv; // (y − ŷ)/2^exponent, |r| ≤ 1
       sse += wi * r * r;
       sae += wi * Math.abs(r);
-      const dev = (y[i]! - mean) * inv;
+      const dev = (y[i]! / 2 - mean / 2) * inv;
       sst += wi * dev * dev;
     }
   }
   // R² below the range of doubles (an awful fit of near-constant y) is reported as −MAX_VALUE.
   const r2 = sst > 0 ? Math.max(1 - sse / sst, -Number.MAX_VALUE) : sse === 0 ? 1 : 0;
-  sae *= s;
-  const rmse = Math.sqrt(sse / sw) * s;
-  sse = sse * s * s;
-  return { n: count, sse, rmse, mae: sae / sw, r2 };
+  // Scale back by 2^exponent in two steps (2^exponent itself may exceed the largest double). SSE
+  // may exceed it for huge y: then it is +Infinity, the true value rounded.
+  const half = 2 ** (exponent - 1);
+  const rmse = Math.sqrt(sse / sw) * half * 2;
+  const mae = (sae / sw) * half * 2;
+  sse = ((((sse * half) / wScale) * half) * 2) * 2;
+  return { n: count, sse, rmse, mae, r2 };
+}
+
+/** The exponent k (clamped to the normal range) of the smallest power of two 2^k ≥ v; 0 for v = 0. */
+function powerOfTwoExponent(v: number): number {
+  return v > 0 ? Math.min(1023, Math.max(-1022, Math.ceil(Math.log2(v)))) : 0;
 }
