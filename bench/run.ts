@@ -7,12 +7,14 @@ import { run as coreSuite } from './core.js';
 import { run as cvSuite } from './cv.js';
 import { run as surfaceSuite } from './surface.js';
 import { run as runnerSuite } from './runner.js';
+import { run as functionsSuite } from './functions.js';
 
 type Suite = (emit: (r: BenchRecord) => void, options: { quick: boolean }) => Promise<void> | void;
 const suites: [string, Suite][] = [['core', coreSuite]];
 suites.push(['cv', cvSuite]);
 suites.push(['surface', surfaceSuite]);
 suites.push(['runner', runnerSuite]);
+suites.push(['functions', functionsSuite]);
 
 const json = process.argv.includes('--json');
 const quick = process.argv.includes('--quick');

@@ -123,6 +123,11 @@ function dataCell(name: string, v: CellValueIn, pos: () => string): number {
   fail('NON_FINITE', name, `needs numbers or blanks; ${pos()} is ${describeCell(v)}`);
 }
 
+/** {@link dataCell} with the position computed only when a message needs it. */
+function slowCell(name: string, v: CellValueIn, rows: number, cols: number, r: number, c: number): number {
+  return dataCell(name, v, () => where(rows, cols, r, c));
+}
+
 /**
  * Reads a data argument as numbers (NaN for blanks), row by row. With `shape: 'line'` the range
  * must be a single column or row (or one cell); `'any'` accepts a 2-D range.
@@ -151,8 +156,17 @@ export function readVector(name: string, arg: CellArg, shape: 'line' | 'any' = '
   for (let r = 0; r < rows; r++) {
     const row = grid[r]!;
     for (let c = 0; c < cols; c++) {
-      const v = dataCell(name, row[c] as CellValueIn, () => where(rows, cols, r, c));
-      if (v !== v) blanks++;
+      const cellValue = row[c];
+      let v: number;
+      if (typeof cellValue === 'number') {
+        // Fast path for the common case; anything unusual goes through slowCell for its message.
+        // (No closure in this loop: capturing r or c would allocate a context per cell.)
+        const a = cellValue < 0 ? -cellValue : cellValue;
+        v = a <= MAX_MAGNITUDE && (a >= MIN_MAGNITUDE || a === 0) ? cellValue + 0 : slowCell(name, cellValue, rows, cols, r, c);
+      } else {
+        v = slowCell(name, cellValue as CellValueIn, rows, cols, r, c);
+        if (v !== v) blanks++;
+      }
       values[k++] = v;
     }
   }

@@ -65,6 +65,11 @@ let lastFit: (FitEntry & { generation: number }) | undefined;
 /** Bumped whenever the cache is cleared or resized, which invalidates {@link lastFit}. */
 let generation = 0;
 
+/** Changes whenever the caches are cleared or reconfigured (memos of earlier calls are then void). */
+export function cacheGeneration(): number {
+  return generation;
+}
+
 /** Empties the result cache. */
 export function clearCaches(): void {
   cache.clear();

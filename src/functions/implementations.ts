@@ -19,9 +19,9 @@ import {
   type TieRule,
   type CrossValidationResult,
 } from '../core/index.js';
-import { nonBlank, readChoice, readKnots, readScalar, readVector, toGrid, type Vector } from '../adapter/cells.js';
+import { MAX_MAGNITUDE, MIN_MAGNITUDE, nonBlank, readChoice, readKnots, readScalar, readVector, toGrid, type Vector } from '../adapter/cells.js';
 import type { CellArg, CellOut, CellResult, InvokeContext } from './types.js';
-import { cachedCrossValidation, cachedFit, renamed, type DataArgs, type FitEntry } from './engine.js';
+import { cacheGeneration, cachedCrossValidation, cachedFit, renamed, type DataArgs, type FitEntry } from './engine.js';
 
 
 const DIRECTIONS: ReadonlyMap<number, DirectionOption> = new Map<number, DirectionOption>([
@@ -93,11 +93,56 @@ export function FIT(args: readonly CellArg[]): CellResult {
   return finite('FIT', shaped(data.y, (i) => (at[i]! >= 0 ? fitted[at[i]!]! : '')));
 }
 
-/** RATCHET.PREDICT(new_xs, known_ys, known_xs, [knots], [direction], [weights]). */
+/** The model behind the previous PREDICT call and the argument objects it came from. */
+let lastPredict: { args: readonly CellArg[]; generation: number; knotX: Float64Array; knotY: Float64Array } | undefined;
+
+/** A single finite new x in the accepted range, or undefined (then the general path reads it). */
+function singleNumber(arg: CellArg): number | undefined {
+  let v: unknown = arg;
+  if (Array.isArray(arg)) {
+    if (arg.length !== 1) return undefined;
+    const row: unknown = arg[0];
+    if (!Array.isArray(row) || row.length !== 1) return undefined;
+    v = row[0];
+  }
+  if (typeof v !== 'number') return undefined;
+  const a = Math.abs(v);
+  return a <= MAX_MAGNITUDE && (a >= MIN_MAGNITUDE || a === 0) ? v : undefined;
+}
+
+/**
+ * RATCHET.PREDICT(new_xs, known_ys, known_xs, [knots], [direction], [weights]).
+ * Fast path: when the data and option arguments are the very objects (or equal scalars) of the
+ * previous call — a host reusing one value array per range — the model is reused without reading
+ * them again (arguments are never mutated after they are passed; see SheetFunction.invoke).
+ */
 export function PREDICT(args: readonly CellArg[]): CellResult {
+  let knotX: Float64Array;
+  let knotY: Float64Array;
+  const m = lastPredict;
+  if (
+    m !== undefined &&
+    m.generation === cacheGeneration() &&
+    Array.isArray(args[1]) &&
+    args[1] === m.args[1] &&
+    args[2] === m.args[2] &&
+    args[3] === m.args[3] &&
+    args[4] === m.args[4] &&
+    args[5] === m.args[5]
+  ) {
+    knotX = m.knotX;
+    knotY = m.knotY;
+  } else {
+    // Read new_xs first so its errors come first, as on the general path.
+    if (singleNumber(args[0]) === undefined) readVector('new_xs', args[0], 'any');
+    const { entry } = fitOf(args, 1);
+    knotX = entry.model.knotX;
+    knotY = entry.model.knotY;
+    lastPredict = Array.isArray(args[1]) && Array.isArray(args[2]) ? { args: args.slice(), generation: cacheGeneration(), knotX, knotY } : undefined;
+  }
+  const single = singleNumber(args[0]);
+  if (single !== undefined) return [[interpolateAt(knotX, knotY, single)]];
   const nx = readVector('new_xs', args[0], 'any');
-  const { entry } = fitOf(args, 1);
-  const { knotX, knotY } = entry.model;
   const v = nx.values;
   return finite(
     'PREDICT',

@@ -133,8 +133,11 @@ describe('text, logicals and numbers stored as text in data ranges', () => {
     expect(cell('FIT', YS, col(1, 2, Infinity, 4))).toEqual(err('#VALUE!', 'known_xs: needs finite numbers; cell 3 is Infinity.'));
     expect(cell('FIT', col(1, 2, -1e101, 4), XS)).toEqual(err('#VALUE!', 'known_ys: needs numbers of magnitude from 1e-300 to 1e100, or 0; cell 3 is -1e+101.'));
     expect(cell('FIT', col(1, 2, 1e-310, 4), XS)).toEqual(err('#VALUE!', 'known_ys: needs numbers of magnitude from 1e-300 to 1e100, or 0; cell 3 is 1e-310.'));
-    // The extremes that are accepted fit without overflow: (1e100 − 1e100)/2 = 0, (1e-300 + 0)/2 = 5e-301.
-    expect(cell('FIT', col(1e100, -1e100, 1e-300, 0), XS)).toEqual([[0], [0], [5e-301], [5e-301]]);
+    // The extremes that are accepted fit without overflow or underflow: (1e100 − 1e100)/2 = 0, and
+    // data of magnitude 1e-300 pool like any other: (3e-300 + 2e-300)/2 = 2.5e-300.
+    expect(cell('FIT', col(1e100, -1e100, 3e99, 1e100), XS)).toEqual([[0], [0], [3e99], [1e100]]);
+    const tiny = (cell('FIT', col(1e-300, 3e-300, 2e-300, 4e-300), XS) as number[][]).map((r) => r[0]!);
+    expect(tiny).toBeAllCloseRel([1e-300, 2.5e-300, 2.5e-300, 4e-300], 1e-12, 0);
   });
 });
 
