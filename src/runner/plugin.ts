@@ -166,6 +166,12 @@ function fromResult(r: CellResult, scalarCell: boolean): Internal {
   return SimpleRangeValue.onlyValues(r.map((row) => (row.length === d.cols ? [...row] : [...row, ...Array<string>(d.cols - row.length).fill('')])));
 }
 
+/** A block of `d` filled with one value (an error held for one pass while a result is re-sized). */
+function filled(d: Dims, v: CellError): Internal {
+  if (d.rows === 1 && d.cols === 1) return v;
+  return SimpleRangeValue.onlyValues(Array.from({ length: d.rows }, () => Array<CellError>(d.cols).fill(v)));
+}
+
 /** Message of the placeholder shown for one recalculation pass while a result is re-sized. */
 export const RESIZING_MESSAGE = 'The result changed size; the runner re-sizes it.';
 
@@ -229,9 +235,21 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
       if (!fn) return new CellError(ErrorType.NAME, `Unknown function ${ast.procedureName}.`);
       const sizing = sizingFor(this.dependencyGraph as unknown as object);
       sizing.calls++;
+      const key = `${cellKey(state)}|${astKey(ast)}`;
+      const reserved = sizing.reserved.get(key);
+      // An error fills one cell, as in Excel. Where an array was reserved, HyperFormula must not
+      // receive a bare error (an array holding an error breaks formulas that refer to exactly its
+      // range), so the reserved block is filled with the error for this pass and the cell is
+      // re-sized to one cell.
+      const errorOut = (err: CellError): Internal => {
+        sizing.learned.set(key, { rows: 1, cols: 1 });
+        if (reserved === undefined || (reserved.rows === 1 && reserved.cols === 1)) return err;
+        sizing.dirty.add(cellKey(state));
+        return filled(reserved, err);
+      };
       const asts = ast.args ?? [];
       if (asts.length > fn.params.length) {
-        return new CellError(ErrorType.NA, `${NAMESPACE}.${fn.name} takes at most ${fn.params.length} arguments; got ${asts.length}.`);
+        return errorOut(new CellError(ErrorType.NA, `${NAMESPACE}.${fn.name} takes at most ${fn.params.length} arguments; got ${asts.length}.`));
       }
       const argState = { ...state, arraysFlag: true };
       const args: CellArg[] = fn.params.map((_p, i) => {
@@ -240,11 +258,11 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
         const v = this.evaluateAst(a as never, argState as never) as Internal;
         const range = v instanceof SimpleRangeValue ? v.range : undefined;
         if (range === undefined) return toCellArg(v);
-        const key = `${range.start.sheet}:${range.start.row}:${range.start.col}:${range.end.row}:${range.end.col}`;
-        let arg = sizing.ranges.get(key);
+        const rk = `${range.start.sheet}:${range.start.row}:${range.start.col}:${range.end.row}:${range.end.col}`;
+        let arg = sizing.ranges.get(rk);
         if (arg === undefined) {
           arg = toCellArg(v);
-          sizing.ranges.set(key, arg);
+          sizing.ranges.set(rk, arg);
         }
         return arg;
       });
@@ -252,15 +270,13 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
       try {
         result = fn.invoke(args);
       } catch (e) {
-        return toHfError(toCellError(e));
+        return errorOut(toHfError(toCellError(e)));
       }
-      const key = `${cellKey(state)}|${astKey(ast)}`;
       const got = dimsOf(result);
       sizing.learned.set(key, got);
-      const reserved = sizing.reserved.get(key);
       if (reserved !== undefined && (reserved.rows !== got.rows || reserved.cols !== got.cols)) {
         sizing.dirty.add(cellKey(state));
-        if (got.rows > reserved.rows || got.cols > reserved.cols) return new CellError(ErrorType.ERROR, RESIZING_MESSAGE);
+        if (got.rows > reserved.rows || got.cols > reserved.cols) return filled(reserved, new CellError(ErrorType.ERROR, RESIZING_MESSAGE));
       }
       return fromResult(result, reserved !== undefined && reserved.rows === 1 && reserved.cols === 1);
     }

@@ -239,15 +239,14 @@ export class EvaluatedWorkbook {
    * Sets input cells (a formula when the text starts with "=") and recalculates everything that
    * depends on them, re-sizing array results. Typed and stored forms are both accepted.
    * @param changes "Sheet!A1" → value.
-   * @throws Error naming a malformed reference, an unknown sheet, or a cell inside a spilled result.
+   * A value typed into the area a result spills into blocks that result (#SPILL!), as in Excel.
+   * Cost: the recalculation of the cells that depend on the changes.
+   * @throws Error naming a malformed reference or an unknown sheet.
    */
   set(changes: Readonly<Record<string, InputValue>>): void {
     const entries = Object.entries(changes).map(([ref, v]) => {
       const addr = this.address(ref);
       const raw: RawCellContent = typeof v === 'string' ? (v.startsWith('=') ? `=${toTypedForm(v.slice(1))}` : `'${v}`) : v;
-      if (this.hf.isCellPartOfArray(addr) && this.hf.getCellFormula(addr) === undefined) {
-        throw new Error(`${ref}: the cell holds part of a spilled result; change the formula at the top-left of the result instead`);
-      }
       return { addr, raw, ref, v };
     });
     beginRecalculation(this.hf);

@@ -54,28 +54,32 @@ describe('npm run sheet', () => {
 
   it('--set changes an input before evaluation and --out writes a copy with values cached', async () => {
     const before = sha(SMALL);
+    const golden = JSON.parse(readFileSync(GOLDEN, 'utf8')) as Record<string, unknown>;
     const copy = join(tmp, 'copy.xlsx');
-    // y4 (B5) = 0: rising PAVA pools 2 4 … : y = 1 3 2 0 6 5 → 1, (3,2,0) → 5/3, (6,5) → 5.5.
-    const r = await cli([SMALL, '--json', '--set', 'Lab data!B5=0', '--out', copy]);
+    // y6 (B7) = 7: y = 1 3 2 4 6 7 → rising fit 1 2.5 2.5 4 6 7 (hand); no two neighbouring
+    // slopes are equal after x = 3, so the smallest knot table grows from 5 rows to 6.
+    const r = await cli([SMALL, '--json', '--set', 'Lab data!B7=7', '--out', copy]);
     expect(r.code).toBe(0);
     const json = JSON.parse(r.stdout) as Record<string, unknown>;
-    expect(json['Lab data!D3']).toBeCloseTo(5 / 3, 14);
-    expect(json['Lab data!D5']).toBeCloseTo(5 / 3, 14);
-    // The knot table shrinks to (1,1) (2,5/3) (4,5/3) (5,5.5) (6,5.5): four rows + one.
-    expect(json['Lab data!E6']).toBe(6);
-    expect(json['Lab data!E7']).toBeUndefined();
+    expect([json['Lab data!D6'], json['Lab data!D7']]).toEqual([6, 7]);
+    expect(golden['Lab data!E7']).toBeUndefined();
+    expect([json['Lab data!E6'], json['Lab data!F6'], json['Lab data!E7'], json['Lab data!F7']]).toEqual([5, 6, 6, 7]);
+    // The cross-validation rows change with the data (classic row: fold 2 now misses 4, 6, 7
+    // against 2.5 → SSE 2.25 + 12.25 + 20.25 = 34.75, plus 14 from fold 1).
+    expect(json['Lab data!L3']).toBeCloseTo(Math.sqrt((14 + 34.75) / 6), 14);
+    expect(json['Lab data!L3']).not.toBe(golden['Lab data!L3']);
     expect(sha(SMALL)).toBe(before);
 
     // The copy: formulas kept in the stored form, results cached, the new input written.
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.readFile(copy);
     const ws = wb.getWorksheet('Lab data')!;
-    expect(ws.getCell('B5').value).toBe(0);
+    expect(ws.getCell('B7').value).toBe(7);
     const d2 = ws.getCell('D2').value as { formula: string; shareType?: string; ref?: string; result?: number };
     expect(d2).toMatchObject({ formula: '_xldudf_RATCHET_FIT(B2:B8,A2:A8)', shareType: 'array', ref: 'D2:D8', result: 1 });
-    expect(ws.getCell('D3').value).toBeCloseTo(5 / 3, 14);
+    expect(ws.getCell('D7').value).toBe(7);
     const e2 = ws.getCell('E2').value as { formula: string; ref?: string };
-    expect(e2).toMatchObject({ formula: '_xldudf_RATCHET_KNOTS(B2:B8,A2:A8)', ref: 'E2:F6' });
+    expect(e2).toMatchObject({ formula: '_xldudf_RATCHET_KNOTS(B2:B8,A2:A8)', ref: 'E2:F7' });
     expect((ws.getCell('I2').value as { result?: unknown }).result).toEqual({ error: '#N/A' });
     // Evaluating the copy gives the same values as the run that wrote it.
     const again = await EvaluatedWorkbook.fromFile(copy);

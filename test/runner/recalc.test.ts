@@ -73,6 +73,27 @@ describe('recalculation in-process', () => {
     expect(closeBlock(b.result('D!D1'), [[1, 1], [2, 2], [3, 6.25], [6, 6.25]])).toBeUndefined();
   });
 
+  it('a spilled result that turns into an error shows it in one cell, also to formulas that refer to exactly its range', () => {
+    const b = book();
+    b.set({ 'D!T1': '=RATCHET.EVAL(2.5,D1:E2)', 'D!T2': '=RATCHET.EVAL(2.5,D1:E4)' });
+    expect([b.value('D!T1'), b.value('D!T2')]).toEqual([2.5, 2.5]);
+    b.set({ 'D!B3': 'x' }); // text in the data: KNOTS is #VALUE!, in D1 only
+    expect(b.result('D!D1')).toEqual([['#VALUE!']]);
+    expect(b.message('D!D1')).toContain('known_ys');
+    expect(b.block('D!D2', 1, 2)).toEqual([[null, null]]);
+    expect([b.value('D!T1'), b.value('D!T2')]).toEqual(['#VALUE!', '#VALUE!']);
+    b.set({ 'D!B3': 10 }); // four rows again: the exact reference to D1:E4 reads the new table
+    expect(b.result('D!D1')).toEqual([[1, 1], [2, 2], [3, 6.25], [6, 6.25]]);
+    expect(b.value('D!T2')).toBe(4.125);
+    b.set({ 'D!F4': 'note', 'D!B3': 3 }); // two rows, then a note where a wider result would go
+    expect(b.result('D!D1')).toEqual([[1, 1], [6, 6]]);
+    b.set({ 'D!E4': 'note', 'D!B3': 10 }); // four rows would cover E4: #SPILL!, seen by both references
+    expect(b.value('D!D1')).toBe('#SPILL!');
+    // A function may not return #SPILL!: the adapter reports the error cell as #VALUE! naming it.
+    expect([b.value('D!T1'), b.value('D!T2')]).toEqual(['#VALUE!', '#VALUE!']);
+    expect(b.message('D!T2')).toContain('#SPILL!');
+  });
+
   it('a formula set in-process is read in either form and evaluated', () => {
     const b = book();
     b.set({ 'D!S1': '=_xldudf_RATCHET_PREDICT(3.5,B1:B6,A1:A6)', 'D!S2': '=RATCHET.STATS(B1:B6,A1:A6)' });
@@ -81,10 +102,17 @@ describe('recalculation in-process', () => {
     expect(b.results().find((r) => r.cell === 'S1')?.formula).toBe('=RATCHET.PREDICT(3.5,B1:B6,A1:A6)');
   });
 
-  it('refuses to write into a spilled result and names the sheet it cannot find', () => {
+  it('a value typed into a spilled result blocks it (#SPILL!) until it is cleared, as in Excel', () => {
     const b = book();
-    expect(() => b.set({ 'D!E2': 5 })).toThrow('D!E2: the cell holds part of a spilled result');
-    expect(() => b.set({ 'Nope!A1': 5 })).toThrow('there is no sheet named "Nope"');
+    b.set({ 'D!E2': 5 });
+    expect(b.value('D!D1')).toBe('#SPILL!');
+    expect(b.value('D!E2')).toBe(5);
+    b.set({ 'D!E2': null });
+    expect(b.result('D!D1')).toEqual([[1, 1], [6, 6]]);
+  });
+
+  it('names a sheet it cannot find', () => {
+    expect(() => book().set({ 'Nope!A1': 5 })).toThrow('there is no sheet named "Nope"');
   });
 });
 
