@@ -12,7 +12,7 @@ export { isotonicRegression, type IsotonicFit } from './isotonic.js';
 export { evenKnots, quantileKnots, checkKnotCount, checkKnotPositions } from './knots.js';
 export { solveMonotoneTridiagonal, type MonotoneQpSolution } from './monotone-qp.js';
 export { knotRegression, type KnotFit, type KnotFitOptions } from './knot-fit.js';
-export { interpolate, interpolateAt, intervalIndex, lerp } from './interpolate.js';
+export { interpolate, interpolateAt, intervalIndex, lerp, share } from './interpolate.js';
 export { invertAt, invertChecked, checkKnotTable } from './invert.js';
 export { fitStatistics, type FitStatistics } from './statistics.js';
 export { fitMonotone, fitChecked, predict, checkKnotSpec, type ModelOptions, type MonotoneModel, type KnotSpec } from './model.js';
