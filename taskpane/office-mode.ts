@@ -255,6 +255,7 @@ export class OfficeData {
 
   /** Inserts one formula at the target cell (asks before writing over anything). */
   async insert(kind: FormulaKind): Promise<void> {
+    this.insertStatus('');
     const r = this.ranges;
     const view = this.app.currentFit();
     const formula = this.app.formula(kind);

@@ -39,20 +39,20 @@ const TYPES: Record<string, string> = {
 /**
  * Builds the preview into `outDir` (a fresh temporary folder by default) with the project's
  * webpack config restricted to the preview entry (the custom-functions metadata and the Office
- * page are not needed). `fast` (tests) skips source maps and type checking — `npm run typecheck`
+ * page are not needed; `pages` adds the Office page for tests). `fast` (tests) skips source maps and type checking — `npm run typecheck`
  * does that.
  */
-export async function buildPreview(outDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ratchet-preview-')), fast = false): Promise<string> {
+export async function buildPreview(outDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ratchet-preview-')), fast = false, pages: readonly ('preview' | 'taskpane')[] = ['preview']): Promise<string> {
   const { default: webpack } = await import('webpack');
   const configModule = (await import(pathToFileURL(path.join(root, 'webpack.config.js')).href)) as { default: (env: object, argv: object) => Promise<import('webpack').Configuration> };
   const config = await configModule.default({}, { mode: 'development' });
   const entry = config.entry as Record<string, string>;
-  config.entry = { preview: entry.preview! };
+  config.entry = Object.fromEntries(pages.map((p) => [p, entry[p]!]));
   config.plugins = (config.plugins ?? []).filter((p) => {
     const name = p?.constructor?.name;
     if (name === 'CustomFunctionsMetadataPlugin') return false;
     const filename = (p as { userOptions?: { filename?: string } }).userOptions?.filename;
-    return !(name === 'HtmlWebpackPlugin' && filename !== 'preview.html');
+    return !(name === 'HtmlWebpackPlugin' && !pages.some((q) => filename === `${q}.html`));
   });
   if (fast) {
     config.devtool = false;
@@ -88,7 +88,9 @@ export function startPreviewServer(dir: string, port = 0): Promise<PreviewServer
     let rel = decodeURIComponent(url.pathname);
     if (rel === '/' || rel === '') rel = '/preview.html';
     const file = path.resolve(base, `.${rel}`);
-    const headers = { 'Content-Security-Policy': PREVIEW_CSP, 'X-Content-Type-Options': 'nosniff', 'Cache-Control': 'no-store' };
+    // The Office page (taskpane.html, when a build holds it) keeps its own meta policy, which admits office.js.
+    const headers: Record<string, string> = { 'X-Content-Type-Options': 'nosniff', 'Cache-Control': 'no-store' };
+    if (path.basename(file) !== 'taskpane.html') headers['Content-Security-Policy'] = PREVIEW_CSP;
     if (!file.startsWith(base + path.sep) || !fs.existsSync(file) || !fs.statSync(file).isFile()) {
       res.writeHead(404, { ...headers, 'Content-Type': 'text/plain; charset=utf-8' });
       res.end('not found');

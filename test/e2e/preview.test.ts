@@ -68,8 +68,10 @@ async function setValue(page: Page, selector: string, value: string): Promise<vo
   await page.dispatchEvent(selector, 'change');
 }
 
+let dir: string | undefined;
+let server: PreviewServer | undefined;
+
 describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () => {
-  let server: PreviewServer | undefined;
   let context: BrowserContext;
   let page: Page;
   let userDataDir: string | undefined;
@@ -80,7 +82,7 @@ describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () 
     if (!fs.existsSync(CHROMIUM)) {
       throw new Error(`${CHROMIUM} is missing: install Debian's chromium (apt-get install chromium; .ci/run does) or set RATCHET_SKIP_E2E=1 to skip this file locally.`);
     }
-    const dir = await buildPreview(undefined, true);
+    dir = await buildPreview(undefined, true, ['preview', 'taskpane']);
     server = await startPreviewServer(dir, 0);
     userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ratchet-chromium-'));
     // A fresh profile in a temporary folder (playwright passes it as --user-data-dir).
@@ -103,7 +105,6 @@ describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () 
 
   afterAll(async () => {
     await context?.close();
-    await server?.close();
     if (userDataDir) fs.rmSync(userDataDir, { recursive: true, force: true });
   });
 
@@ -229,6 +230,131 @@ describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () 
     const outside = requests.filter((u) => !(u.startsWith(server!.url) || u.startsWith('data:') || u.startsWith('blob:')));
     expect(outside).toEqual([]);
     expect(requests.some((u) => u.includes('office.js'))).toBe(false);
+    expect(problems).toEqual([]);
+  });
+});
+
+/** The Excel side of the pane in a real browser, with office.js replaced by test/e2e/office-stub.js. */
+describe.skipIf(SKIP)('task pane in Excel mode (office.js stand-in)', () => {
+  let context: BrowserContext;
+  let page: Page;
+  let userDataDir: string | undefined;
+  const requests: string[] = [];
+  const problems: string[] = [];
+  const stub = fs.readFileSync(path.join(import.meta.dirname, 'office-stub.js'), 'utf8');
+  // Invented data: 12 rows on sheet "Trials", and a table "Assay" at D1:E7.
+  const x = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12];
+  const y = [2.1, 2.0, 3.4, 3.1, 4.8, 5.5, 5.2, 6.9, 7.4, 7.1, 8.8, 9.0];
+
+  beforeAll(async () => {
+    if (!fs.existsSync(CHROMIUM)) throw new Error(`${CHROMIUM} is missing (see the preview tests above).`);
+    if (!server) throw new Error('the preview build did not run');
+    userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ratchet-chromium-'));
+    context = await chromium.launchPersistentContext(userDataDir, {
+      executablePath: CHROMIUM,
+      headless: true,
+      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+      viewport: { width: 700, height: 1600 },
+    });
+    await context.route('https://appsforoffice.microsoft.com/**', (route) => route.fulfill({ status: 200, contentType: 'text/javascript', body: stub }));
+    context.on('request', (r) => requests.push(r.url()));
+    page = context.pages()[0] ?? (await context.newPage());
+    page.on('console', (m) => {
+      if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) problems.push(`console ${m.type()}: ${m.text()}`);
+    });
+    page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+    await page.goto(`${server.url}taskpane.html?_host_Info=Excel$Win32$16.01$en-US$$$$0`);
+    await page.waitForFunction(() => document.getElementById('host')?.textContent?.startsWith('Running in Excel'));
+    await page.evaluate(
+      ({ x, y }) => {
+        const s = (window as unknown as { __excelStub: { set(sh: string, a: string, v: unknown): void; addTable(n: string, sh: string, a: string, c: string[]): void } }).__excelStub;
+        s.set('Trials', 'A1', 'dose');
+        s.set('Trials', 'B1', 'response');
+        x.forEach((v, i) => s.set('Trials', `A${i + 2}`, v));
+        y.forEach((v, i) => s.set('Trials', `B${i + 2}`, v));
+        s.addTable('Assay', 'Trials', 'D1:E7', ['conc', 'signal [mV]']);
+        [0.5, 1, 2, 4, 8, 16].forEach((v, i) => {
+          s.set('Trials', `D${i + 2}`, v);
+          s.set('Trials', `E${i + 2}`, [0.11, 0.2, 0.43, 0.8, 1.52, 2.9][i]);
+        });
+      },
+      { x, y },
+    );
+  }, 60_000);
+
+  afterAll(async () => {
+    await context?.close();
+    await server?.close();
+    if (userDataDir) fs.rmSync(userDataDir, { recursive: true, force: true });
+  });
+
+  const stubCall = <T>(fn: string, ...args: unknown[]): Promise<T> =>
+    page.evaluate(({ fn, args }) => (window as unknown as { __excelStub: Record<string, (...a: unknown[]) => T> }).__excelStub[fn]!(...args), { fn, args });
+
+  it('reads the selection as x and y columns (header skipped) and charts the same fit as RATCHET.KNOTS', async () => {
+    await stubCall('select', 'Trials', 'A1:B13');
+    await page.click('#pick-columns');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().points.length === 12);
+    expect(await page.inputValue('#addr-x')).toBe('Trials!$A$2:$A$13');
+    expect(await page.inputValue('#addr-y')).toBe('Trials!$B$2:$B$13');
+    const s = await snap(page);
+    expect(s.mode).toBe('office');
+    const table = invoke('KNOTS', [y.map((v) => [v]), x.map((v) => [v]), 0, 1]) as number[][];
+    expect(s.curve).toEqual(table.map((r) => ({ x: r[0], y: r[1] })));
+  });
+
+  it('refreshes the chart when a cell of the chosen ranges changes (worksheet onChanged)', async () => {
+    await stubCall('set', 'Trials', 'B4', 9.5); // row 4 now lies far above its neighbours
+    expect(await stubCall<number>('change', 'Trials', 'B4')).toBe(1);
+    const y2 = y.slice();
+    y2[2] = 9.5;
+    const table = invoke('KNOTS', [y2.map((v) => [v]), x.map((v) => [v]), 0, 1]) as number[][];
+    await page.waitForFunction((n) => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().curve.length === n, table.length);
+    expect((await snap(page)).curve).toEqual(table.map((r) => ({ x: r[0], y: r[1] })));
+    // a change elsewhere on the sheet does not refit
+    await stubCall('set', 'Trials', 'Z1', 5);
+    await stubCall('change', 'Trials', 'Z1');
+  });
+
+  it('inserts a live KNOTS formula into an empty cell, and asks before writing over a value', async () => {
+    await page.fill('#target', 'Trials!H2');
+    await page.click('[data-insert="KNOTS"]');
+    await page.waitForFunction(() => /Inserted/.test(document.getElementById('insert-status')?.textContent ?? ''));
+    expect(await stubCall('get', 'Trials', 'H2')).toEqual({ value: '(formula)', formula: '=RATCHET.KNOTS(Trials!$B$2:$B$13,Trials!$A$2:$A$13,0,1)' });
+    // a value inside the 3 × 2 area of a 3-knot table
+    await setValue(page, '#knots', '3');
+    await stubCall('set', 'Trials', 'I4', 'note');
+    await page.click('[data-insert="KNOTS"]');
+    await page.waitForSelector('#confirm:not([hidden])');
+    expect(await page.textContent('#confirm-text')).toBe('The result needs 3 × 2 cells (Trials!H2:I4), but 2 are not empty: H2, I4. Overwrite them?');
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe('confirm-no');
+    fs.mkdirSync(resultsDir, { recursive: true });
+    await page.screenshot({ path: path.join(resultsDir, 'office-confirm.png'), fullPage: true });
+    await page.keyboard.press('Enter'); // "Keep the cells"
+    await page.waitForFunction(() => /Nothing was written/.test(document.getElementById('insert-status')?.textContent ?? ''));
+    expect(await stubCall('get', 'Trials', 'I4')).toEqual({ value: 'note' });
+    expect((await stubCall<{ formula: string }>('get', 'Trials', 'H2')).formula).toBe('=RATCHET.KNOTS(Trials!$B$2:$B$13,Trials!$A$2:$A$13,0,1)');
+    await page.click('[data-insert="KNOTS"]');
+    await page.click('#confirm-yes');
+    await page.waitForFunction(() => /Inserted/.test(document.getElementById('insert-status')?.textContent ?? ''));
+    expect((await stubCall<{ formula: string }>('get', 'Trials', 'H2')).formula).toBe('=RATCHET.KNOTS(Trials!$B$2:$B$13,Trials!$A$2:$A$13,3,1)');
+    expect(await stubCall('get', 'Trials', 'I4')).toBeNull();
+  });
+
+  it('refers to table columns by name when the ranges are an Excel table’s columns', async () => {
+    await page.fill('#addr-x', 'Trials!D2:D7');
+    await page.fill('#addr-y', 'Trials!E2:E7');
+    await page.click('#read-ranges');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().points.length === 6);
+    await page.fill('#target', 'Trials!K2');
+    await page.click('[data-insert="STATS"]');
+    await page.waitForFunction(() => /Inserted/.test(document.getElementById('insert-status')?.textContent ?? ''));
+    expect((await stubCall<{ formula: string }>('get', 'Trials', 'K2')).formula).toBe("=RATCHET.STATS(Assay[[signal '[mV']]],Assay[conc],3,1)");
+  });
+
+  it('requested office.js only because it is hosted (served by the stand-in), nothing else outside localhost, no errors', () => {
+    const outside = requests.filter((u) => !(u.startsWith(server!.url) || u.startsWith('data:') || u.startsWith('blob:')));
+    expect(outside).toEqual(['https://appsforoffice.microsoft.com/lib/1/hosted/office.js']);
     expect(problems).toEqual([]);
   });
 });
