@@ -12,8 +12,8 @@ const dir = join(import.meta.dirname, '..', 'samples');
 mkdirSync(dir, { recursive: true });
 const samples = buildSamples();
 for (const s of samples) {
-  await writeSampleWorkbook(s, join(dir, s.file));
-  console.log(`wrote samples/${s.file} (${s.formulas.length} formulas)`);
+  const written = await writeSampleWorkbook(s, join(dir, s.file));
+  console.log(`${written ? 'wrote' : 'unchanged'} samples/${s.file} (${s.formulas.length} formulas)`);
 }
 const expected = {
   about:

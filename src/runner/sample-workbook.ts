@@ -5,6 +5,7 @@
  * expected result, with the expected values cached, so the file shows numbers even before the
  * add-in recalculates it.
  */
+import { existsSync } from 'node:fs';
 import ExcelJS from 'exceljs';
 import { cellName, parseCellRef } from './address.js';
 import { toStoredForm } from './formula-text.js';
@@ -18,8 +19,21 @@ function cached(v: ExpectedCell): ExcelJS.CellValue {
   return v;
 }
 
-/** Writes `sample` to `path`. */
-export async function writeSampleWorkbook(sample: Sample, path: string): Promise<void> {
+/** Cell contents of every sheet, for telling whether a regenerated file differs in substance. */
+function contents(wb: ExcelJS.Workbook): string {
+  const out: string[] = [];
+  for (const ws of wb.worksheets) {
+    out.push(`#${ws.name}`);
+    ws.eachRow((row) => row.eachCell((c) => out.push(`${c.address}=${JSON.stringify(c.value)}`)));
+  }
+  return out.join('\n');
+}
+
+/**
+ * Writes `sample` to `path`, unless a file there already holds the same cells (zip timestamps
+ * would otherwise change the bytes on every run). Returns whether the file was written.
+ */
+export async function writeSampleWorkbook(sample: Sample, path: string): Promise<boolean> {
   const wb = new ExcelJS.Workbook();
   wb.creator = 'Ratchet samples (npm run samples)';
   wb.created = FIXED_DATE;
@@ -65,5 +79,17 @@ export async function writeSampleWorkbook(sample: Sample, path: string): Promise
     );
   }
   ws.views = [{ state: 'frozen', ySplit: 1 }];
+  if (existsSync(path)) {
+    const old = new ExcelJS.Workbook();
+    const fresh = new ExcelJS.Workbook();
+    try {
+      await old.xlsx.readFile(path);
+      await fresh.xlsx.load(await wb.xlsx.writeBuffer());
+      if (contents(old) === contents(fresh)) return false;
+    } catch {
+      // unreadable old file: write the new one
+    }
+  }
   await wb.xlsx.writeFile(path);
+  return true;
 }
