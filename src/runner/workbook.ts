@@ -41,13 +41,12 @@ export interface RunnerJson {
   messages: Record<string, string>;
 }
 
-/** Engine settings: Excel-like dynamic arrays, full precision in results. */
+/** Engine settings: Excel-like dynamic arrays, full precision in results, Excel serial dates (from 1 March 1900 on). */
 const HF_CONFIG = {
   licenseKey: 'gpl-v3',
   useArrayArithmetic: true,
   smartRounding: false,
   evaluateNullToZero: true,
-  leapYear1900: true,
   maxRows: 1048576,
   maxColumns: 16384,
 } as const;

@@ -131,3 +131,14 @@ describe('defined names', () => {
     expect(b.result('Lab data!D1')).toEqual([[1], [1.5], [2]]);
   });
 });
+
+describe('dates', () => {
+  it('date cells read as Excel serial days and agree with DATE() (2026-01-01 is day 46023 of the 1900 system, memory: 2025-01-01 is 45658)', async () => {
+    const { excelOf } = await import('./helpers.js');
+    const { EvaluatedWorkbook } = await import('../../src/runner/workbook.js');
+    const wb = excelOf({ S: { A1: { f: 'DATE(2026,1,1)' }, A2: { f: 'DATE(1900,3,1)' }, C1: { f: 'B1-A1' } } });
+    wb.getWorksheet('S')!.getCell('B1').value = new Date(Date.UTC(2026, 0, 31));
+    const b = EvaluatedWorkbook.fromExcel(wb);
+    expect([b.value('S!A1'), b.value('S!A2'), b.value('S!C1')]).toEqual([46023, 61, 30]);
+  });
+});
