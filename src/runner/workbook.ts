@@ -183,6 +183,8 @@ export class EvaluatedWorkbook {
       };
       ws.eachRow({ includeEmpty: false }, (row) => {
         row.eachCell({ includeEmpty: false }, (cell) => {
+          // Cells merged into another report the first cell's value; they are empty.
+          if (cell.isMerged && cell.master !== cell) return;
           const r = Number(cell.row) - 1;
           const c = Number(cell.col) - 1;
           const v = cell.value as ExcelJS.CellValue;

@@ -142,3 +142,14 @@ describe('dates', () => {
     expect([b.value('S!A1'), b.value('S!A2'), b.value('S!C1')]).toEqual([46023, 61, 30]);
   });
 });
+
+describe('merged cells', () => {
+  it('only the first cell of a merged range holds its value', async () => {
+    const { excelOf } = await import('./helpers.js');
+    const { EvaluatedWorkbook } = await import('../../src/runner/workbook.js');
+    const wb = excelOf({ S: { A1: 'Title over three columns', A2: 1, B2: 2, C2: 3, D1: { f: 'COUNTA(A1:C1)' } } });
+    wb.getWorksheet('S')!.mergeCells('A1:C1');
+    const b = EvaluatedWorkbook.fromExcel(wb);
+    expect(b.value('S!D1')).toBe(1);
+  });
+});
