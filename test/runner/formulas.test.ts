@@ -97,6 +97,7 @@ const ROWS: Row[] = [
   { what: 'EVAL of an array-constant table (hand)', setup: {}, formula: '=RATCHET.EVAL(2,{1,1;6,5})', expected: [[1.8]] },
   // ---- INVERT ----
   { what: 'INVERT, tie middle by default (hand)', setup: TABLE, formula: '=RATCHET.INVERT({2;4},D1:E3)', expected: [[1], [3]] },
+  { what: 'INVERT over a range larger than the table skips its empty rows (hand)', setup: TABLE, formula: '=RATCHET.INVERT(2,D1:E6)', expected: [[1]] },
   { what: 'INVERT, tie -1 lowest x of the flat stretch (hand)', setup: TABLE, formula: '=RATCHET.INVERT(4,D1:E3,-1)', expected: [[2]] },
   { what: 'INVERT, tie 1 highest x of the flat stretch (hand)', setup: TABLE, formula: '=RATCHET.INVERT(4,D1:E3,1)', expected: [[4]] },
   // ---- QKNOTS ----
