@@ -22,8 +22,9 @@ export interface FitStatistics {
 /**
  * Weighted fit statistics of `fitted` against `y`. Rows with weight 0 are ignored.
  *
- * Cost: O(n), four passes (two find power-of-two scales for y, w and the residuals, so that the
- * sums neither underflow for tiny y nor overflow for huge y or weights). Inputs are not modified;
+ * Cost: O(n), two passes; four when the plain sums would overflow (|y| or w near 1e308) or the
+ * squares underflow (1e-160-sized residuals), which are then taken on values scaled by powers of
+ * two so the results stay accurate. Inputs are not modified;
  * preconditions (same lengths, finite values, weights ≥ 0 with a positive total) are the
  * callers' — the fitting functions guarantee them.
  *
@@ -33,10 +34,56 @@ export interface FitStatistics {
  * @example fitStatistics([1, 2, 3, 4], [1, 2.5, 2.5, 4]).sse // → 0.5
  */
 export function fitStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w?: ArrayLike<number>): FitStatistics {
+  // Fast path: plain sums in two passes. They are exact enough unless a sum overflows (|y| or w
+  // near 1e308) or squares underflow (1e-160-sized residuals); both are detected from the sums
+  // themselves, and then the scaled path below recomputes everything.
   const n = y.length;
-  // All sums run on y and w scaled by powers of two (exact), so that neither the weighted mean nor
-  // the squares overflow for |y| or w near 1e308 or underflow for 1e-160-sized data (which would
-  // otherwise give R² as 0/0 or x/0, or Infinity for a mean).
+  let sw = 0;
+  let swy = 0;
+  let count = 0;
+  for (let i = 0; i < n; i++) {
+    const wi = w === undefined ? 1 : w[i]!;
+    if (wi > 0) {
+      sw += wi;
+      swy += wi * y[i]!;
+      count++;
+    }
+  }
+  const mean = swy / sw;
+  let sse = 0;
+  let sae = 0;
+  let sst = 0;
+  let sad = 0;
+  for (let i = 0; i < n; i++) {
+    const wi = w === undefined ? 1 : w[i]!;
+    if (wi > 0) {
+      const r = y[i]! - fitted[i]!;
+      sse += wi * r * r;
+      sae += wi * Math.abs(r);
+      const dev = y[i]! - mean;
+      sst += wi * dev * dev;
+      sad += wi * Math.abs(dev);
+    }
+  }
+  const safe =
+    Number.isFinite(sw) && Number.isFinite(sse) && Number.isFinite(sst) && Number.isFinite(sae) && Number.isFinite(sad) &&
+    (sae === 0 || sse > TINY) && (sad === 0 || sst > TINY);
+  if (!safe) return scaledStatistics(y, fitted, w, count);
+  // R² below the range of doubles (an awful fit of near-constant y) is reported as −MAX_VALUE.
+  const r2 = sst > 0 ? Math.max(1 - sse / sst, -Number.MAX_VALUE) : sse === 0 ? 1 : 0;
+  return { n: count, sse, rmse: Math.sqrt(sse / sw), mae: sae / sw, r2 };
+}
+
+/** Sums of squares below this (2^-800) may have lost precision to underflow. */
+const TINY = 2 ** -800;
+
+/**
+ * {@link fitStatistics} with every sum taken on y, w and the residuals scaled by powers of two
+ * (exact), so that neither the weighted mean nor the squares overflow for |y| or w near 1e308 nor
+ * underflow for 1e-160-sized data. Four passes; used only when the plain sums are unsafe.
+ */
+function scaledStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w: ArrayLike<number> | undefined, count: number): FitStatistics {
+  const n = y.length;
   let maxW = 0;
   let maxY = 0;
   for (let i = 0; i < n; i++) {
@@ -52,13 +99,11 @@ export function fitStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w
   const yScale = 2 ** -yExp;
   let sw = 0;
   let swy = 0;
-  let count = 0;
   for (let i = 0; i < n; i++) {
     const wi = (w === undefined ? 1 : w[i]!) * wScale;
     if (wi > 0) {
       sw += wi;
       swy += wi * (y[i]! * yScale);
-      count++;
     }
   }
   const mean = (swy / sw) * 2 ** yExp;
@@ -84,7 +129,6 @@ export function fitStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w
       sst += wi * dev * dev;
     }
   }
-  // R² below the range of doubles (an awful fit of near-constant y) is reported as −MAX_VALUE.
   const r2 = sst > 0 ? Math.max(1 - sse / sst, -Number.MAX_VALUE) : sse === 0 ? 1 : 0;
   // Scale back by 2^exponent in two steps (2^exponent itself may exceed the largest double). SSE
   // may exceed it for huge y: then it is +Infinity, the true value rounded.
