@@ -46,7 +46,8 @@ export interface IsotonicFit {
  * Edge cases: tied x values are pooled first (one fitted value per distinct x, the weighted mean
  * of its y with summed weight). Rows with weight 0 get the curve's value at their x (linear
  * interpolation between the positive-weight points, flat beyond them) and do not influence the
- * fit. Constant y gives a constant fit. Inputs are never modified.
+ * fit. Constant y gives a constant fit. y and weights near 1e±300 are handled by exact power-of-two
+ * rescaling (no overflow in the pooled sums). Inputs are never modified.
  *
  * @param x predictor values, finite, length n.
  * @param y responses, finite, length n.

@@ -71,7 +71,8 @@ export interface KnotFit {
  * Edge cases: ties in x need no pooling (each row enters H on its own). Rows with weight 0 get
  * f(x) but have no influence. Rows outside explicit knots are fitted by the flat end values.
  * K = 2 with knots at min and max x spans every line on that interval: when the least-squares line
- * has slope ≥ 0, the up-fit is that line. Inputs are never modified.
+ * has slope ≥ 0, the up-fit is that line. x, y or weights near 1e±300 (sums that would overflow or
+ * underflow) are fitted after exact power-of-two rescaling. Inputs are never modified.
  *
  * @param x predictor values, finite, length n.
  * @param y responses, finite, length n.

@@ -23,7 +23,11 @@ export interface MonotoneQpSolution {
  * steps to subproblem minimisers, adds a blocking constraint when a step would break the order,
  * and drops the constraint with the most negative multiplier when the subproblem is solved. With
  * g = c − Hθ, the multiplier of the constraint between k and k+1 inside a group starting at s is
- * λ_k = Σ_{i=s..k} g_i (from the right end for a group anchored at the lower bound).
+ * λ_k = Σ_{i=s..k} g_i (from the right end for a group anchored at the lower bound). A multiplier
+ * counts as negative below −1e-13·m·max|cᵢ|, |(Hθ)ᵢ| — a tolerance in the units of the multipliers,
+ * so scaling c (or H and c together) by a power of two scales the answer exactly. The ratio test
+ * only lets a constraint block when the candidate itself breaks it, and then even at a ratio that
+ * rounds to 1, so the answer satisfies every constraint exactly.
  *
  * Cost: O(m) per iteration; the number of iterations is finite and in practice a small multiple
  * of the number of groups in the answer. Memory O(m).
