@@ -338,7 +338,7 @@ export class App {
         `Suggested knot count: ${b === 0 ? '0 (classic fit)' : b} by the ${rule === 1 ? 'one-standard-error rule' : 'minimum cv_rmse'}` +
           (r ? ` (cv_rmse ${fmt(r.cvRmse)} ± ${fmt(r.cvSe)})` : '') +
           `; ${rows.length} candidates, ${cv.folds} folds × ${cv.repeats} repeat${cv.repeats === 1 ? '' : 's'}, ${ms} ms.` +
-          (sel.data.x.length < 30 ? ' Few points: this choice is noisy.' : ''),
+          ((this.view?.points.length ?? 0) < 30 ? ' Few points: this choice is noisy.' : ''),
       );
       el<HTMLButtonElement>('use-suggestion').disabled = false;
     } catch (e) {

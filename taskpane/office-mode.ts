@@ -12,7 +12,6 @@ import { absoluteRef, areaSize, intersects, parseAddress, tableColumnRef, type A
 import { insertFormula, type Confirm } from './insert.js';
 import { spillSize, type FormulaKind } from './formulas.js';
 import { candidateCount } from './analysis.js';
-import { defaultCandidates } from '../src/core/index.js';
 
 function el<T extends HTMLElement>(id: string): T {
   return document.getElementById(id) as T;
@@ -209,8 +208,16 @@ export class OfficeData {
     const r = this.ranges;
     if (!r) return;
     const sheets = new Set([r.x.area.sheet, r.y.area.sheet, ...(r.w ? [r.w.area.sheet] : [])].filter((s): s is string => s !== undefined));
+    // A handler is removed through the request context it was added with.
+    for (const h of old) {
+      try {
+        h.remove();
+        await h.context.sync();
+      } catch {
+        // the sheet may be gone; nothing left to remove
+      }
+    }
     await Excel.run(async (context) => {
-      for (const h of old) h.remove();
       for (const name of sheets) {
         const ws = context.workbook.worksheets.getItem(name);
         this.handlers.push(ws.onChanged.add((e) => this.changed(e)));
@@ -274,14 +281,10 @@ export class OfficeData {
     if (nx !== '') newXs = areaSize(parseAddress(nx));
     const size = spillSize(kind, {
       knotRows: view.knots.length,
-      candidates: cv.candidates === undefined ? defaultCandidatesOf(view) : candidateCount(view, cv),
+      candidates: candidateCount(view, cv),
       newXs,
     });
     const outcome = await insertFormula(Excel, { formula, target, rows: size.rows, cols: size.cols, inputs: [r.x.area, r.y.area, ...(r.w ? [r.w.area] : [])] }, this.confirm);
     this.insertStatus(outcome.message, !outcome.written);
   }
-}
-
-function defaultCandidatesOf(view: { points: { x: number }[] }): number {
-  return defaultCandidates(view.points.map((p) => p.x)).length;
 }

@@ -129,7 +129,15 @@ async function main(): Promise<void> {
   let dir = opt('--dir');
   if (dir === undefined) {
     process.stdout.write('Building the preview…\n');
-    dir = await buildPreview();
+    const built = await buildPreview();
+    dir = built;
+    // The build lives in a temporary folder: remove it when the server stops.
+    for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+      process.once(signal, () => {
+        fs.rmSync(built, { recursive: true, force: true });
+        process.exit(0);
+      });
+    }
   }
   const s = await startPreviewServer(dir, port);
   process.stdout.write(`Ratchet preview: ${s.url}  (serving ${dir}; Ctrl+C to stop)\n`);

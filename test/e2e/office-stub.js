@@ -69,6 +69,7 @@
           add(h) {
             handlers.push(h);
             return {
+              context,
               remove() {
                 const i = handlers.indexOf(h);
                 if (i >= 0) handlers.splice(i, 1);
