@@ -287,6 +287,9 @@ function denseSolve(M: Float64Array, b: Float64Array, G: number): boolean {
   return true;
 }
 
+/** Over-relaxation factor of the ADMM sweeps (1 = plain ADMM; 1.5–1.8 is the usual range). */
+const RELAX = 1.6;
+
 /** Largest group count solved with a dense Cholesky factor (G² ≤ 1,000 values). */
 const DENSE_GROUPS = 31;
 
@@ -708,7 +711,7 @@ function chainMultipliers(
 /**
  * ADMM for the lattice QP (Boyd et al. 2011, Foundations and Trends in Machine Learning 3(1)) with
  * the splitting θ = z₁ = z₂, z₁ monotone along x1, z₂ along x2, in the metric of D = diag(H)
- * (floored at 1% of its mean). Steps: (H + 2ρD)θ = c + ρD(z₁ − u₁ + z₂ − u₂) by warm-started
+ * (floored at its mean, so nodes with little or no data still move with their neighbours). Steps: (H + 2ρD)θ = c + ρD(z₁ − u₁ + z₂ − u₂) by warm-started
  * Jacobi-PCG on the stencil; z₁, z₂ by weighted PAVA (weights D) on every row and column; dual
  * updates; ρ balanced every 25 sweeps (factor 2 when one residual exceeds 10× the other).
  *
@@ -744,7 +747,7 @@ export function admmLattice(
   let mean = 0;
   for (let p = 0; p < N; p++) mean += stencil[9 * p + 4]!;
   mean /= N;
-  for (let p = 0; p < N; p++) D[p] = Math.max(stencil[9 * p + 4]!, 0.01 * mean);
+  for (let p = 0; p < N; p++) D[p] = Math.max(stencil[9 * p + 4]!, mean);
   let rho = 1;
   const theta = new Float64Array(N);
   const z1 = new Float64Array(N);
@@ -753,6 +756,8 @@ export function admmLattice(
   const u2 = new Float64Array(N);
   const z1old = new Float64Array(N);
   const z2old = new Float64Array(N);
+  const r1 = new Float64Array(N);
+  const r2 = new Float64Array(N);
   const b = new Float64Array(N);
   const diag = new Float64Array(N);
   const hv = new Float64Array(N);
@@ -779,19 +784,22 @@ export function admmLattice(
     pcg(apply, diag, b, theta, 1e-12, 200, work);
     z1old.set(z1);
     z2old.set(z2);
+    // Over-relaxation (Boyd et al. 2011, §3.4.3): θ̂ = αθ + (1 − α)z_old with α = RELAX.
     for (let p = 0; p < N; p++) {
-      z1[p] = theta[p]! + u1[p]!;
-      z2[p] = theta[p]! + u2[p]!;
+      r1[p] = RELAX * theta[p]! + (1 - RELAX) * z1old[p]!;
+      r2[p] = RELAX * theta[p]! + (1 - RELAX) * z2old[p]!;
+      z1[p] = r1[p]! + u1[p]!;
+      z2[p] = r2[p]! + u2[p]!;
     }
     projectChains(z1, D, k1, k2, 1, d1, bufY, bufW);
     projectChains(z2, D, k1, k2, 2, d2, bufY, bufW);
     let rp = 0;
     let rd = 0;
     for (let p = 0; p < N; p++) {
+      u1[p] = u1[p]! + r1[p]! - z1[p]!;
+      u2[p] = u2[p]! + r2[p]! - z2[p]!;
       const a = theta[p]! - z1[p]!;
       const c = theta[p]! - z2[p]!;
-      u1[p] = u1[p]! + a;
-      u2[p] = u2[p]! + c;
       rp += D[p]! * (a * a + c * c);
       const s = z1[p]! - z1old[p]! + z2[p]! - z2old[p]!;
       rd += D[p]! * s * s;

@@ -28,6 +28,10 @@ export const SURFACE_MAX_NODES = 40000;
 export const SURFACE_EXACT_NODES = 400;
 /** Lattices above this many nodes get an ADMM warm start before the exact method. */
 const WARM_START_NODES = 64;
+/** Sweep cap of ADMM (beyond it: NUMERICAL, "use fewer knots"). */
+const MAX_SWEEPS = 10000;
+/** Above this many nodes, a lattice whose data touch at most 400 nodes skips the warm start. */
+const COLD_START_NODES = 2500;
 /** Iteration cap of the exact method after a converged warm start (beyond it, ADMM's answer stands). */
 const POLISH_ITERATIONS = 400;
 /** Relative size of the roughness tie-break that makes the optimum unique. */
@@ -129,7 +133,8 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  *    fitted values then agree with the untied optimum to about 1e-12 relative, and the active-set
  *    method runs on the whole lattice.
  * Lattices above 64 nodes first run ADMM ({@link admmLattice}: weighted pool-adjacent-violators on
- * every row and column, CG on the stencil) until the optimality conditions hold to `tolerance` —
+ * every row and column, CG on the stencil; skipped for lattices above 2,500 nodes of which at most
+ * 400 are identified, where route 1 alone is cheaper) until the optimality conditions hold to `tolerance` —
  * stationarity max|Hθ − c − Aᵀλ| ≤ tol·max(‖c‖∞, ‖Hθ‖∞) with multipliers λ ≥ 0, and
  * complementarity Σλₑ(Aθ)ₑ ≤ tol · (weighted total sum of squares of y), at an exactly feasible θ.
  * Its answer warm-starts the exact method (edges it holds tight form the first working set), which
@@ -143,8 +148,10 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  * lattice monotone and does not change the fitted values at the data.
  *
  * Cost: O(n log K + K1K2) to set up; ADMM O(9·K1K2) per CG step, a few steps per sweep, hundreds
- * of sweeps; the exact method a CG solve (or a ≤ 31 × 31 Cholesky) per iteration. Measured on this
- * machine: 30 × 30 lattice over 10⁴ rows and 10 × 10 over 10⁵ rows well under 1 s (bench/surface.ts).
+ * of sweeps (at most 10,000, then NUMERICAL "use fewer knots"); the exact method a CG solve (or a
+ * ≤ 31 × 31 Cholesky) per iteration. Measured on this machine (bench/surface.ts, loaded 2 cores):
+ * a 30 × 30 lattice over 10⁴ rows in 0.2–0.6 s, 10 × 10 over 10⁵ rows in 0.03–0.1 s; lattices of
+ * 60 × 60 and more can take seconds, 100 × 100 over 2·10⁴ rows about 30 s.
  *
  * Edge cases: ties in (x1, x2) need no pooling. Rows with weight 0 get f(x) but no influence. Rows
  * outside explicit knots are fitted by the flat edge values. Constant y gives a constant surface.
@@ -288,12 +295,14 @@ export function surfaceChecked(
   // ADMM on the whole lattice: the answer for large lattices and a warm start for the exact method.
   if (!(determined && M === N)) addTieBreak(sys, t1, t2, TIE_BREAK);
   const edges = latticeEdges(k1, k2, d1, d2);
-  const approx = N > WARM_START_NODES && edges.lo.length > 0 ? admmLattice(sys, edges, d1, d2, scaleSS, tol, 20000, false) : null;
+  // (Skipped when few identified nodes sit in a large lattice: the exact method on them alone is cheaper.)
+  const compactCold = determined && M <= SURFACE_EXACT_NODES && N > COLD_START_NODES;
+  const approx = N > WARM_START_NODES && edges.lo.length > 0 && !compactCold ? admmLattice(sys, edges, d1, d2, scaleSS, tol, MAX_SWEEPS, false) : null;
   const approxOk = approx !== null && approx.certificate.stationarity <= tol && approx.certificate.complementarity <= tol;
   const exactLimit = approxOk ? POLISH_ITERATIONS : undefined;
   let sol: LatticeSolution | null = null;
   let theta: Float64Array | null = null;
-  if (determined && (M <= SURFACE_EXACT_NODES || approxOk)) {
+  if (determined && (M <= SURFACE_EXACT_NODES || (approxOk && M === N))) {
     // Exact: the identified nodes alone, under the order the lattice induces on them.
     const rhs = new Float64Array(M);
     const warm = approx ? new Float64Array(M) : undefined;
