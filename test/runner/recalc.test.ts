@@ -94,6 +94,16 @@ describe('recalculation in-process', () => {
     expect(b.message('D!T2')).toContain('#SPILL!');
   });
 
+  it('built-ins around a RATCHET array follow its size (TRANSPOSE, arithmetic)', () => {
+    const b = book();
+    b.set({ 'D!A10': '=TRANSPOSE(RATCHET.KNOTS(B1:B6,A1:A6))', 'D!A13': '=RATCHET.KNOTS(B1:B6,A1:A6)*2' });
+    expect(b.result('D!A10')).toEqual([[1, 6], [1, 6]]);
+    expect(b.result('D!A13')).toEqual([[2, 2], [12, 12]]);
+    b.set({ 'D!B3': 10 });
+    expect(b.result('D!A10')).toEqual([[1, 2, 3, 6], [1, 2, 6.25, 6.25]]);
+    expect(b.result('D!A13')).toEqual([[2, 2], [4, 4], [6, 12.5], [12, 12.5]]);
+  });
+
   it('a formula set in-process is read in either form and evaluated', () => {
     const b = book();
     b.set({ 'D!S1': '=_xldudf_RATCHET_PREDICT(3.5,B1:B6,A1:A6)', 'D!S2': '=RATCHET.STATS(B1:B6,A1:A6)' });
