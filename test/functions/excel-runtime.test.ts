@@ -148,6 +148,32 @@ describe('long work runs in the worker and can be cancelled', () => {
     await expect(entry.crossValidation(y, x, [[2]], 4, 1, 0)).resolves.toHaveLength(2);
     expect(client.stats.started).toBe(2);
   });
+  it('in process (runner, task pane) CV honours an AbortSignal and reports progress', async () => {
+    const { functionByName } = await import('../../src/functions/registry.js');
+    const { mapError } = await import('../../src/adapter/errors.js');
+    const controller = new AbortController();
+    controller.abort();
+    let thrown: unknown;
+    try {
+      functionByName('CV')!.invoke([y, x, [[2], [3]], 4, 1, 5], { signal: controller.signal });
+    } catch (e) {
+      thrown = e;
+    }
+    expect(mapError(thrown)).toEqual({ code: '#N/A', message: 'calculation cancelled.' });
+    const seen: number[] = [];
+    functionByName('CV')!.invoke([y, x, [[2], [3]], 4, 1, 5], { onProgress: (f) => seen.push(f) });
+    expect(seen.length).toBe(8); // 2 candidates × 4 folds
+    expect(seen[seen.length - 1]).toBe(1);
+  });
+  it('the worker forwards progress messages to the caller (task pane progress bar)', async () => {
+    const client = new WorkerClient(() => inProcessWorker());
+    const seen: number[] = [];
+    const table = (await client.run('cv', 'CV', [y, x, [[2], [3]], 4, 1, 9], { onProgress: (f) => seen.push(f) })) as unknown[][];
+    expect(table).toHaveLength(3);
+    expect(seen).toHaveLength(8);
+    expect(seen[7]).toBe(1);
+    client.dispose();
+  });
   it('fits whose largest argument exceeds the cell threshold go to the fit lane', async () => {
     const client = new WorkerClient(() => inProcessWorker());
     entry.setWorkerClient(client);
