@@ -27,7 +27,11 @@ import { WorkerClient, inProcessWorker, type WorkerLike } from './worker-client.
 /** Calls whose largest argument has more cells than this run in the worker (≈ 20 ms of fitting). */
 export const WORKER_CELL_THRESHOLD = 50_000;
 
-/** Reads a range's value types in the shared runtime. */
+/**
+ * Reads a range's value types in the shared runtime. Reading workbook data from a custom function
+ * is supported only in a shared runtime, and a custom function must not change other cells
+ * (Microsoft Learn, "Call Excel JavaScript APIs from a custom function"); this only loads.
+ */
 export const readValueTypes: ValueTypeReader = (sheet, range) =>
   Excel.run(async (context) => {
     const r = context.workbook.worksheets.getItem(sheet).getRange(range);
