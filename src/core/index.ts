@@ -22,6 +22,6 @@ export { foldSizes, repeatState, seededPermutation, kFoldAssignment, checkFolds,
 export { suggestKnots, type SuggestionRule, type Suggestion, type ScoreForSuggestion } from './suggest-knots.js';
 export { crossValidate, holdoutValidate, defaultCandidates, type CrossValidationOptions, type CrossValidationResult, type CandidateScore, type HoldoutOptions, type KnotPlacement } from './cross-validate.js';
 export { fitSurface, surfaceChecked, predictSurface, checkSurfaceKnots, checkAxisDirection, SURFACE_MAX_NODES, SURFACE_EXACT_NODES, type SurfaceOptions, type SurfaceModel, type SurfaceKnotSpec, type AxisDirection, type OptimalityCertificate } from './surface.js';
-export { latticeEdges, latticeCertificate, kktCertificate, orderEnvelopeMean, activeSetSparse, admmLattice, inducedOrder, stencilToSparse, applySparse, sparsePositiveDefinite, type LatticeEdges, type LatticeSolution, type SparseSymmetric } from './surface-solve.js';
-export { locate, locateOnAxis, evaluateLattice, assembleLattice, addTieBreak, applyStencil, type LatticeSystem, type LatticeLocation } from './surface-lattice.js';
+export { latticeEdges, orderEnvelopeMean, admmLattice, inducedOrder, type LatticeEdges, type LatticeSolution } from './surface-solve.js';
+export { locate, evaluateLattice, assembleLattice, type LatticeSystem, type LatticeLocation } from './surface-lattice.js';
 export { crossValidateSurface, suggestSurfaceKnots, type SurfaceCrossValidationOptions, type SurfaceCrossValidationResult, type SurfaceCandidateScore, type SurfaceSuggestion } from './surface-cv.js';

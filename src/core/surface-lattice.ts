@@ -44,7 +44,11 @@ export function locateOnAxis(t: Float64Array, x: number): [number, number] {
   return [lo, (x - t[lo]!) / (t[lo + 1]! - t[lo]!)];
 }
 
-/** Cell and shares of every (x1, x2) pair on knots t1 × t2 (x clamped to the lattice). O(n log K). */
+/**
+ * Cell and shares of every (x1, x2) pair on knots t1 × t2 (each x clamped to its knot range).
+ * Cost O(n log K). Preconditions: strictly increasing finite knots (≥ 2 each), finite x.
+ * @example locate(Float64Array.from([0, 2]), Float64Array.from([0, 1]), [1], [5]) // → node [0], u1 [0.5], u2 [1]
+ */
 export function locate(t1: Float64Array, t2: Float64Array, x1: ArrayLike<number>, x2: ArrayLike<number>): LatticeLocation {
   const n = x1.length;
   const k1 = t1.length;
@@ -61,7 +65,12 @@ export function locate(t1: Float64Array, t2: Float64Array, x1: ArrayLike<number>
   return { node, u1, u2 };
 }
 
-/** Bilinear value of lattice `values` (layout p = b·K1 + a) at located rows. O(n). */
+/**
+ * Bilinear value of lattice `values` (layout p = b·K1 + a) at located rows: linear along x1 on the
+ * lower and upper edge of the cell, then linear along x2 between them. O(n).
+ * @example evaluateLattice([1, 2, 3, 4], 2, { node: Int32Array.from([0]), u1: Float64Array.from([0.5]), u2: Float64Array.from([0.5]) })
+ *   // → Float64Array [2.5]
+ */
 export function evaluateLattice(values: ArrayLike<number>, k1: number, loc: LatticeLocation): Float64Array {
   const n = loc.node.length;
   const out = new Float64Array(n);
@@ -82,7 +91,10 @@ export function evaluateLattice(values: ArrayLike<number>, k1: number, loc: Latt
 
 /**
  * Assembles H = BᵀWB and BᵀWy in one pass over the rows (16 stencil updates per row), where B is
- * the n × K1K2 bilinear basis. Rows with weight 0 are skipped. O(n + K1K2) time and memory.
+ * the n × K1K2 bilinear basis. Rows with weight 0 are skipped (they get no share of H). O(n + K1K2)
+ * time and memory; no n × K1K2 matrix. Preconditions: finite y, weights ≥ 0, `loc` from {@link locate}.
+ * @example assembleLattice(2, 1, { node: Int32Array.from([0]), u1: Float64Array.from([0.5]), u2: Float64Array.from([0]) },
+ *   Float64Array.from([4]), Float64Array.from([1])).rhs // → Float64Array [2, 2]
  */
 export function assembleLattice(k1: number, k2: number, loc: LatticeLocation, y: Float64Array, w: Float64Array): LatticeSystem {
   const N = k1 * k2;

@@ -45,7 +45,12 @@ export interface LatticeSolution {
   readonly certificate: OptimalityCertificate;
 }
 
-/** Edges of the lattice order for the two directions. O(K1K2). */
+/**
+ * Edges of the lattice order for the two directions: along x1 every (a, b)–(a + 1, b) pair, along
+ * x2 every (a, b)–(a, b + 1) pair, oriented so that θ[hi] ≥ θ[lo]; none along a `'none'` axis.
+ * Cost O(K1K2). Preconditions: K1, K2 ≥ 1 whole numbers (not checked).
+ * @example latticeEdges(2, 2, 'up', 'down') // → lo Int32Array [0, 2, 3, 2], hi Int32Array [1, 0, 1, 3]
+ */
 export function latticeEdges(k1: number, k2: number, d1: AxisDirection, d2: AxisDirection): LatticeEdges {
   const lo: number[] = [];
   const hi: number[] = [];
@@ -494,6 +499,10 @@ export function activeSetSparse(
  * index): one edge per covering pair p < q — q above p along both constrained axes (equal along an
  * unconstrained one) with no member strictly between. Keeps every order relation among the members
  * that passes through left-out nodes. O(m² log m) for m members.
+ *
+ * @param k1 knots along x1 (node p sits at a = p mod K1, b = ⌊p / K1⌋).
+ * @param nodes the members, ascending node indices; edges use their positions in this list.
+ * @example inducedOrder(3, 'up', 'up', Int32Array.from([0, 2, 4])) // → lo Int32Array [0, 0], hi Int32Array [2, 1]
  */
 export function inducedOrder(k1: number, d1: AxisDirection, d2: AxisDirection, nodes: Int32Array): LatticeEdges {
   const m = nodes.length;
@@ -600,7 +609,14 @@ function forestMultipliers(N: number, edges: LatticeEdges, inW: Uint8Array, grad
  * maximum over the lower set of each node) and largest monotone minorant (running minimum over
  * the upper set). Moves each value by at most the largest order violation. When `mask` is given,
  * only masked nodes enter the envelopes, and nodes with no masked node below (above) use the
- * smallest (largest) masked value: this is the fill of unidentified nodes. O(K1K2).
+ * smallest (largest) masked value: this is the fill of unidentified nodes. Masked nodes keep their
+ * values exactly when they already respect the order among themselves. Cost O(K1K2), two sweeps.
+ *
+ * @param theta lattice values, layout b·K1 + a; not modified.
+ * @param mask optional 0/1 per node; without it every node counts.
+ * @example orderEnvelopeMean(Float64Array.from([3, 1]), 2, 1, 'up', 'none') // → Float64Array [2, 2]
+ * @example orderEnvelopeMean(Float64Array.from([1, 2, 0, 3, 5, 0]), 3, 2, 'up', 'up', Uint8Array.from([1, 1, 0, 1, 1, 0]))
+ *   // → Float64Array [1, 2, 3.5, 3, 5, 5]
  */
 export function orderEnvelopeMean(
   theta: Float64Array,

@@ -91,7 +91,12 @@ export interface SurfaceModel {
 /** Validated knot option of one axis: 0 (every distinct level), a count, or positions. */
 export type SurfaceKnotSpec = 0 | number | Float64Array;
 
-/** Validates a knots option of one axis. @throws RatchetError BAD_KNOTS, NON_FINITE. */
+/**
+ * Validates a knots option of one axis: absent, null or 0 → 0 (every distinct level); a whole number
+ * 2 … 200 → that count; a list → strictly increasing finite positions (≥ 2, copied). O(K).
+ * @throws RatchetError BAD_KNOTS (count outside 2 … 200 or not whole, positions not increasing), NON_FINITE.
+ * @example checkSurfaceKnots(undefined, 'knots1') // → 0; checkSurfaceKnots([1, 3], 'knots2') → Float64Array [1, 3]
+ */
 export function checkSurfaceKnots(knots: number | ArrayLike<number> | undefined | null, name: string): SurfaceKnotSpec {
   if (knots === undefined || knots === null || knots === 0) return 0;
   if (typeof knots === 'number') return checkKnotCount(knots, name, 200);
@@ -99,7 +104,11 @@ export function checkSurfaceKnots(knots: number | ArrayLike<number> | undefined 
   return checkKnotPositions(knots, name);
 }
 
-/** Validates a direction of one axis. @throws RatchetError BAD_OPTION. */
+/**
+ * Validates a direction of one axis: absent → `'up'`; `'up'`, `'down'`, `'none'` pass through. O(1).
+ * @throws RatchetError BAD_OPTION for anything else (including `'auto'`, which the surface does not offer).
+ * @example checkAxisDirection(undefined, 'direction1') // → 'up'
+ */
 export function checkAxisDirection(d: unknown, name: string): AxisDirection {
   if (d === undefined || d === null) return 'up';
   if (d === 'up' || d === 'down' || d === 'none') return d;
@@ -230,8 +239,10 @@ function axisKnots(x: Float64Array, w: Float64Array, spec: SurfaceKnotSpec, name
 }
 
 /**
- * {@link fitSurface} on validated copies (used by cross-validation, which validates once).
- * Inputs are not modified.
+ * {@link fitSurface} on validated copies (used by cross-validation, which validates once): same
+ * method, cost, errors and result. Inputs are not modified. `tol` defaults to 1e-9.
+ * @example surfaceChecked(Float64Array.from([0, 1, 0, 1]), Float64Array.from([0, 0, 1, 1]), Float64Array.from([1, 2, 3, 4]),
+ *   Float64Array.from([1, 1, 1, 1]), 0, 0, 'up', 'up').values // → Float64Array [1, 2, 3, 4]
  */
 export function surfaceChecked(
   xs1: Float64Array,
