@@ -17,8 +17,8 @@ for (const s of samples) {
 }
 const expected = {
   about:
-    'Expected values of the sample workbooks, computed by scripts/make-samples.ts calling src/core directly (not the runner). Cells are on the sheet "Data"; each formula lists the block its result fills, top-left first.',
-  samples: Object.fromEntries(samples.map((s) => [s.file, { title: s.title, data: s.data, formulas: s.formulas }])),
+    'Expected values of the sample workbooks, computed by scripts/make-samples.ts calling src/core directly (not the runner). Cells are on the sheet "Data"; "inputs" are the data columns from row 2 (null = blank cell); each formula lists the block its result fills, top-left first.',
+  samples: Object.fromEntries(samples.map((s) => [s.file, { title: s.title, data: s.data, inputs: s.columns, formulas: s.formulas }])),
 };
 writeFileSync(join(dir, 'expected.json'), `${JSON.stringify(expected, null, 1)}\n`);
 console.log('wrote samples/expected.json');
