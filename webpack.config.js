@@ -65,6 +65,8 @@ export default async (env, options) => {
           { from: 'assets/*.png', to: 'assets/[name][ext]' },
           { from: 'manifest.xml', to: 'manifest.xml' },
           { from: 'taskpane/taskpane.css', to: 'taskpane.css' },
+          // The preview's .xlsx reader: exceljs's own minified browser build, served as is (not re-bundled).
+          { from: 'node_modules/exceljs/dist/exceljs.min.js', to: 'vendor/exceljs.min.js', info: { minimized: true } },
         ],
       }),
     ],

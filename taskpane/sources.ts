@@ -152,10 +152,37 @@ export function sourceFromWorksheets(fileName: string, sheets: readonly XlWorksh
   return { fileName, kind: 'xlsx', sheets: out };
 }
 
+/** Where the build puts exceljs's own minified browser build (copied as is, not re-bundled: it is large). */
+export const EXCELJS_URL = 'vendor/exceljs.min.js';
+
+interface ExcelJsGlobal {
+  Workbook: new () => { xlsx: { load(b: ArrayBuffer): Promise<unknown> }; worksheets: XlWorksheet[] };
+}
+
+let excelJs: Promise<ExcelJsGlobal> | undefined;
+
+/** Loads exceljs's browser build once (a same-origin script that defines `window.ExcelJS`). */
+function loadExcelJs(): Promise<ExcelJsGlobal> {
+  excelJs ??= new Promise<ExcelJsGlobal>((resolve, reject) => {
+    const s = document.createElement('script');
+    s.src = EXCELJS_URL;
+    s.onload = () => {
+      const g = (window as unknown as { ExcelJS?: ExcelJsGlobal }).ExcelJS;
+      if (g) resolve(g);
+      else reject(new Error('the .xlsx reader did not start'));
+    };
+    s.onerror = () => {
+      excelJs = undefined;
+      reject(new Error('the .xlsx reader could not be loaded'));
+    };
+    document.head.append(s);
+  });
+  return excelJs;
+}
+
 /** Reads an .xlsx file with exceljs's browser build (loaded on first use). */
 export async function sourceFromXlsx(fileName: string, data: ArrayBuffer): Promise<Source> {
-  const mod = (await import(/* webpackChunkName: "exceljs" */ 'exceljs')) as unknown as { default?: unknown; Workbook?: unknown };
-  const ExcelJS = (mod.Workbook ? mod : mod.default) as { Workbook: new () => { xlsx: { load(b: ArrayBuffer): Promise<unknown> }; worksheets: XlWorksheet[] } };
+  const ExcelJS = await loadExcelJs();
   const wb = new ExcelJS.Workbook();
   try {
     await wb.xlsx.load(data);
