@@ -40,6 +40,7 @@ export const readValueTypes: ValueTypeReader = (sheet, range) =>
     return r.valueTypes as ValueTypeName[][];
   });
 
+/** A Web Worker running worker.ts; where the host has none, the same protocol in this thread. */
 function createWorker(): WorkerLike {
   if (typeof Worker === 'undefined') return inProcessWorker();
   return new Worker(/* webpackChunkName: "worker" */ new URL('./worker.ts', import.meta.url)) as unknown as WorkerLike;
@@ -49,7 +50,8 @@ let client: WorkerClient | undefined;
 
 /** The worker client (created on first use). */
 export function workerClient(): WorkerClient {
-  client ??= new WorkerClient(createWorker);
+  // If a worker cannot start or load (a host's content policy), the call runs in this thread instead.
+  client ??= new WorkerClient(createWorker, () => inProcessWorker());
   return client;
 }
 

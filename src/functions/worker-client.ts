@@ -64,7 +64,17 @@ export class WorkerClient {
   private nextId = 1;
   readonly stats: WorkerClientStats = { started: 0, terminated: 0, completed: 0, cancelled: 0 };
 
-  constructor(private readonly factory: WorkerFactory) {}
+  /**
+   * @param factory creates a lane's worker.
+   * @param fallback used instead once a worker fails (e.g. its script cannot load under the host's
+   *   content policy): the failed call is run again there, and later calls of that lane go there too.
+   */
+  constructor(
+    private readonly factory: WorkerFactory,
+    private readonly fallback?: WorkerFactory,
+  ) {}
+
+  private failed: Record<Lane, boolean> = { cv: false, fit: false };
 
   /**
    * Runs `name` on `args` in the lane's worker. Resolves with the result; rejects with a
@@ -95,13 +105,24 @@ export class WorkerClient {
   private worker(lane: Lane): WorkerLike {
     const s = this.lanes[lane];
     if (s.worker) return s.worker;
-    const w = this.factory(lane);
+    let w: WorkerLike;
+    try {
+      w = this.failed[lane] && this.fallback ? this.fallback(lane) : this.factory(lane);
+    } catch (e) {
+      if (!this.fallback || this.failed[lane]) throw e;
+      this.failed[lane] = true;
+      w = this.fallback(lane);
+    }
     this.stats.started++;
     w.onmessage = (e) => this.receive(lane, e.data);
     w.onerror = (e) => {
       const job = s.running;
       this.restart(lane);
-      if (job) {
+      if (job && this.fallback && !this.failed[lane]) {
+        // Retry the call on the fallback; the lane stays there.
+        this.failed[lane] = true;
+        s.queue.unshift(job);
+      } else if (job) {
         job.cleanup();
         job.reject(new Error(`worker failed: ${String((e as { message?: unknown })?.message ?? e)}`));
       }
@@ -128,7 +149,17 @@ export class WorkerClient {
     if (s.running || s.queue.length === 0) return;
     const job = s.queue.shift()!;
     s.running = job;
-    this.worker(lane).postMessage({ type: 'invoke', id: job.id, name: job.name, args: job.args, progress: job.onProgress !== undefined });
+    let w: WorkerLike;
+    try {
+      w = this.worker(lane);
+    } catch (e) {
+      s.running = undefined;
+      job.cleanup();
+      job.reject(e);
+      this.pump(lane);
+      return;
+    }
+    w.postMessage({ type: 'invoke', id: job.id, name: job.name, args: job.args, progress: job.onProgress !== undefined });
   }
 
   private receive(lane: Lane, msg: WorkerResponse): void {

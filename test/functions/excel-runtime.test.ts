@@ -174,6 +174,39 @@ describe('long work runs in the worker and can be cancelled', () => {
     expect(seen[7]).toBe(1);
     client.dispose();
   });
+  it('a worker that cannot start or fails to load falls back to running the call in this thread', async () => {
+    const throwing = new WorkerClient(
+      () => {
+        throw new Error('blocked by content policy');
+      },
+      () => inProcessWorker(),
+    );
+    await expect(throwing.run('cv', 'BESTK', [y, x, [[2], [3]], 4, 1, 0])).resolves.toBeTypeOf('number');
+    const failing = new WorkerClient(
+      () => ({
+        onmessage: null,
+        onerror: null,
+        postMessage() {
+          setTimeout(() => this.onerror?.({ message: 'script failed to load' }), 0);
+        },
+        terminate() {},
+      }),
+      () => inProcessWorker(),
+    );
+    await expect(failing.run('cv', 'BESTK', [y, x, [[2], [3]], 4, 1, 0])).resolves.toBeTypeOf('number');
+    expect(failing.stats.started).toBe(2);
+    await expect(failing.run('cv', 'BESTK', [y, x, [[2], [3]], 4, 1, 0])).resolves.toBeTypeOf('number');
+    expect(failing.stats.started).toBe(2); // the lane stays on the fallback
+    const noFallback = new WorkerClient(() => ({
+      onmessage: null,
+      onerror: null,
+      postMessage() {
+        setTimeout(() => this.onerror?.({ message: 'script failed to load' }), 0);
+      },
+      terminate() {},
+    }));
+    await expect(noFallback.run('cv', 'BESTK', [y, x])).rejects.toThrow('worker failed: script failed to load');
+  });
   it('fits whose largest argument exceeds the cell threshold go to the fit lane', async () => {
     const client = new WorkerClient(() => inProcessWorker());
     entry.setWorkerClient(client);
