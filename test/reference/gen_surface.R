@@ -7,6 +7,8 @@
 #   classic  full grids of distinct (x1, x2) levels with ties and weights: the cell means and summed
 #            weights solved by Iso::biviso (its own tolerance, eps = sqrt(.Machine$double.eps)) and
 #            by quadprog::solve.QP on the same weighted problem (exact);
+#   classic_sparse  classic grids with many empty level combinations: quadprog::solve.QP on the
+#            observed cells with one constraint per comparable pair (the order in full);
 #   example  the 3 x 3 matrix Y = [[1,3,2],[0,2,5],[4,1,6]] with unit weights through Iso::biviso.
 # Layout: lattice values are listed with the x1 knot index varying fastest (R's column-major
 # as.vector of a K1 x K2 matrix), which is the layout of SurfaceModel.values.
@@ -156,6 +158,54 @@ for (s in cspecs) {
   ))
 }
 
+# Sparse classic grids: many level combinations without data. quadprog on the observed cells only,
+# with a constraint for EVERY comparable pair (a_p <= a_q and b_p <= b_q) — the order written out in
+# full, independent of how the lattice order is reduced.
+sparse_cases <- list()
+sspecs <- list(
+  list(name = "scattered 25 rows, distinct levels", n = 25, L = 0, w = FALSE, seed = 31),
+  list(name = "60 rows on 9 x 8 levels, weighted", n = 60, L1 = 9, L2 = 8, w = TRUE, seed = 32)
+)
+for (s in sspecs) {
+  set.seed(s$seed)
+  if (s$L == 0 && is.null(s$L1)) {
+    x1 <- round(runif(s$n, 0, 10), 3)
+    x2 <- round(runif(s$n, 0, 10), 3)
+  } else {
+    x1 <- sample(seq_len(s$L1), s$n, replace = TRUE) * 1.5
+    x2 <- sample(seq_len(s$L2), s$n, replace = TRUE) * 0.25
+  }
+  y <- round(0.4 * x1 + 0.8 * x2 + rnorm(s$n, 0, 1), 2)
+  w <- if (s$w) round(runif(s$n, 0.5, 2), 2) else rep(1, s$n)
+  lev1 <- sort(unique(x1))
+  lev2 <- sort(unique(x2))
+  a <- match(x1, lev1)
+  b <- match(x2, lev2)
+  node <- (b - 1) * length(lev1) + a
+  cells <- sort(unique(node))
+  W <- tapply(w, node, sum)[as.character(cells)]
+  M <- tapply(w * y, node, sum)[as.character(cells)] / W
+  ca <- (cells - 1) %% length(lev1) + 1
+  cb <- (cells - 1) %/% length(lev1) + 1
+  cols <- list()
+  for (i in seq_along(cells)) for (j in seq_along(cells)) {
+    if (i != j && ca[i] <= ca[j] && cb[i] <= cb[j]) {
+      v <- numeric(length(cells))
+      v[j] <- 1
+      v[i] <- -1
+      cols[[length(cols) + 1]] <- v
+    }
+  }
+  A <- do.call(cbind, cols)
+  qp <- solve.QP(diag(as.vector(W)), as.vector(W * M), A, rep(0, ncol(A)))$solution
+  fitted <- qp[match(node, cells)]
+  sparse_cases[[length(sparse_cases) + 1]] <- obj(list(
+    name = q(s$name), x1 = arr(x1), x2 = arr(x2), y = arr(y), weights = if (s$w) arr(w) else "null",
+    cells = arr(cells - 1), values = arr(qp), fitted = arr(fitted), sse = num(sum(w * (y - fitted)^2)),
+    constraints = num(ncol(A))
+  ))
+}
+
 Y <- matrix(c(1, 3, 2, 0, 2, 5, 4, 1, 6), 3, byrow = TRUE)
 ex <- biviso(Y)
 example <- obj(list(
@@ -175,6 +225,7 @@ txt <- paste0(
   ' "versions": ', versions, ",\n",
   ' "lattice": [\n  ', paste(lattice_cases, collapse = ",\n  "), "\n ],\n",
   ' "classic": [\n  ', paste(classic_cases, collapse = ",\n  "), "\n ],\n",
+  ' "classic_sparse": [\n  ', paste(sparse_cases, collapse = ",\n  "), "\n ],\n",
   ' "example": ', example, "\n}"
 )
 path <- file.path(out_dir, "surface_r.json")

@@ -6,6 +6,8 @@
  *    quadprog::solve.QP — compared at 1e-8 relative (our roughness tie-break is 1e-12 relative);
  *  - classic grids: Iso::biviso (which stops at its own tolerance sqrt(.Machine$double.eps), so
  *    compared at 1e-6) and quadprog::solve.QP on the same weighted grid problem (1e-8);
+ *  - sparse classic grids (many level combinations without data): quadprog on the observed cells
+ *    with one constraint per comparable pair — the order in full, independent of our reduction;
  *  - the 3 × 3 example of issue 7.
  */
 import { describe, expect, it } from 'vitest';
@@ -46,6 +48,22 @@ describe('classic grids (knots1 = knots2 = 0) against Iso::biviso 0.0-18.1 and q
       expect(m.values).toBeAllCloseRel(c.quadprog, 1e-8);
       expect(m.values).toBeAllCloseRel(c.biviso, 1e-6);
       expect(m.stats.sse).toBeCloseRel(c.sse_quadprog, 1e-9);
+    });
+  }
+});
+
+describe('sparse classic grids against quadprog with every comparable pair constrained (quadprog 1.5.8)', () => {
+  for (const c of ref.classic_sparse) {
+    it(`${c.name} (${c.cells.length} observed level combinations, ${c.constraints} pair constraints)`, () => {
+      const m = fitSurface(c.x1, c.x2, c.y, { weights: c.weights ?? undefined });
+      expect(m.method).toBe('classic');
+      const observed = c.cells.map((p) => m.values[p]!);
+      expect(observed).toBeAllCloseRel(c.values, 1e-9);
+      expect(m.fitted).toBeAllCloseRel(c.fitted, 1e-9);
+      expect(m.stats.sse).toBeCloseRel(c.sse, 1e-9);
+      // Exactly the observed combinations are identified; the rest of the grid is filled.
+      expect(m.identified.reduce((s, v) => s + v, 0)).toBe(c.cells.length);
+      for (const p of c.cells) expect(m.identified[p]).toBe(1);
     });
   }
 });
