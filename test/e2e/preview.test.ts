@@ -225,6 +225,28 @@ describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () 
     await page.emulateMedia({ colorScheme: 'light' });
   });
 
+  it('labels every visible control, and every control is reachable with Tab', async () => {
+    const unlabelled = await page.evaluate(() =>
+      [...document.querySelectorAll<HTMLElement>('input, select, textarea, button, progress')]
+        .filter((e) => e.offsetParent !== null)
+        .filter((e) => {
+          const labels = (e as HTMLInputElement).labels;
+          const text = e.tagName === 'BUTTON' ? (e.textContent ?? '').trim() : '';
+          return !(labels && labels.length > 0) && !e.getAttribute('aria-label') && text === '';
+        })
+        .map((e) => e.id || e.outerHTML.slice(0, 60)),
+    );
+    expect(unlabelled).toEqual([]);
+    // Tab from the top reaches the suggestion button without a pointer.
+    await page.focus('#file');
+    let reached = false;
+    for (let i = 0; i < 30 && !reached; i++) {
+      await page.keyboard.press('Tab');
+      reached = (await page.evaluate(() => document.activeElement?.id)) === 'suggest';
+    }
+    expect(reached).toBe(true);
+  });
+
   it('sent no request beyond localhost and logged no error or CSP violation', () => {
     expect(requests.length).toBeGreaterThan(3);
     const outside = requests.filter((u) => !(u.startsWith(server!.url) || u.startsWith('data:') || u.startsWith('blob:')));
