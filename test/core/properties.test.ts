@@ -26,6 +26,7 @@ import {
   knotRegression,
   poolTies,
   predict,
+  solveMonotoneTridiagonal,
   sortOrder,
   type Direction,
 } from '../../src/core/index.js';
@@ -642,6 +643,47 @@ describe('knot model: identification and hard layouts', () => {
         });
         const [lo, hi] = upBounds(dir, bb.lower, bb.upper);
         expectKkt(Array.from(fit.knotY, (v) => s * v), g, lo, hi, scale);
+      }),
+    );
+  });
+});
+
+describe('solveMonotoneTridiagonal: random positive definite tridiagonal QPs', () => {
+  // H = RᵀR with R upper bidiagonal (diagonal a, superdiagonal b = ρ·min(a_i, a_{i+1}), |ρ| ≤ 0.9):
+  // H_ii = a_i² + b_{i−1}², H_{i,i+1} = a_i·b_i — positive definite, off-diagonals of either sign,
+  // condition numbers up to ~1e7 when some a_i are small (|ρ| < 1 keeps R⁻¹ bounded; larger ρ
+  // would give conditions like (ρ)^m beyond what any double-precision solver can certify).
+  const qpArb = fc.integer({ min: 1, max: 30 }).chain((m) =>
+    fc.record({
+      a: fc.array(fc.oneof(real(0.5, 3), real(1e-3, 1e-2)), { minLength: m, maxLength: m }),
+      b: fc.array(real(-0.9, 0.9), { minLength: m, maxLength: m }),
+      c: fc.array(fc.oneof(real(-100, 100), fc.integer({ min: -2, max: 2 })), { minLength: m, maxLength: m }),
+      bounds: boundsArb,
+    }),
+  );
+
+  it('never throws, returns a feasible θ and satisfies the KKT conditions with g = c − Hθ to 1e-9', () => {
+    fc.assert(
+      fc.property(qpArb, ({ a, b, c, bounds }) => {
+        const m = a.length;
+        const sup = a.map((ai, i) => b[i]! * Math.min(ai, a[i + 1] ?? ai));
+        const d = a.map((ai, i) => ai * ai + (i > 0 ? sup[i - 1]! ** 2 : 0));
+        const e = a.slice(0, m - 1).map((ai, i) => ai * sup[i]!);
+        const { lower = -Infinity, upper = Infinity } = boundsOf(bounds);
+        const { theta } = solveMonotoneTridiagonal(d, e, c, lower, upper);
+        expect(isNonDecreasing(theta)).toBe(true);
+        for (const v of theta) {
+          expect(v).toBeGreaterThanOrEqual(lower);
+          expect(v).toBeLessThanOrEqual(upper);
+        }
+        const g: number[] = [];
+        let scale = 0;
+        for (let i = 0; i < m; i++) {
+          const h = d[i]! * theta[i]! + (i > 0 ? e[i - 1]! * theta[i - 1]! : 0) + (i + 1 < m ? e[i]! * theta[i + 1]! : 0);
+          g.push(c[i]! - h);
+          scale += Math.abs(c[i]!) + Math.abs(h);
+        }
+        expectKkt(theta, g, lower, upper, scale);
       }),
     );
   });
