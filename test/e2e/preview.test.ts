@@ -308,6 +308,7 @@ describe.skipIf(SKIP)('task pane in Excel mode (office.js stand-in)', () => {
     await context?.close();
     await server?.close();
     if (userDataDir) fs.rmSync(userDataDir, { recursive: true, force: true });
+    if (dir) fs.rmSync(dir, { recursive: true, force: true });
   });
 
   const stubCall = <T>(fn: string, ...args: unknown[]): Promise<T> =>
