@@ -94,20 +94,30 @@ export function FIT(args: readonly CellArg[]): CellResult {
 }
 
 /** The model behind the previous PREDICT call and the argument objects it came from. */
-let lastPredict: { args: readonly CellArg[]; generation: number; knotX: Float64Array; knotY: Float64Array } | undefined;
+interface PredictMemo {
+  readonly ys: CellArg;
+  readonly xs: CellArg;
+  readonly knots: CellArg;
+  readonly direction: CellArg;
+  readonly weights: CellArg;
+  readonly generation: number;
+  readonly knotX: Float64Array;
+  readonly knotY: Float64Array;
+}
+let lastPredict: PredictMemo | undefined;
 
-/** A single finite new x in the accepted range, or undefined (then the general path reads it). */
-function singleNumber(arg: CellArg): number | undefined {
+/** A single finite new x in the accepted range, or NaN (then the general path reads the argument). */
+function singleNumber(arg: CellArg): number {
   let v: unknown = arg;
   if (Array.isArray(arg)) {
-    if (arg.length !== 1) return undefined;
+    if (arg.length !== 1) return NaN;
     const row: unknown = arg[0];
-    if (!Array.isArray(row) || row.length !== 1) return undefined;
+    if (!Array.isArray(row) || row.length !== 1) return NaN;
     v = row[0];
   }
-  if (typeof v !== 'number') return undefined;
-  const a = Math.abs(v);
-  return a <= MAX_MAGNITUDE && (a >= MIN_MAGNITUDE || a === 0) ? v : undefined;
+  if (typeof v !== 'number') return NaN;
+  const a = v < 0 ? -v : v;
+  return a <= MAX_MAGNITUDE && (a >= MIN_MAGNITUDE || a === 0) ? v : NaN;
 }
 
 /**
@@ -120,28 +130,30 @@ export function PREDICT(args: readonly CellArg[]): CellResult {
   let knotX: Float64Array;
   let knotY: Float64Array;
   const m = lastPredict;
+  const single = singleNumber(args[0]);
   if (
     m !== undefined &&
-    m.generation === cacheGeneration() &&
-    Array.isArray(args[1]) &&
-    args[1] === m.args[1] &&
-    args[2] === m.args[2] &&
-    args[3] === m.args[3] &&
-    args[4] === m.args[4] &&
-    args[5] === m.args[5]
+    args[1] === m.ys &&
+    args[2] === m.xs &&
+    args[3] === m.knots &&
+    args[4] === m.direction &&
+    args[5] === m.weights &&
+    m.generation === cacheGeneration()
   ) {
     knotX = m.knotX;
     knotY = m.knotY;
   } else {
     // Read new_xs first so its errors come first, as on the general path.
-    if (singleNumber(args[0]) === undefined) readVector('new_xs', args[0], 'any');
+    if (single !== single) readVector('new_xs', args[0], 'any');
     const { entry } = fitOf(args, 1);
     knotX = entry.model.knotX;
     knotY = entry.model.knotY;
-    lastPredict = Array.isArray(args[1]) && Array.isArray(args[2]) ? { args: args.slice(), generation: cacheGeneration(), knotX, knotY } : undefined;
+    lastPredict =
+      Array.isArray(args[1]) && Array.isArray(args[2])
+        ? { ys: args[1], xs: args[2], knots: args[3], direction: args[4], weights: args[5], generation: cacheGeneration(), knotX, knotY }
+        : undefined;
   }
-  const single = singleNumber(args[0]);
-  if (single !== undefined) return [[interpolateAt(knotX, knotY, single)]];
+  if (single === single) return [[interpolateAt(knotX, knotY, single)]];
   const nx = readVector('new_xs', args[0], 'any');
   const v = nx.values;
   return finite(
