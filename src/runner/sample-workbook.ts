@@ -1,14 +1,17 @@
 /**
  * Writes one sample as an .xlsx file: an "About" sheet with the scenario and cautions, and a
  * "Data" sheet with the invented data and live RATCHET formulas in the stored form Excel reads
- * (`_xldudf_RATCHET_…`). Spilled results are written as array formulas over the range of their
+ * (`_xldudf_RATCHET_…`). Spilled results are written as dynamic-array formulas (array formulas
+ * marked as Excel 365 marks a spilling formula, see dynamic-arrays.ts) over the range of their
  * expected result, with the expected values cached, so the file shows numbers even before the
  * add-in recalculates it.
  */
-import { existsSync } from 'node:fs';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import JSZip from 'jszip';
 import ExcelJS from 'exceljs';
 import { cellName, parseCellRef } from './address.js';
 import { toStoredForm } from './formula-text.js';
+import { markDynamicArrays } from './dynamic-arrays.js';
 import type { ExpectedCell, Sample } from './samples.js';
 
 /** Fixed document dates keep regenerated files byte-stable apart from the zip container. */
@@ -17,6 +20,12 @@ const FIXED_DATE = new Date(Date.UTC(2026, 0, 1));
 function cached(v: ExpectedCell): ExcelJS.CellValue {
   if (typeof v === 'string' && /^#[A-Z/0-9]+[!?A]$/.test(v)) return { error: v } as ExcelJS.CellErrorValue;
   return v;
+}
+
+/** True when the file already carries the dynamic-array metadata part. */
+async function isMarked(path: string): Promise<boolean> {
+  const zip = await JSZip.loadAsync(readFileSync(path));
+  return zip.file('xl/metadata.xml') !== null;
 }
 
 /** Cell contents of every sheet, for telling whether a regenerated file differs in substance. */
@@ -79,17 +88,19 @@ export async function writeSampleWorkbook(sample: Sample, path: string): Promise
     );
   }
   ws.views = [{ state: 'frozen', ySplit: 1 }];
+  const buffer = await wb.xlsx.writeBuffer();
   if (existsSync(path)) {
     const old = new ExcelJS.Workbook();
     const fresh = new ExcelJS.Workbook();
     try {
       await old.xlsx.readFile(path);
-      await fresh.xlsx.load(await wb.xlsx.writeBuffer());
-      if (contents(old) === contents(fresh)) return false;
+      await fresh.xlsx.load(buffer);
+      if (contents(old) === contents(fresh) && (await isMarked(path))) return false;
     } catch {
       // unreadable old file: write the new one
     }
   }
-  await wb.xlsx.writeFile(path);
+  const { bytes } = await markDynamicArrays(new Uint8Array(buffer as ArrayBuffer));
+  writeFileSync(path, bytes);
   return true;
 }

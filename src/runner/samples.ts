@@ -146,7 +146,7 @@ const COMMON_CAUTIONS = [
   '• Where a standard, a specification or a method statement governs your work, follow it; this workbook does not replace it.',
   '',
   'If the formulas show #NAME?: load the Ratchet add-in (Home ▸ Add-ins, or Insert ▸ My Add-ins), then recalculate with Ctrl+Alt+F9 (Mac: Formulas ▸ Calculate Now). If cells still show #NAME?, press Ctrl+Shift+Alt+F9, which checks every formula again and recalculates the whole workbook.',
-  'Results that fill several cells are saved as array formulas over a fixed range. To let one grow with new data, select its whole range, press Delete, and type the formula again in the top-left cell.',
+  'Results that fill several cells are saved as dynamic arrays: when their data change they spill again to the size they need.',
   'Without Excel: `npm run sheet -- samples/<file>.xlsx` evaluates this workbook headlessly.',
 ];
 

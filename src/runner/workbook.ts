@@ -7,12 +7,13 @@
  * exceljs reports them; cells inside an array formula's range hold cached results in the file and
  * are cleared before evaluation so the fresh result can spill there.
  */
-import { readFileSync, statSync } from 'node:fs';
+import { readFileSync, statSync, writeFileSync } from 'node:fs';
 import ExcelJS from 'exceljs';
 import { DetailedCellError, HyperFormula, type RawCellContent, type SimpleCellAddress } from 'hyperformula';
 import { cellName, parseCellRef, parseRange, qualifiedName } from './address.js';
 import { callsRatchet, toStoredForm, toTypedForm } from './formula-text.js';
 import { beginRecalculation, sizingStateOf } from './plugin.js';
+import { markDynamicArrays } from './dynamic-arrays.js';
 
 /** A cell value in the runner's JSON: numbers, text, logicals, null for blank, error codes as text. */
 export type JsonCell = number | string | boolean | null;
@@ -397,8 +398,8 @@ export class EvaluatedWorkbook {
 
   /**
    * Writes a copy of the workbook with the current inputs, formulas kept in the stored form
-   * (`_xldudf_RATCHET_…`), computed values cached, and spilled results written as array formulas
-   * over their current range. The source file is not touched.
+   * (`_xldudf_RATCHET_…`), computed values cached, and spilled results written as dynamic-array
+   * formulas over their current range (dynamic-arrays.ts). The source file is not touched.
    */
   async writeCopy(path: string): Promise<void> {
     const wb = new ExcelJS.Workbook();
@@ -446,7 +447,8 @@ export class EvaluatedWorkbook {
         }),
       );
     }
-    await wb.xlsx.writeFile(path);
+    const { bytes } = await markDynamicArrays(new Uint8Array((await wb.xlsx.writeBuffer()) as ArrayBuffer));
+    writeFileSync(path, bytes);
   }
 }
 

@@ -13,6 +13,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
 import ExcelJS from 'exceljs';
+import JSZip from 'jszip';
 import { describe, expect, it } from 'vitest';
 import '../../src/runner/ratchet.js';
 import { parseSheetArgs, runSheet } from '../../src/runner/cli.js';
@@ -81,6 +82,10 @@ describe('npm run sheet', () => {
     const e2 = ws.getCell('E2').value as { formula: string; ref?: string };
     expect(e2).toMatchObject({ formula: '_xldudf_RATCHET_KNOTS(B2:B8,A2:A8)', ref: 'E2:F7' });
     expect((ws.getCell('I2').value as { result?: unknown }).result).toEqual({ error: '#N/A' });
+    // Spilled results are marked as dynamic arrays (see dynamic-arrays.test.ts).
+    const zip = await JSZip.loadAsync(readFileSync(copy));
+    const sheetXml = await zip.file('xl/worksheets/sheet1.xml')!.async('string');
+    expect([...sheetXml.matchAll(/<c r="([A-Z]+[0-9]+)"[^>]*cm="1"/g)].map((m) => m[1])).toEqual(['D2', 'E2', 'K2', 'I6']);
     // Evaluating the copy gives the same values as the run that wrote it.
     const again = await EvaluatedWorkbook.fromFile(copy);
     expect(again.toJson()).toEqual(json);
