@@ -31,12 +31,18 @@ export function hashFloat64(a: Float64Array): string {
   return `${h1 >>> 0}.${h2 >>> 0}`;
 }
 
-/** True when two Float64Arrays hold the same bit patterns. O(n). */
+/**
+ * True when two Float64Arrays hold the same numbers, NaN equal to NaN (blanks) — for the arrays the
+ * adapter builds (one NaN pattern, −0 stored as +0) the same as equal bit patterns. O(n).
+ */
 export function sameBits(a: Float64Array, b: Float64Array): boolean {
   if (a === b) return true;
-  if (a.length !== b.length) return false;
-  const ua = new Uint32Array(a.buffer, a.byteOffset, a.length * 2);
-  const ub = new Uint32Array(b.buffer, b.byteOffset, b.length * 2);
-  for (let i = 0; i < ua.length; i++) if (ua[i] !== ub[i]) return false;
+  const n = a.length;
+  if (n !== b.length) return false;
+  for (let i = 0; i < n; i++) {
+    const x = a[i]!;
+    const y = b[i]!;
+    if (x !== y && (x === x || y === y)) return false;
+  }
   return true;
 }

@@ -13,6 +13,7 @@ import { fromExcelArg, toExcelError, toExcelResult } from '../../src/adapter/exc
 import { InputCellError, MappedCellError, mapError } from '../../src/adapter/errors.js';
 import { RatchetError } from '../../src/core/index.js';
 import { readKnots, readScalar, readVector } from '../../src/adapter/cells.js';
+import { hashFloat64, sameBits } from '../../src/adapter/hash.js';
 
 const XS = col(1, 2, 3, 4);
 const YS = col(1, 3, 2, 4);
@@ -361,6 +362,15 @@ describe('readers', () => {
   it('equal content in different objects hashes equally; -0 and 0 are the same number', () => {
     expect(readVector('known_ys', col(0, 1)).hash).toBe(readVector('known_ys', col(-0, 1)).hash);
     expect(readVector('known_ys', col(0, 1)).hash).not.toBe(readVector('known_ys', row(0, 1)).hash);
+  });
+  it('cache keys: equal data hash and compare equal, blanks included; any change differs', () => {
+    const a = Float64Array.of(1, NaN, 3);
+    expect(sameBits(a, Float64Array.of(1, NaN, 3))).toBe(true);
+    expect(hashFloat64(a)).toBe(hashFloat64(Float64Array.of(1, NaN, 3)));
+    expect(sameBits(a, Float64Array.of(1, 2, 3))).toBe(false);
+    expect(sameBits(a, Float64Array.of(1, NaN))).toBe(false);
+    expect(hashFloat64(a)).not.toBe(hashFloat64(Float64Array.of(1, NaN, 3 + 2 ** -51)));
+    expect(hashFloat64(Float64Array.of(1, 2))).not.toBe(hashFloat64(Float64Array.of(2, 1)));
   });
   it('scalars and knots', () => {
     expect(readScalar('folds', [[' 7 ']])).toBe(7);
