@@ -22,9 +22,13 @@ export const USAGE = `usage: npm run sheet -- <workbook.xlsx> [--json] [--out <c
   --json            print one JSON object: "Sheet!A1" -> value of every formula cell and of every
                     cell its result spills into, plus "messages" with each error's message
   --out <file>      write a copy with the computed values cached (formulas kept)
-  --set S!A1=value  change an input cell before evaluating (repeatable); a value starting with
-                    "=" is a formula, TRUE/FALSE are logicals, an empty value makes the cell blank
+  --set S!A1=value  change an input cell before evaluating; repeat --set, or list several
+                    changes after one --set; a value starting with "=" is a formula, TRUE/FALSE
+                    are logicals, an empty value makes the cell blank
 The input workbook is never modified.`;
+
+/** A change as typed after --set: Sheet!A1=value (the sheet name may be quoted). */
+const SET_SPEC = /^[^=]+![$]?[A-Za-z]{1,3}[$]?[0-9]+=/;
 
 /** Thrown for a bad command line; the message is for users. */
 export class UsageError extends Error {}
@@ -46,6 +50,12 @@ export function parseSheetArgs(argv: readonly string[]): SheetArgs {
       const eq = spec?.indexOf('=') ?? -1;
       if (spec === undefined || eq <= 0) throw new UsageError(`--set needs Sheet!A1=value; got ${spec === undefined ? 'nothing' : `"${spec}"`}`);
       set[spec.slice(0, eq)] = parseInputValue(spec.slice(eq + 1));
+      // More changes may follow one --set: --set Data!B2=5 Data!B3=6
+      while (i + 1 < argv.length && SET_SPEC.test(argv[i + 1]!)) {
+        const more = argv[++i]!;
+        const at = more.indexOf('=');
+        set[more.slice(0, at)] = parseInputValue(more.slice(at + 1));
+      }
     } else if (a.startsWith('--')) throw new UsageError(`unknown option ${a}`);
     else if (file === undefined) file = a;
     else throw new UsageError(`only one workbook, please; got "${file}" and "${a}"`);

@@ -136,5 +136,7 @@ describe('npm run sheet', () => {
   it('parses --set values: numbers, logicals, blanks, formulas and text', () => {
     const a = parseSheetArgs(['w.xlsx', '--set', 'S!A1=2.5', '--set=S!A2=TRUE', '--set', 'S!A3=', '--set', 'S!A4==SUM(B1:B3)', '--set', 'S!A5=12 kg']);
     expect(a.set).toEqual({ 'S!A1': 2.5, 'S!A2': true, 'S!A3': null, 'S!A4': '=SUM(B1:B3)', 'S!A5': '12 kg' });
+    const b = parseSheetArgs(['--set', 'S!A1=1', "'My data'!B2=2", 'w.xlsx', '--json']);
+    expect([b.file, b.json, b.set]).toEqual(['w.xlsx', true, { 'S!A1': 1, "'My data'!B2": 2 }]);
   });
 });
