@@ -36,8 +36,9 @@ async function sampleColumns(file: string, xHeader: string, yHeader: string): Pr
   let cx = -1;
   let cy = -1;
   header.eachCell((cell, col) => {
-    if (cell.value === xHeader) cx = col;
-    if (cell.value === yHeader) cy = col;
+    // the first column with that header (later blocks of a sample may reuse a header)
+    if (cell.value === xHeader && cx < 0) cx = col;
+    if (cell.value === yHeader && cy < 0) cy = col;
   });
   if (cx < 0 || cy < 0) throw new Error(`${file}: headers ${xHeader} / ${yHeader} not found`);
   const xs: CellValueIn[][] = [];
@@ -209,6 +210,24 @@ describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () 
     const table = invoke('KNOTS', [ys, xs, 0, 1]) as number[][];
     expect(s.curve).toEqual(table.map((r) => ({ x: r[0], y: r[1] })));
     expect(s.formulas.STATS).toBe('=RATCHET.STATS(assay!$B$2:$B$7,assay!$A$2:$A$7,0,1)');
+  });
+
+  it('uses a weight column: the curve equals RATCHET.KNOTS with those weights', async () => {
+    await page.selectOption('#sample', 'lab-calibration.xlsx');
+    await page.click('#sample-open');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().data?.x.length === 12);
+    const label = await page.evaluate(() => [...(document.getElementById('col-w') as HTMLSelectElement).options].find((o) => o.text.startsWith('replicates'))!.value);
+    await page.selectOption('#col-w', label);
+    await setValue(page, '#knots', '0');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().data?.w !== null);
+    const s = await snap(page);
+    const { xs, ys } = await sampleColumns('lab-calibration.xlsx', 'conc mg/L', 'signal');
+    const { ys: ws } = await sampleColumns('lab-calibration.xlsx', 'conc mg/L', 'replicates');
+    const weighted = invoke('KNOTS', [ys, xs, 0, 1, ws]) as number[][];
+    const unweighted = invoke('KNOTS', [ys, xs, 0, 1]) as number[][];
+    expect(weighted).not.toEqual(unweighted); // the weights matter on these data
+    expect(s.curve).toEqual(weighted.map((r) => ({ x: r[0], y: r[1] })));
+    expect(s.formulas.KNOTS).toBe('=RATCHET.KNOTS(Data!$B$2:$B$13,Data!$A$2:$A$13,0,1,Data!$C$2:$C$13)');
   });
 
   it('follows the dark colour scheme (screenshot)', async () => {
