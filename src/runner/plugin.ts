@@ -157,11 +157,10 @@ function dimsOf(r: CellResult): Dims {
   return { rows: r.length, cols: r.reduce((m, row) => Math.max(m, row.length), 0) };
 }
 
-/** A result → HyperFormula value; ragged rows are padded with "" and an empty array is #CALC!-like #VALUE!. */
+/** A (non-empty) result → HyperFormula value; ragged rows are padded with "". */
 function fromResult(r: CellResult, scalarCell: boolean): Internal {
   if (!Array.isArray(r)) return r;
   const d = dimsOf(r);
-  if (d.rows === 0 || d.cols === 0) return new CellError(ErrorType.VALUE, 'The result is empty.');
   if (scalarCell && d.rows === 1 && d.cols === 1) return r[0]![0]!;
   return SimpleRangeValue.onlyValues(r.map((row) => (row.length === d.cols ? [...row] : [...row, ...Array<string>(d.cols - row.length).fill('')])));
 }
@@ -273,6 +272,7 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
         return errorOut(toHfError(toCellError(e)));
       }
       const got = dimsOf(result);
+      if (got.rows === 0 || got.cols === 0) return errorOut(new CellError(ErrorType.VALUE, `${NAMESPACE}.${fn.name} returned no cells.`));
       sizing.learned.set(key, got);
       if (reserved !== undefined && (reserved.rows !== got.rows || reserved.cols !== got.cols)) {
         sizing.dirty.add(cellKey(state));
