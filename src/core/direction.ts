@@ -53,7 +53,8 @@ export function spearman(x: ArrayLike<number>, y: ArrayLike<number>): number {
 /**
  * Resolves a direction option. `'up'` and `'down'` pass through; `'auto'` is `'up'` when
  * Spearman's ρ of the rows with positive weight is ≥ 0 or undefined (constant x or y), and
- * `'down'` when ρ < 0 (the same rule as scikit-learn's `increasing='auto'`).
+ * `'down'` when ρ < 0 (scikit-learn's `increasing='auto'` rule, except that scikit-learn also
+ * counts rows of weight 0, which here have no influence on anything, direction included).
  *
  * Cost: O(n) for `'auto'`, O(1) otherwise. Errors: BAD_OPTION for any other value.
  *

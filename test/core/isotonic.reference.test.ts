@@ -65,3 +65,13 @@ describe('classic fit = R stats::isoreg and Iso::pava (R 4.2.2, Iso 0.0-18.1, co
     }
   }
 });
+
+describe("direction 'auto' and rows of weight 0 (a deliberate difference from scikit-learn)", () => {
+  it("Spearman's rho is taken over rows with positive weight only: rows 4 and 5 fall, so 'auto' is down", () => {
+    // scikit-learn 1.2.1 counts the weight-0 rows too: IsotonicRegression(increasing='auto')
+    // .fit([1, 2, 3, 4, 5], [1, 2, 3, 4, 0], sample_weight=[0, 0, 0, 1, 1]).increasing_ → True
+    // (run by hand with /usr/bin/python3). In Ratchet a weight-0 row influences nothing.
+    const fit = isotonicRegression([1, 2, 3, 4, 5], [1, 2, 3, 4, 0], { weights: [0, 0, 0, 1, 1], direction: 'auto' });
+    expect(fit.direction).toBe('down');
+  });
+});
