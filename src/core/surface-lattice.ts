@@ -137,35 +137,30 @@ export function assembleLattice(k1: number, k2: number, loc: LatticeLocation, y:
 }
 
 /**
- * Adds the roughness tie-break ε Σ_edges (θ_p − θ_q)² / h_pq over every lattice edge, where h is
- * the edge length as a share of its axis range, with ε = `relative` · tr(BᵀWB) / tr(L). It makes
- * H positive definite (the lattice graph is connected and some node carries data), so the
- * optimum is unique; fitted values move by about `relative` in relative terms. O(K1K2).
+ * Adds the tie-break ε Σ_edges (θ_p − θ_q)² over every lattice edge (the graph Laplacian of the
+ * lattice, unit weight per edge — free of the units and spacing of x, so extreme knot spacings
+ * cannot overflow it), with ε = `relative` · tr(BᵀWB) / tr(L). It makes H positive definite (the
+ * lattice graph is connected and some node carries data), so the optimum is unique; fitted values
+ * move by about `relative` in relative terms. O(K1K2).
  */
-export function addTieBreak(sys: LatticeSystem, t1: Float64Array, t2: Float64Array, relative: number): void {
+export function addTieBreak(sys: LatticeSystem, relative: number): void {
   const { k1, k2, stencil } = sys;
   const N = k1 * k2;
-  const r1 = t1[k1 - 1]! - t1[0]!;
-  const r2 = t2[k2 - 1]! - t2[0]!;
   let trH = 0;
   for (let p = 0; p < N; p++) trH += stencil[9 * p + 4]!;
-  let trL = 0;
-  for (let b = 0; b < k2; b++) for (let a = 0; a + 1 < k1; a++) trL += (2 * r1) / (t1[a + 1]! - t1[a]!);
-  for (let b = 0; b + 1 < k2; b++) for (let a = 0; a < k1; a++) trL += (2 * r2) / (t2[b + 1]! - t2[b]!);
+  const trL = 2 * (k2 * (k1 - 1) + k1 * (k2 - 1));
   if (!(trL > 0) || !(trH > 0)) return;
-  const eps = (relative * trH) / trL;
+  const g = (relative * trH) / trL;
   for (let b = 0; b < k2; b++) {
     for (let a = 0; a < k1; a++) {
       const p = b * k1 + a;
       if (a + 1 < k1) {
-        const g = (eps * r1) / (t1[a + 1]! - t1[a]!);
         stencil[9 * p + 4] = stencil[9 * p + 4]! + g;
         stencil[9 * (p + 1) + 4] = stencil[9 * (p + 1) + 4]! + g;
         stencil[9 * p + 5] = stencil[9 * p + 5]! - g; // (da, db) = (1, 0)
         stencil[9 * (p + 1) + 3] = stencil[9 * (p + 1) + 3]! - g; // (−1, 0)
       }
       if (b + 1 < k2) {
-        const g = (eps * r2) / (t2[b + 1]! - t2[b]!);
         stencil[9 * p + 4] = stencil[9 * p + 4]! + g;
         stencil[9 * (p + k1) + 4] = stencil[9 * (p + k1) + 4]! + g;
         stencil[9 * p + 7] = stencil[9 * p + 7]! - g; // (0, 1)

@@ -28,13 +28,15 @@ export const SURFACE_MAX_NODES = 40000;
 export const SURFACE_EXACT_NODES = 400;
 /** Lattices above this many nodes get an ADMM warm start before the exact method. */
 const WARM_START_NODES = 64;
+/** Largest lattice value accepted, as a multiple of the largest |y| (see the lever check). */
+const LEVER_LIMIT = 1e10;
 /** Sweep cap of ADMM (beyond it: NUMERICAL, "use fewer knots"). */
 const MAX_SWEEPS = 10000;
 /** Above this many nodes, a lattice whose data touch at most 400 nodes skips the warm start. */
 const COLD_START_NODES = 2500;
 /** Iteration cap of the exact method after a converged warm start (beyond it, ADMM's answer stands). */
 const POLISH_ITERATIONS = 400;
-/** Relative size of the roughness tie-break that makes the optimum unique. */
+/** Relative size of the tie-break that makes the optimum unique. */
 const TIE_BREAK = 1e-12;
 /** Largest K1K2·(K1 + 2)² for which the banded positive-definiteness check runs (~0.2 s). */
 const PD_CHECK_LIMIT = 2e8;
@@ -137,8 +139,8 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  *    nodes alone, under the order the lattice induces on them ({@link inducedOrder}) — no
  *    regularisation, the exact optimum up to rounding. Used when there are at most
  *    {@link SURFACE_EXACT_NODES} identified nodes, or for more once ADMM has converged (below).
- * 2. Otherwise a roughness tie-break of relative size 1e-12 (Σ over lattice edges of (θ_p − θ_q)²
- *    divided by the edge's share of its axis) makes H positive definite and the optimum unique;
+ * 2. Otherwise a tie-break of relative size 1e-12 (Σ over lattice edges of (θ_p − θ_q)², the
+ *    lattice's graph Laplacian) makes H positive definite and the optimum unique;
  *    fitted values then agree with the untied optimum to about 1e-12 relative, and the active-set
  *    method runs on the whole lattice.
  * Lattices above 64 nodes first run ADMM ({@link admmLattice}: weighted pool-adjacent-violators on
@@ -173,7 +175,8 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  *   weights (default 1), tolerance (default 1e-9).
  * @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_OPTION (direction,
  *   tolerance), BAD_KNOTS (count not a whole number in [2, 200], positions not increasing, lattice
- *   over 40,000 nodes), TOO_FEW_POINTS (fewer than 2 distinct values with positive weight along an
+ *   over 40,000 nodes, or a lattice value over 1e10 × max |y| — knots the data touch only through
+ *   tiny interpolation shares), TOO_FEW_POINTS (fewer than 2 distinct values with positive weight along an
  *   axis that places knots from the data), NUMERICAL (iterative solver out of sweeps).
  * @example fitSurface([0, 1, 0, 1], [0, 0, 1, 1], [1, 2, 3, 4]).values // → Float64Array [1, 2, 3, 4]
  * @see Luss, Rosset & Shahar (2012), Annals of Applied Statistics 6(1) — over-fit of multivariate
@@ -304,7 +307,7 @@ export function surfaceChecked(
   const band = Math.min(M, k1 + 1) + 1;
   const determined = M * band * band <= PD_CHECK_LIMIT && sparsePositiveDefinite(dataMatrix);
   // ADMM on the whole lattice: the answer for large lattices and a warm start for the exact method.
-  if (!(determined && M === N)) addTieBreak(sys, t1, t2, TIE_BREAK);
+  if (!(determined && M === N)) addTieBreak(sys, TIE_BREAK);
   const edges = latticeEdges(k1, k2, d1, d2);
   // (Skipped when few identified nodes sit in a large lattice: the exact method on them alone is cheaper.)
   const compactCold = determined && M <= SURFACE_EXACT_NODES && N > COLD_START_NODES;
@@ -349,7 +352,20 @@ export function surfaceChecked(
 
   // Guard the order against rounding and fill the nodes the data do not see.
   const values = orderEnvelopeMean(theta, k1, k2, d1, d2, identified);
-  for (let p = 0; p < N; p++) values[p] = values[p]! * sy;
+  // A node the data touch only through a tiny interpolation share can need an enormous value (a
+  // lever). Beyond LEVER_LIMIT × max |y| such a lattice is a symptom, not a model: refuse it.
+  let ymax = 0;
+  for (let i = 0; i < yS.length; i++) if (wS[i]! > 0) ymax = Math.max(ymax, Math.abs(yS[i]!));
+  for (let p = 0; p < N; p++) {
+    if (Math.abs(values[p]!) > LEVER_LIMIT * ymax) {
+      fail(
+        'BAD_KNOTS',
+        'knots1',
+        `with knots2, needs a lattice the data reach: a lattice value would be ${(values[p]! * sy).toPrecision(3)}, over 1e10 times the largest |y|, because some knots see the data only through tiny interpolation shares; use fewer knots or knot positions inside the data`,
+      );
+    }
+    values[p] = values[p]! * sy;
+  }
   const fitted = evaluateLattice(values, k1, loc);
   const distinct = new Set<number>();
   for (let p = 0; p < N; p++) distinct.add(values[p]! + 0);

@@ -116,6 +116,17 @@ describe('bad input: codes and messages', () => {
     );
   });
 
+  it('a knot the data touch only through a tiny share (a lever to a value beyond 1e10 × max |y|) is refused', () => {
+    // x2 knots −1 and 1e90: rows at x2 = 0 sit a share 1e-90 of the way up, so the upper nodes would
+    // need values near 1e189 to fit them (the exact least-squares lattice, but no model).
+    const x1 = [0, 0, 0, 0, 0, 0, 0, -1e99, -1];
+    const x2 = [0, 0, 0, 0, 0, 0, -1, 1e90, 0];
+    const y = [-1e99, 0, 0, 0, 0, 0, -3e99, 0, 0];
+    expect(() => fitSurface(x1, x2, y, { knots1: 2, knots2: 2 })).toThrow(
+      'knots1: with knots2, needs a lattice the data reach: a lattice value would be 2.86e+189, over 1e10 times the largest |y|, because some knots see the data only through tiny interpolation shares; use fewer knots or knot positions inside the data.',
+    );
+  });
+
   it('a lattice over 40,000 nodes is refused with the size in the message', () => {
     const n = 250;
     const a = Array.from({ length: n }, (_, i) => i);
