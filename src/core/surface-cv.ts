@@ -108,8 +108,10 @@ function checkPairCandidates(c: ArrayLike<number>, name: string): number[] {
  * @param y responses, finite, same length.
  * @param options see {@link SurfaceCrossValidationOptions}.
  * @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_OPTION
- *   (candidates1/2, folds, repeats, seed, direction1/2), TOO_FEW_POINTS, BAD_KNOTS, CANCELLED.
- * @example crossValidateSurface(x1, x2, y, { candidates1: [2, 3], candidates2: [2], folds: 5 }).scores.length // → 2
+ *   (candidates1/2, folds, repeats, seed, direction1/2, tolerance), TOO_FEW_POINTS, BAD_KNOTS,
+ *   CANCELLED, NUMERICAL (as fitSurface).
+ * @example crossValidateSurface([0, 1, 0, 1, 0, 1], [0, 0, 1, 1, 2, 2], [1, 2, 3, 4, 5, 6],
+ *   { candidates1: [2], candidates2: [2, 3], folds: 3, seed: 0 }).scores.map((s) => s.knots2) // → [2, 3]
  */
 export function crossValidateSurface(
   x1: ArrayLike<number>,
@@ -126,6 +128,9 @@ export function crossValidateSurface(
   const d1 = checkAxisDirection(options.direction1, 'direction1');
   const d2 = checkAxisDirection(options.direction2, 'direction2');
   const tol = options.tolerance ?? 1e-9;
+  if (typeof tol !== 'number' || !(tol >= 1e-14 && tol <= 1e-3)) {
+    fail('BAD_OPTION', 'tolerance', `needs a number in [1e-14, 1e-3]; got ${String(tol)}`);
+  }
   // Rows with positive weight, in row order.
   const keep: number[] = [];
   for (let i = 0; i < a1.length; i++) if (aw[i]! > 0) keep.push(i);

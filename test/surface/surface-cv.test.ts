@@ -140,6 +140,7 @@ describe('errors', () => {
     expect(() => crossValidateSurface(x1, x2, y, { candidates2: [] })).toThrow('candidates2: needs at least one knot count; got none.');
     expect(() => crossValidateSurface(x1, x2, y, { candidates2: [3, 3] })).toThrow('candidates2: needs distinct knot counts; 3 appears more than once.');
     expect(() => crossValidateSurface(x1, x2, y, { folds: 1 })).toThrow('folds: needs a whole number from 2 to the number of rows used (30); got 1.');
+    expect(() => crossValidateSurface(x1, x2, y, { tolerance: 1 })).toThrow('tolerance: needs a number in [1e-14, 1e-3]; got 1.');
     expect(() => crossValidateSurface(x1, x2, y, { seed: 0, repeats: 2 })).toThrow(
       'repeats: needs 1 when seed is 0 (without shuffling every repeat has the same folds); got 2.',
     );
