@@ -2,7 +2,8 @@
  * Test setup: registers the tolerance matchers used by every reference check.
  *
  * `toBeCloseRel(expected, rel, abs?)` passes when |a − e| ≤ max(rel·|e|, abs) (abs defaults to
- * rel, so values near zero are compared absolutely at the same level).
+ * rel, so values near zero are compared absolutely at the same level — pass abs = 0 where expected
+ * values are tiny). An infinite expected value matches only the same infinity; NaN matches nothing.
  * `toBeAllCloseRel(expected, rel, abs?)` applies the same test entrywise to two arrays of equal
  * length and reports the worst entry.
  */
@@ -10,6 +11,8 @@ import { expect } from 'vitest';
 
 function within(a: number, e: number, rel: number, abs: number): boolean {
   if (Number.isNaN(a) || Number.isNaN(e)) return false;
+  // An infinite expected value is matched only by the same infinity (rel·∞ would accept anything).
+  if (!Number.isFinite(e) || !Number.isFinite(a)) return a === e;
   return Math.abs(a - e) <= Math.max(rel * Math.abs(e), abs);
 }
 
