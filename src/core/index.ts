@@ -21,7 +21,7 @@ export { SplitMix64, checkSeed } from './prng.js';
 export { foldSizes, repeatState, seededPermutation, kFoldAssignment, checkFolds, holdoutSize, holdoutAssignment } from './folds.js';
 export { suggestKnots, type SuggestionRule, type Suggestion, type ScoreForSuggestion } from './suggest-knots.js';
 export { crossValidate, holdoutValidate, defaultCandidates, type CrossValidationOptions, type CrossValidationResult, type CandidateScore, type HoldoutOptions, type KnotPlacement } from './cross-validate.js';
-export { fitSurface, surfaceChecked, predictSurface, checkSurfaceKnots, checkAxisDirection, SURFACE_MAX_NODES, SURFACE_EXACT_NODES, type SurfaceOptions, type SurfaceModel, type SurfaceKnotSpec, type AxisDirection, type OptimalityCertificate } from './surface.js';
+export { fitSurface, surfaceChecked, predictSurface, checkSurfaceKnots, checkAxisDirection, SURFACE_MAX_NODES, SURFACE_EXACT_NODES, SURFACE_ITERATIVE_NODES, type SurfaceOptions, type SurfaceModel, type SurfaceKnotSpec, type AxisDirection, type OptimalityCertificate } from './surface.js';
 export { latticeEdges, orderEnvelopeMean, admmLattice, inducedOrder, type LatticeEdges, type LatticeSolution } from './surface-solve.js';
 export { locate, evaluateLattice, assembleLattice, type LatticeSystem, type LatticeLocation } from './surface-lattice.js';
 export { crossValidateSurface, suggestSurfaceKnots, type SurfaceCrossValidationOptions, type SurfaceCrossValidationResult, type SurfaceCandidateScore, type SurfaceSuggestion } from './surface-cv.js';

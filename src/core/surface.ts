@@ -24,6 +24,11 @@ export type { AxisDirection, OptimalityCertificate } from './surface-solve.js';
 
 /** Largest lattice (K1·K2 nodes) the surface accepts. */
 export const SURFACE_MAX_NODES = 40000;
+/**
+ * Largest lattice for the iterative route (ADMM, seconds at this size); larger lattices are accepted
+ * only when at most {@link SURFACE_EXACT_NODES} nodes carry data (the exact route on those alone).
+ */
+export const SURFACE_ITERATIVE_NODES = 3600;
 /** Lattices up to this many nodes are solved exactly by the active-set method. */
 export const SURFACE_EXACT_NODES = 400;
 /** Lattices above this many nodes get an ADMM warm start before the exact method. */
@@ -145,7 +150,8 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  *    method runs on the whole lattice.
  * Lattices above 64 nodes first run ADMM ({@link admmLattice}: weighted pool-adjacent-violators on
  * every row and column, CG on the stencil; skipped for lattices above 2,500 nodes of which at most
- * 400 are identified, where route 1 alone is cheaper) until the optimality conditions hold to `tolerance` —
+ * 400 are identified, where route 1 alone is cheaper; lattices above 3,600 nodes with more than 400
+ * identified are refused, BAD_KNOTS) until the optimality conditions hold to `tolerance` —
  * stationarity max|Hθ − c − Aᵀλ| ≤ tol·max(‖c‖∞, ‖Hθ‖∞) with multipliers λ ≥ 0, and
  * complementarity Σλₑ(Aθ)ₑ ≤ tol · (weighted total sum of squares of y), at an exactly feasible θ.
  * Its answer warm-starts the exact method (edges it holds tight form the first working set), which
@@ -161,8 +167,8 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  * Cost: O(n log K + K1K2) to set up; ADMM O(9·K1K2) per CG step, a few steps per sweep, hundreds
  * of sweeps (at most 10,000, then NUMERICAL "use fewer knots"); the exact method a CG solve (or a
  * ≤ 31 × 31 Cholesky) per iteration. Measured on this machine (bench/surface.ts, loaded 2 cores):
- * a 30 × 30 lattice over 10⁴ rows in 0.2–0.6 s, 10 × 10 over 10⁵ rows in 0.03–0.1 s; lattices of
- * 60 × 60 and more can take seconds, 100 × 100 over 2·10⁴ rows about 30 s.
+ * a 30 × 30 lattice over 10⁴ rows in 0.2–0.6 s, 10 × 10 over 10⁵ rows in 0.03–0.1 s; 60 × 60
+ * lattices take 1–4 s (hence the 3,600-node limit of the iterative route).
  *
  * Edge cases: ties in (x1, x2) need no pooling. Rows with weight 0 get f(x) but no influence. Rows
  * outside explicit knots are fitted by the flat edge values. Constant y gives a constant surface.
@@ -175,7 +181,7 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  *   weights (default 1), tolerance (default 1e-9).
  * @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_OPTION (direction,
  *   tolerance), BAD_KNOTS (count not a whole number in [2, 200], positions not increasing, lattice
- *   over 40,000 nodes, or a lattice value over 1e10 × max |y| — knots the data touch only through
+ *   over 40,000 nodes, or over 3,600 with more than 400 touched by the data, or a lattice value over 1e10 × max |y| — knots the data touch only through
  *   tiny interpolation shares), TOO_FEW_POINTS (fewer than 2 distinct values with positive weight along an
  *   axis that places knots from the data), NUMERICAL (iterative solver out of sweeps).
  * @example fitSurface([0, 1, 0, 1], [0, 0, 1, 1], [1, 2, 3, 4]).values // → Float64Array [1, 2, 3, 4]
@@ -311,6 +317,13 @@ export function surfaceChecked(
   const edges = latticeEdges(k1, k2, d1, d2);
   // (Skipped when few identified nodes sit in a large lattice: the exact method on them alone is cheaper.)
   const compactCold = determined && M <= SURFACE_EXACT_NODES && N > COLD_START_NODES;
+  if (N > SURFACE_ITERATIVE_NODES && edges.lo.length > 0 && !(determined && M <= SURFACE_EXACT_NODES)) {
+    fail(
+      'BAD_KNOTS',
+      'knots1',
+      `with knots2, needs a lattice of at most ${SURFACE_ITERATIVE_NODES} nodes unless at most ${SURFACE_EXACT_NODES} carry data; got ${k1}×${k2} = ${N} with ${M} touched by the data — use fewer knots (or knot counts instead of every level)`,
+    );
+  }
   const approx = N > WARM_START_NODES && edges.lo.length > 0 && !compactCold ? admmLattice(sys, edges, d1, d2, scaleSS, tol, MAX_SWEEPS, false) : null;
   const approxOk = approx !== null && approx.certificate.stationarity <= tol && approx.certificate.complementarity <= tol;
   const exactLimit = approxOk ? POLISH_ITERATIONS : undefined;

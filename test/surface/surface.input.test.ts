@@ -127,6 +127,22 @@ describe('bad input: codes and messages', () => {
     );
   });
 
+  it('over 3,600 nodes with more than 400 touched by data is refused (the iterative route would take too long)', () => {
+    const a = Array.from({ length: 600 }, (_, i) => i % 70);
+    const b = Array.from({ length: 600 }, (_, i) => Math.floor(i / 7) % 70);
+    const touched = new Set(a.map((v, i) => `${v},${b[i]}`)).size;
+    expect(touched).toBeGreaterThan(400);
+    expect(() => fitSurface(a, b, a)).toThrow(
+      `knots1: with knots2, needs a lattice of at most 3600 nodes unless at most 400 carry data; got 70×70 = 4900 with ${touched} touched by the data — use fewer knots (or knot counts instead of every level).`,
+    );
+    // Few touched nodes in a big lattice are fine: the exact route works on them alone.
+    const c = Array.from({ length: 300 }, (_, i) => i % 75);
+    const d = Array.from({ length: 300 }, (_, i) => Math.floor(i / 4));
+    const m = fitSurface(c, d, c);
+    expect(m.knots1.length * m.knots2.length).toBeGreaterThan(3600);
+    expect(m.solver).toBe('active-set');
+  });
+
   it('a lattice over 40,000 nodes is refused with the size in the message', () => {
     const n = 250;
     const a = Array.from({ length: n }, (_, i) => i);
