@@ -321,7 +321,7 @@ export function surfaceChecked(
     fail(
       'BAD_KNOTS',
       'knots1',
-      `with knots2, needs a lattice of at most ${SURFACE_ITERATIVE_NODES} nodes unless at most ${SURFACE_EXACT_NODES} carry data; got ${k1}×${k2} = ${N} with ${M} touched by the data — use fewer knots (or knot counts instead of every level)`,
+      `with knots2, needs a lattice of at most ${SURFACE_ITERATIVE_NODES} nodes unless the data touch and determine at most ${SURFACE_EXACT_NODES} of them; got ${k1}×${k2} = ${N} with ${M} touched by the data — use fewer knots (or knot counts instead of every level)`,
     );
   }
   const approx = N > WARM_START_NODES && edges.lo.length > 0 && !compactCold ? admmLattice(sys, edges, d1, d2, scaleSS, tol, MAX_SWEEPS, false) : null;

@@ -133,7 +133,7 @@ describe('bad input: codes and messages', () => {
     const touched = new Set(a.map((v, i) => `${v},${b[i]}`)).size;
     expect(touched).toBeGreaterThan(400);
     expect(() => fitSurface(a, b, a)).toThrow(
-      `knots1: with knots2, needs a lattice of at most 3600 nodes unless at most 400 carry data; got 70×70 = 4900 with ${touched} touched by the data — use fewer knots (or knot counts instead of every level).`,
+      `knots1: with knots2, needs a lattice of at most 3600 nodes unless the data touch and determine at most 400 of them; got 70×70 = 4900 with ${touched} touched by the data — use fewer knots (or knot counts instead of every level).`,
     );
     // Few touched nodes in a big lattice are fine: the exact route works on them alone.
     const c = Array.from({ length: 300 }, (_, i) => i % 75);
