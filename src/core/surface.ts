@@ -134,7 +134,9 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  *
  * Classic case: with knots1 = knots2 = 0 the lattice is every distinct x1 × every distinct x2 (with
  * positive weight); each row sits on a node, and the fit is bivariate isotonic regression on that
- * grid (Robertson, Wright & Dykstra 1988, §1.3; Dykstra & Robertson 1982, Annals of Statistics 10).
+ * grid — the problem R's Iso::biviso solves on complete grids (tests compare with it) — with level
+ * combinations without data left free and filled as below (Dykstra & Robertson 1982, Annals of
+ * Statistics 10, on the two-variable problem; citation from memory).
  *
  * Method: one O(n log K) pass assembles the 9-point stencil H = BᵀWB and BᵀWy (no n × K1K2 and no
  * dense K1K2 × K1K2 matrix). A banded Cholesky check (band storage, skipped beyond
@@ -143,7 +145,8 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  * 1. Exact route (determined): an active-set method ({@link activeSetSparse}) on the identified
  *    nodes alone, under the order the lattice induces on them ({@link inducedOrder}) — no
  *    regularisation, the exact optimum up to rounding. Used when there are at most
- *    {@link SURFACE_EXACT_NODES} identified nodes, or for more once ADMM has converged (below).
+ *    {@link SURFACE_EXACT_NODES} identified nodes, or — when every node is identified — for more,
+ *    once ADMM has converged (below).
  * 2. Otherwise a tie-break of relative size 1e-12 (Σ over lattice edges of (θ_p − θ_q)², the
  *    lattice's graph Laplacian) makes H positive definite and the optimum unique;
  *    fitted values then agree with the untied optimum to about 1e-12 relative, and the active-set
@@ -181,8 +184,9 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  *   weights (default 1), tolerance (default 1e-9).
  * @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_OPTION (direction,
  *   tolerance), BAD_KNOTS (count not a whole number in [2, 200], positions not increasing, lattice
- *   over 40,000 nodes, or over 3,600 with more than 400 touched by the data, or a lattice value over 1e10 × max |y| — knots the data touch only through
- *   tiny interpolation shares), TOO_FEW_POINTS (fewer than 2 distinct values with positive weight along an
+ *   over 40,000 nodes, or over 3,600 unless the data touch and determine at most 400, or a lattice
+ *   value over 1e10 × max |y| — knots the data touch only through tiny interpolation shares),
+ *   TOO_FEW_POINTS (fewer than 2 distinct values with positive weight along an
  *   axis that places knots from the data), NUMERICAL (iterative solver out of sweeps).
  * @example fitSurface([0, 1, 0, 1], [0, 0, 1, 1], [1, 2, 3, 4]).values // → Float64Array [1, 2, 3, 4]
  * @see Luss, Rosset & Shahar (2012), Annals of Applied Statistics 6(1) — over-fit of multivariate
