@@ -40,7 +40,7 @@ const MAX_SWEEPS = 10000;
 /** Above this many nodes, a lattice whose data touch at most 400 nodes skips the warm start. */
 const COLD_START_NODES = 2500;
 /** Iteration cap of the exact method after a converged warm start (beyond it, ADMM's answer stands). */
-const POLISH_ITERATIONS = 400;
+const POLISH_ITERATIONS = 2000;
 /** Relative size of the tie-break that makes the optimum unique. */
 const TIE_BREAK = 1e-12;
 /** Largest K1K2·(K1 + 2)² for which the banded positive-definiteness check runs (~0.2 s). */
@@ -158,7 +158,7 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  * stationarity max|Hθ − c − Aᵀλ| ≤ tol·max(‖c‖∞, ‖Hθ‖∞) with multipliers λ ≥ 0, and
  * complementarity Σλₑ(Aθ)ₑ ≤ tol · (weighted total sum of squares of y), at an exactly feasible θ.
  * Its answer warm-starts the exact method (edges it holds tight form the first working set), which
- * then usually needs a few dozen iterations; if that takes more than 400 iterations the ADMM answer
+ * then usually needs a few dozen to a few hundred iterations; if it takes more than 2,000 the ADMM answer
  * stands (`solver` says which). `certificate` reports the conditions at the returned lattice.
  *
  * Unidentified nodes (no row with positive weight inside the four cells around the node or on it —
