@@ -10,6 +10,7 @@ import { fileURLToPath } from 'node:url';
 import { createRequire } from 'node:module';
 import HtmlWebpackPlugin from 'html-webpack-plugin';
 import CopyWebpackPlugin from 'copy-webpack-plugin';
+import { renderHelpPage } from './scripts/help-page.mjs';
 
 const require = createRequire(import.meta.url);
 const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin');
@@ -55,6 +56,18 @@ export default async (env, options) => {
       ],
     },
     plugins: [
+      // help.html: the README rendered with heading anchors; every function's help link lands on its section.
+      {
+        apply(compiler) {
+          compiler.hooks.thisCompilation.tap('RatchetHelpPage', (compilation) => {
+            const readme = path.resolve(here, 'README.md');
+            compilation.fileDependencies.add(readme);
+            compilation.hooks.processAssets.tap({ name: 'RatchetHelpPage', stage: compiler.webpack.Compilation.PROCESS_ASSETS_STAGE_ADDITIONAL }, () => {
+              compilation.emitAsset('help.html', new compiler.webpack.sources.RawSource(renderHelpPage(readme)));
+            });
+          });
+        },
+      },
       new CustomFunctionsMetadataPlugin({ output: 'functions.json', input: './src/functions/functions.ts' }),
       // The pane loads office.js only when hosted in Office, then imports the functions module itself
       // (CustomFunctions.associate needs office.js first), so the page carries the taskpane chunk only.

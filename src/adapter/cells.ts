@@ -1,7 +1,7 @@
 /**
  * Reading worksheet arguments (host-neutral {@link CellArg}s) into numbers and options.
  *
- * Cell rules, the same for every function (documented in docs/functions.md, "Cells"):
+ * Cell rules, the same for every function (documented for users in README.md, "How cells are read"):
  * - a number is used as is; it must be finite and 0 or of magnitude from {@link MIN_MAGNITUDE} (1e-300)
  *   to {@link MAX_MAGNITUDE} (1e100) — larger values would overflow sums of squares, smaller ones
  *   underflow knot spacings — else `#VALUE!`;

@@ -1,7 +1,7 @@
 /**
  * The one mapping from what a worksheet function throws to the cell error a host shows.
  *
- * Policy (documented for users in docs/functions.md, "Errors"):
+ * Policy (documented for users in README.md, "Errors"):
  * - every argument problem (a {@link RatchetError} with any code except the three below) → `#VALUE!`
  *   with the error's message, which names the argument and what it needs;
  * - `NOT_REACHABLE` (INVERT target outside the curve's range) → `#N/A` with its message;

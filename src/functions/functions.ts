@@ -88,7 +88,7 @@ export async function call(name: string, raw: readonly unknown[], invocation?: C
 /**
  * Monotone fitted value for every row of known_ys, same shape; rows left out (blank x, y or weight) stay empty.
  * @customfunction FIT FIT
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetfit
+ * @helpurl https://localhost:3000/help.html#ratchetfit
  * @requiresParameterAddresses
  * @param known_ys Observed values: one column or one row. Rows with a blank here, in known_xs or in weights are left out.
  * @param known_xs Inputs, one per known_ys cell (a column or a row). Blank cells leave their row out.
@@ -105,7 +105,7 @@ export async function fit(known_ys: any[][], known_xs: any[][], knots?: any[][],
 /**
  * Value of the monotone curve fitted to known_ys and known_xs at each new x (flat beyond the data).
  * @customfunction PREDICT PREDICT
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetpredict
+ * @helpurl https://localhost:3000/help.html#ratchetpredict
  * @requiresParameterAddresses
  * @param new_xs Inputs at which to read the curve: a cell or a range of any shape; blanks stay blank.
  * @param known_ys Observed values: one column or one row. Rows with a blank here, in known_xs or in weights are left out.
@@ -123,7 +123,7 @@ export async function predict(new_xs: any[][], known_ys: any[][], known_xs: any[
 /**
  * The fitted model as a table: one row per knot, two columns (knot x, fitted value).
  * @customfunction KNOTS KNOTS
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetknots
+ * @helpurl https://localhost:3000/help.html#ratchetknots
  * @requiresParameterAddresses
  * @param known_ys Observed values: one column or one row. Rows with a blank here, in known_xs or in weights are left out.
  * @param known_xs Inputs, one per known_ys cell (a column or a row). Blank cells leave their row out.
@@ -140,7 +140,7 @@ export async function knots(known_ys: any[][], known_xs: any[][], knots?: any[][
 /**
  * Reads a knot table at each new x: straight lines between knots, flat beyond the ends. No refit.
  * @customfunction EVAL EVAL
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratcheteval
+ * @helpurl https://localhost:3000/help.html#ratcheteval
  * @requiresParameterAddresses
  * @param new_xs Inputs at which to read the curve: a cell or a range of any shape; blanks stay blank.
  * @param knot_table Two columns: knot x (strictly increasing) and value, e.g. the result of RATCHET.KNOTS.
@@ -154,7 +154,7 @@ export async function evaluate(new_xs: any[][], knot_table: any[][], invocation?
 /**
  * The x at which the curve of a knot table reaches each target value.
  * @customfunction INVERT INVERT
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetinvert
+ * @helpurl https://localhost:3000/help.html#ratchetinvert
  * @requiresParameterAddresses
  * @param target_ys Curve values to read back: a cell or a range; blanks stay blank.
  * @param knot_table Two columns: knot x (strictly increasing) and value, e.g. the result of RATCHET.KNOTS.
@@ -169,7 +169,7 @@ export async function invert(target_ys: any[][], knot_table: any[][], tie?: any,
 /**
  * count knot positions at quantiles of known_xs, as a column to pass as knots.
  * @customfunction QKNOTS QKNOTS
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetqknots
+ * @helpurl https://localhost:3000/help.html#ratchetqknots
  * @requiresParameterAddresses
  * @param known_xs Inputs, one per known_ys cell (a column or a row). Blank cells leave their row out.
  * @param count Number of knots, a whole number ≥ 2.
@@ -183,7 +183,7 @@ export async function quantileKnotPositions(known_xs: any[][], count: any, invoc
 /**
  * Cross-validation table: a header row, then per candidate knot count its cv_rmse, cv_se, cv_r2, cv_mae and train_rmse.
  * @customfunction CV CV
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetcv
+ * @helpurl https://localhost:3000/help.html#ratchetcv
  * @requiresParameterAddresses
  * @cancelable
  * @param known_ys Observed values: one column or one row. Rows with a blank here, in known_xs or in weights are left out.
@@ -204,7 +204,7 @@ export async function crossValidation(known_ys: any[][], known_xs: any[][], cand
 /**
  * The knot count suggested by cross-validation (one-standard-error rule by default).
  * @customfunction BESTK BESTK
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetbestk
+ * @helpurl https://localhost:3000/help.html#ratchetbestk
  * @requiresParameterAddresses
  * @cancelable
  * @param known_ys Observed values: one column or one row. Rows with a blank here, in known_xs or in weights are left out.
@@ -226,7 +226,7 @@ export async function bestKnotCount(known_ys: any[][], known_xs: any[][], candid
 /**
  * Fit statistics as label/value rows: n, dropped, knots, direction, r2, rmse, mae, sse, levels.
  * @customfunction STATS STATS
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetstats
+ * @helpurl https://localhost:3000/help.html#ratchetstats
  * @requiresParameterAddresses
  * @param known_ys Observed values: one column or one row. Rows with a blank here, in known_xs or in weights are left out.
  * @param known_xs Inputs, one per known_ys cell (a column or a row). Blank cells leave their row out.
@@ -243,7 +243,7 @@ export async function statistics(known_ys: any[][], known_xs: any[][], knots?: a
 /**
  * Value of the monotone surface fitted to known_ys over two inputs at each new (x1, x2) pair (flat beyond the knots).
  * @customfunction SURFACE SURFACE
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetsurface
+ * @helpurl https://localhost:3000/help.html#ratchetsurface
  * @requiresParameterAddresses
  * @param new_x1s First inputs at which to read the surface: a cell or a range of any shape; blanks stay blank.
  * @param new_x2s Second inputs, one per new_x1s cell (same number of cells).
@@ -265,7 +265,7 @@ export async function surface(new_x1s: any[][], new_x2s: any[][], known_ys: any[
 /**
  * The fitted surface as a table: x1 knots across the first row, x2 knots down the first column, fitted values inside.
  * @customfunction GRID GRID
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetgrid
+ * @helpurl https://localhost:3000/help.html#ratchetgrid
  * @requiresParameterAddresses
  * @param known_ys Observed values: one column or one row. Rows with a blank here, in an input or in weights are left out.
  * @param known_x1s First input, one per known_ys cell (a column or a row). Blank cells leave their row out.
@@ -285,7 +285,7 @@ export async function surfaceGrid(known_ys: any[][], known_x1s: any[][], known_x
 /**
  * Cross-validation of knot pairs for the surface: a header row, then knots1, knots2, cv_rmse, cv_se and cv_r2 per pair.
  * @customfunction CVGRID CVGRID
- * @helpurl https://github.com/ratchet-monotone/ratchet/blob/main/README.md#ratchetcvgrid
+ * @helpurl https://localhost:3000/help.html#ratchetcvgrid
  * @requiresParameterAddresses
  * @cancelable
  * @param known_ys Observed values: one column or one row. Rows with a blank here, in an input or in weights are left out.

@@ -11,10 +11,14 @@ import { SURFACE_FUNCTIONS } from './surface-functions.js';
 /** Namespace users type before each function name. */
 export const NAMESPACE = 'RATCHET';
 
-/** Base of the help links; each function's anchor is its full name lower-cased without the dot. */
-export const HELP_BASE = 'https://github.com/ratchet-monotone/ratchet/blob/main/README.md';
+/**
+ * Base of the help links: the README rendered as help.html and served with the add-in (same origin
+ * as every URL in manifest.xml; replace it together with them when deploying). Each function's
+ * anchor is its full name lower-cased without the dot, the anchor of its README heading.
+ */
+export const HELP_BASE = 'https://localhost:3000/help.html';
 
-/** The help URL of a function: README section "RATCHET.FIT" → `…README.md#ratchetfit`. */
+/** The help URL of a function: README section "RATCHET.FIT" → `…/help.html#ratchetfit`. */
 export function helpUrlOf(name: string): string {
   return `${HELP_BASE}#${NAMESPACE.toLowerCase()}${name.toLowerCase()}`;
 }

@@ -1,5 +1,5 @@
 /**
- * The examples of docs/functions.md, evaluated: every number the reference prints (6 significant
+ * The examples of the README's function reference, evaluated: every number the reference prints (6 significant
  * digits) is what the function returns on the invented example data, and every example error is the
  * one stated. Hand checks where simple: PAVA pools 14, 12 → 13 and 17, 16 → 16.5 (common practice).
  */
@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { cell, col } from './helpers.js';
 
-const doc = readFileSync(new URL('../../docs/functions.md', import.meta.url), 'utf8');
+const doc = readFileSync(new URL('../../README.md', import.meta.url), 'utf8');
 const hours = col(1, 2, 3, 4, 5, 6);
 const hardness = col(10, 14, 12, 17, 16, 21);
 const sig6 = (v: unknown) => (typeof v === 'number' ? Number(v.toPrecision(6)) : v);
@@ -16,7 +16,7 @@ const round = (r: unknown) => (Array.isArray(r) ? r.map((row) => (row as unknown
 /** Asserts the doc mentions `text` (so this test and the reference cannot drift apart silently). */
 const documented = (text: string) => expect(doc).toContain(text);
 
-describe('docs/functions.md examples', () => {
+describe('function reference examples (README.md)', () => {
   it('FIT', () => {
     documented('`=RATCHET.FIT(B2:B7, A2:A7)` → 10, 13, 13, 16.5, 16.5, 21');
     expect(cell('FIT', hardness, hours)).toEqual([[10], [13], [13], [16.5], [16.5], [21]]);

@@ -11,6 +11,7 @@ import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import { SHEET_FUNCTIONS, helpUrlOf } from '../../src/functions/registry.js';
+import { headingAnchors, renderHelpPage } from '../../scripts/help-page.mjs';
 
 interface ParamMeta {
   name: string;
@@ -86,14 +87,28 @@ describe('generated functions.json', () => {
   });
 
   it('each of the nine has a description, per-argument descriptions and a help URL on its section of the reference', () => {
-    const reference = readFileSync(fileURLToPath(new URL('../../docs/functions.md', import.meta.url)), 'utf8');
+    const readme = readFileSync(fileURLToPath(new URL('../../README.md', import.meta.url)), 'utf8');
+    const anchors = new Set(headingAnchors(readme));
     for (const f of nine()) {
       expect(f.description.length).toBeGreaterThan(20);
       for (const p of f.parameters) expect(p.description?.length ?? 0).toBeGreaterThan(10);
       expect(f.helpUrl).toBe(helpUrlOf(f.id));
-      expect(f.helpUrl).toMatch(/^https:\/\/.+README\.md#ratchet[a-z]+$/);
-      // GitHub's anchor of the heading "### RATCHET.FIT" is "ratchetfit".
-      expect(reference).toContain(`\n### RATCHET.${f.id}\n`);
+      expect(f.helpUrl).toMatch(/^https:\/\/localhost:3000\/help\.html#ratchet[a-z]+$/);
+      // The help page is the README with an id on every heading; "### RATCHET.FIT" gets "ratchetfit".
+      expect(readme).toContain(`\n### RATCHET.${f.id}\n`);
+      expect(anchors.has(f.helpUrl.split('#')[1]!)).toBe(true);
     }
+  });
+
+  it('every registered function (surfaces included) links to an existing heading of the help page', () => {
+    const readmePath = fileURLToPath(new URL('../../README.md', import.meta.url));
+    const page = renderHelpPage(readmePath);
+    for (const f of SHEET_FUNCTIONS) {
+      const anchor = helpUrlOf(f.name).split('#')[1]!;
+      expect(page).toContain(`<h3 id="${anchor}">RATCHET.${f.name}</h3>`);
+    }
+    // The page is self-contained: no script of any kind, and a CSP that forbids them.
+    expect(page).not.toMatch(/<script/i);
+    expect(page).toContain("default-src 'none'");
   });
 });

@@ -152,7 +152,7 @@ describe('errors map to cell errors with the argument named', () => {
   });
 });
 
-describe('the examples of docs/surface.md (invented oven data; values as printed there, 6 significant digits)', () => {
+describe('the surface examples of the README (invented oven data; values as printed there, 6 significant digits)', () => {
   const temp = col(160, 160, 160, 180, 180, 180, 200, 200, 200, 170, 190, 190);
   const time = col(10, 20, 30, 10, 20, 30, 10, 20, 30, 25, 15, 25);
   const hard = col(41, 47, 45, 44, 46, 52, 50, 48, 58, 46, 49, 53);
