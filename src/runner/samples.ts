@@ -10,10 +10,13 @@
 import {
   SplitMix64,
   crossValidate,
+  crossValidateSurface,
   fitMonotone,
+  fitSurface,
   interpolate,
   invertAt,
   predict,
+  predictSurface,
   quantileKnots,
   suggestKnots,
   type DirectionOption,
@@ -44,6 +47,9 @@ export interface SampleData {
   readonly direction: number;
   readonly xLabel: string;
   readonly yLabel: string;
+  /** A surface sample: its second input (the demo then shows RATCHET.GRID, not a curve). */
+  readonly x2s?: string;
+  readonly x2Label?: string;
 }
 
 /** One sample workbook. */
@@ -348,7 +354,87 @@ function knotStudy(): Sample {
   };
 }
 
+/** A surface fit's lattice as RATCHET.GRID lays it out: corner "", x1 knots across, x2 knots down. */
+function gridTable(m: { knots1: Float64Array; knots2: Float64Array; values: Float64Array }): ExpectedCell[][] {
+  const k1 = m.knots1.length;
+  const out: ExpectedCell[][] = [['', ...Array.from(m.knots1)]];
+  for (let b = 0; b < m.knots2.length; b++) out.push([m.knots2[b]!, ...Array.from(m.values.subarray(b * k1, (b + 1) * k1))]);
+  return out;
+}
+
+function curing(): Sample {
+  const z = normals(5150);
+  const u = uniforms(5151);
+  const temps = [140, 150, 160, 170, 180, 190, 200];
+  const dwells = [5, 10, 15, 20, 25, 30];
+  const temp: number[] = [];
+  const dwell: number[] = [];
+  const hardness: number[] = [];
+  for (const t of temps) {
+    for (const d of dwells) {
+      // One panel per setting, a second one at about a quarter of them.
+      const copies = u() < 0.25 ? 2 : 1;
+      for (let c = 0; c < copies; c++) {
+        const mean = 18 + 62 * (1 - Math.exp(-(t - 128) / 30)) * (1 - Math.exp(-d / 9));
+        temp.push(t);
+        dwell.push(d);
+        hardness.push(round(mean + 3 * z(), 1));
+      }
+    }
+  }
+  const n = temp.length;
+  const last = n + 1;
+  const Y = `C2:C${last}`;
+  const X1 = `A2:A${last}`;
+  const X2 = `B2:B${last}`;
+  const classic = fitSurface(temp, dwell, hardness);
+  const lattice = fitSurface(temp, dwell, hardness, { knots1: 4, knots2: 3 });
+  // New settings to read; the last lies beyond both data ranges (flat extrapolation).
+  const newT = [145, 165, 175, 195, 230];
+  const newD = [8, 12, 22, 28, 45];
+  const cands = [2, 3, 4];
+  const cv = crossValidateSurface(temp, dwell, hardness, { candidates1: cands, candidates2: cands, folds: 5, repeats: 1, seed: 1 });
+  const cvRows: ExpectedCell[][] = [['knots1', 'knots2', 'cv_rmse', 'cv_se', 'cv_r2'], ...cv.scores.map((s) => [s.knots1, s.knots2, s.cvRmse, s.cvSe, s.cvR2])];
+  const classicRows = classic.knots2.length + 1;
+  const latticeAt = classicRows + 4; // row of the 4 × 3 GRID, below the classic one and its label
+  const seq = 'SEQUENCE(3,1,2)';
+  return {
+    file: 'coating-cure.xlsx',
+    title: 'Curing-oven temperature and dwell time vs coating hardness (a monotone surface)',
+    about: [
+      'Ratchet sample: a surface monotone in two inputs — oven temperature and dwell time vs hardness of a cured coating (invented).',
+      '',
+      `Scenario (invented): steel test panels are painted and cured in an oven at 140 to 200 °C for 5 to 30 minutes, then scratch-tested. The hardness index (an invented 0–100 scale) rises with temperature and with time and levels off. ${n} invented panels from a seeded random generator; about a quarter of the settings were tested twice.`,
+      'Data sheet: column A oven temperature (°C), column B dwell time (min), column C hardness index.',
+      `E:L RATCHET.GRID with knots 0, 0 — the classic case: one value at every temperature × every dwell time (${temps.length} × ${dwells.length} = ${temps.length * dwells.length} values). The first row holds the temperatures, the first column the dwell times.`,
+      `E${latticeAt}:I${latticeAt + 3} RATCHET.GRID with 4 × 3 evenly spaced knots (12 values): the same data with far fewer numbers; between knots the surface is bilinear.`,
+      'N:O new settings; P the 4 × 3 surface read there (RATCHET.SURFACE); Q the classic surface. The last setting, 230 °C for 45 min, lies beyond both data ranges: the surface is held flat there — that value is the corner of the lattice, not a measurement.',
+      'S:W RATCHET.CVGRID: 5-fold cross-validation (seed 1) of every pair of 2, 3 or 4 knots per input. Compare cv_rmse with cv_se before preferring a larger lattice.',
+      '',
+      'Cautions:',
+      '• The scenario, the numbers and the units in this workbook are invented to show how the functions work. They describe no real coating, oven, test method or laboratory.',
+      '• A monotone surface assumes the response can only rise (or only fall) with each input separately, the other held fixed. If that is not known to be true for your process in both inputs, the fit hides real features of the data (a peak, an over-cure).',
+      '• The number of fitted values grows as knots1 × knots2. A lattice with nearly as many values as data points follows the noise (over-fit); the classic case here has almost one value per panel. Prefer the smallest lattice that cross-validation cannot tell apart from the best.',
+      '• Beyond the smallest and largest value of each input the surface is held flat: predictions there are not measurements. Do not extrapolate.',
+      '• With few points per setting, every estimate here (the lattice, the cross-validation scores) is uncertain.',
+      '• Where a standard, a specification or a method statement governs your work, follow it; this workbook does not replace it.',
+      ...COMMON_CAUTIONS.slice(COMMON_CAUTIONS.indexOf('')),
+    ],
+    headers: { A: 'oven temp °C', B: 'dwell min', C: 'hardness', E: 'classic lattice (GRID, knots 0, 0)', N: 'new temp °C', O: 'new dwell min', P: '4 × 3 surface', Q: 'classic surface', S: 'cross-validation (CVGRID)' },
+    columns: { A: temp, B: dwell, C: hardness, N: newT, O: newD },
+    labels: { [`E${latticeAt - 1}`]: '4 × 3 knots (GRID)' },
+    formulas: [
+      { cell: 'E2', formula: `=RATCHET.GRID(${Y},${X1},${X2},0,0)`, expected: gridTable(classic) },
+      { cell: `E${latticeAt}`, formula: `=RATCHET.GRID(${Y},${X1},${X2},4,3)`, expected: gridTable(lattice) },
+      { cell: 'P2', formula: `=RATCHET.SURFACE(N2:N6,O2:O6,${Y},${X1},${X2},4,3)`, expected: column(predictSurface(lattice, newT, newD)) },
+      { cell: 'Q2', formula: `=RATCHET.SURFACE(N2:N6,O2:O6,${Y},${X1},${X2})`, expected: column(predictSurface(classic, newT, newD)) },
+      { cell: 'S2', formula: `=RATCHET.CVGRID(${Y},${X1},${X2},${seq},${seq},5,1,1)`, expected: cvRows },
+    ],
+    data: { ys: Y, xs: X1, x2s: X2, direction: 1, xLabel: 'oven temperature (°C)', x2Label: 'dwell time (min)', yLabel: 'hardness index' },
+  };
+}
+
 /** All samples, in the order the demo shows them. */
 export function buildSamples(): Sample[] {
-  return [kiln(), adhesive(), calibration(), knotStudy()];
+  return [kiln(), adhesive(), calibration(), knotStudy(), curing()];
 }
