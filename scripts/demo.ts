@@ -1,6 +1,7 @@
 /**
  * `npm run demo`: evaluates every sample workbook headlessly and prints, per sample, the
- * suggested knot count, its cv_rmse and the knot table; writes an SVG of each fit to out/.
+ * suggested knot count, its cv_rmse and the knot table (for the surface sample: the suggested
+ * lattice and its RATCHET.GRID table); writes an SVG of each fit (or a heat-map) to out/.
  */
 import { join } from 'node:path';
 import '../src/runner/ratchet.js';

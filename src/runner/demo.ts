@@ -1,19 +1,25 @@
 /**
  * `npm run demo`: evaluates every sample workbook with the headless runner and, per sample,
  * prints the suggested knot count, its cv_rmse and the knot table, and writes an SVG picture of
- * the fit (data points, fitted curve, knots, axes and labels) to out/.
+ * the fit (data points, fitted curve, knots, axes and labels) to out/. A surface sample (two
+ * inputs) gets the suggested (knots1, knots2) pair from RATCHET.CVGRID, the RATCHET.GRID table of
+ * that lattice, and an SVG heat-map of it.
  *
  * Everything shown is computed by RATCHET formulas evaluated in the workbook (the runner sets
- * them into free cells of the Data sheet in memory; the sample files are not changed).
+ * them into free cells of the Data sheet in memory; the sample files are not changed); only the
+ * one-standard-error choice among the CVGRID rows is made here, by the core's suggestSurfaceKnots.
  */
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { EvaluatedWorkbook, type JsonCell } from './workbook.js';
 import type { SampleData } from './samples.js';
 import { parseRange } from './address.js';
+import { suggestSurfaceKnots } from '../core/index.js';
+import { heatColour, heatmapFromGrid, hex, type HeatmapView } from '../../taskpane/heat-scale.js';
 
-/** What the demo computed for one sample. */
-export interface DemoResult {
+/** What the demo computed for one sample with one input. */
+export interface CurveDemoResult {
+  readonly kind: 'curve';
   readonly file: string;
   readonly title: string;
   readonly suggested: number;
@@ -24,6 +30,24 @@ export interface DemoResult {
   readonly points: [number, number][];
   readonly svgPath: string;
 }
+
+/** What the demo computed for a surface sample (two inputs). */
+export interface SurfaceDemoResult {
+  readonly kind: 'surface';
+  readonly file: string;
+  readonly title: string;
+  /** The (knots1, knots2) pair the one-standard-error rule picks from the CVGRID table. */
+  readonly suggested: [number, number];
+  readonly cvRmse: number;
+  readonly cvSe: number;
+  /** The RATCHET.GRID table of that lattice. */
+  readonly grid: HeatmapView;
+  /** Rows with y, x1 and x2 all numbers. */
+  readonly rows: number;
+  readonly svgPath: string;
+}
+
+export type DemoResult = CurveDemoResult | SurfaceDemoResult;
 
 const num = (v: JsonCell | undefined): number => (typeof v === 'number' ? v : NaN);
 
@@ -48,6 +72,10 @@ export async function runDemo(root: string, log: (line: string) => void = consol
   for (const [file, s] of Object.entries(index.samples)) {
     const book = await EvaluatedWorkbook.fromFile(join(samplesDir, file));
     const d = s.data;
+    if (d.x2s !== undefined) {
+      results.push(surfaceDemo(book, file, s.title, d, outDir, log));
+      continue;
+    }
     const w = d.weights ?? '';
     // Default candidates (2 … min(20, distinct x)), 5 folds, 1 repeat, seed 1, one-SE rule.
     book.set({
@@ -71,7 +99,7 @@ export async function runDemo(root: string, log: (line: string) => void = consol
     });
     const svgPath = join(outDir, file.replace(/\.xlsx$/, '.svg'));
     writeFileSync(svgPath, fitSvg({ title: s.title, xLabel: d.xLabel, yLabel: d.yLabel, points, knots, classic, suggested: bestCell }));
-    const result: DemoResult = { file, title: s.title, suggested: bestCell, cvRmse: num(row[1]), cvSe: num(row[2]), knots, classic, points, svgPath };
+    const result: CurveDemoResult = { kind: 'curve', file, title: s.title, suggested: bestCell, cvRmse: num(row[1]), cvSe: num(row[2]), knots, classic, points, svgPath };
     results.push(result);
 
     log(`${file} — ${s.title} (invented data)`);
@@ -83,6 +111,86 @@ export async function runDemo(root: string, log: (line: string) => void = consol
     log('');
   }
   return results;
+}
+
+/** The surface part of the demo: CVGRID with its defaults, the suggested pair, its GRID, a heat-map SVG. */
+function surfaceDemo(book: EvaluatedWorkbook, file: string, title: string, d: SampleData, outDir: string, log: (line: string) => void): SurfaceDemoResult {
+  const dir = d.direction;
+  const x2s = d.x2s!;
+  // Default candidates (2 … min(6, distinct levels) per input), 5 folds, 1 repeat, seed 1.
+  book.set({ 'Data!AA1': `=RATCHET.CVGRID(${d.ys},${d.xs},${x2s},,,,,,${dir},${dir})` });
+  const cv = book.result('Data!AA1');
+  if (cv[0]?.[0] !== 'knots1') throw new Error(`${file}: CVGRID gave ${String(cv[0]?.[0])}: ${book.message('Data!AA1') ?? ''}`);
+  const scores = cv.slice(1).map((r) => ({ knots1: num(r[0]), knots2: num(r[1]), cvRmse: num(r[2]), cvSe: num(r[3]) }));
+  const pick = suggestSurfaceKnots(scores, 'one-se');
+  const chosen = scores[pick.index]!;
+  book.set({ 'Data!AH1': `=RATCHET.GRID(${d.ys},${d.xs},${x2s},${pick.knots1},${pick.knots2},${dir},${dir})` });
+  const grid = heatmapFromGrid(book.result('Data!AH1'));
+  const x1 = columnOf(book, d.xs);
+  const x2 = columnOf(book, x2s);
+  const y = columnOf(book, d.ys);
+  const rows = y.filter((v, i) => typeof v === 'number' && typeof x1[i] === 'number' && typeof x2[i] === 'number').length;
+  const svgPath = join(outDir, file.replace(/\.xlsx$/, '.svg'));
+  const x2Label = d.x2Label ?? 'x2';
+  writeFileSync(svgPath, heatmapSvg({ title, xLabel: d.xLabel, x2Label, yLabel: d.yLabel, grid, rows }));
+  log(`${file} — ${title} (invented data)`);
+  log(`  suggested lattice: ${pick.knots1} × ${pick.knots2} knots  (RATCHET.CVGRID over ${scores.length} pairs, 5-fold, seed 1, one-standard-error rule)`);
+  log(`  cv_rmse at ${pick.knots1} × ${pick.knots2}: ${fmt(chosen.cvRmse)}  (cv_se ${fmt(chosen.cvSe)})`);
+  log(`  RATCHET.GRID (rows: ${x2Label}; columns: ${d.xLabel}; values: ${d.yLabel}):`);
+  const w = 10;
+  log(`    ${''.padStart(w)}${grid.knots1.map((k) => fmt(k).padStart(w)).join('')}`);
+  grid.values.forEach((row, b) => log(`    ${fmt(grid.knots2[b]!).padStart(w)}${row.map((v) => fmt(v).padStart(w)).join('')}`));
+  log(`  picture: ${relative(process.cwd(), svgPath) || svgPath}`);
+  log('');
+  return { kind: 'surface', file, title, suggested: [pick.knots1, pick.knots2], cvRmse: chosen.cvRmse, cvSe: chosen.cvSe, grid, rows, svgPath };
+}
+
+/**
+ * The SVG heat-map of a fitted lattice: one rectangle per knot pair, coloured by the shared
+ * sequential scale and labelled with its value; x1 knots along the bottom, x2 knots up the left
+ * (higher x2 higher up), a colour bar from the lowest to the highest value.
+ */
+export function heatmapSvg(p: { title: string; xLabel: string; x2Label: string; yLabel: string; grid: HeatmapView; rows: number }): string {
+  const g = p.grid;
+  const K1 = g.knots1.length;
+  const K2 = g.knots2.length;
+  const cw = Math.max(56, Math.min(96, 600 / K1));
+  const ch = Math.max(30, Math.min(60, 420 / K2));
+  const m = { left: Math.max(96, (760 - K1 * cw) / 2), right: 130, top: 60, bottom: 64 };
+  const W = Math.max(760, m.left + K1 * cw + m.right);
+  const H = m.top + K2 * ch + m.bottom;
+  const parts: string[] = [];
+  parts.push(`<svg xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" font-family="sans-serif" font-size="12">`);
+  parts.push(`<rect width="${W}" height="${H}" fill="white"/>`);
+  parts.push(`<text x="${W / 2}" y="22" text-anchor="middle" font-size="15" font-weight="bold">${esc(p.title)}</text>`);
+  parts.push(
+    `<text x="${W / 2}" y="40" text-anchor="middle" fill="#555">invented data · ${p.rows} rows · RATCHET.GRID lattice of ${K1} × ${K2} knots (${K1 * K2} values), monotone in both inputs</text>`,
+  );
+  for (let b = 0; b < K2; b++) {
+    const yTop = m.top + (K2 - 1 - b) * ch; // higher x2 higher up
+    parts.push(`<text x="${m.left - 8}" y="${(yTop + ch / 2 + 4).toFixed(1)}" text-anchor="end">${fmt(g.knots2[b]!)}</text>`);
+    for (let a = 0; a < K1; a++) {
+      const c = g.cells[b]![a]!;
+      const x = m.left + a * cw;
+      parts.push(`<rect class="cell" x="${x.toFixed(1)}" y="${yTop.toFixed(1)}" width="${cw.toFixed(1)}" height="${ch.toFixed(1)}" fill="${c.background}" stroke="white"/>`);
+      parts.push(`<text x="${(x + cw / 2).toFixed(1)}" y="${(yTop + ch / 2 + 4).toFixed(1)}" text-anchor="middle" fill="${c.color}">${esc(fmt(c.value))}</text>`);
+    }
+  }
+  const bottom = m.top + K2 * ch;
+  for (let a = 0; a < K1; a++) parts.push(`<text x="${(m.left + (a + 0.5) * cw).toFixed(1)}" y="${bottom + 18}" text-anchor="middle">${fmt(g.knots1[a]!)}</text>`);
+  parts.push(`<text x="${m.left + (K1 * cw) / 2}" y="${H - 18}" text-anchor="middle">${esc(p.xLabel)} (knots)</text>`);
+  parts.push(`<text transform="translate(${m.left - 56} ${m.top + (K2 * ch) / 2}) rotate(-90)" text-anchor="middle">${esc(p.x2Label)} (knots)</text>`);
+  // Colour bar: lowest value at the bottom, highest at the top.
+  const bx = m.left + K1 * cw + 28;
+  const bh = K2 * ch;
+  const stops = Array.from({ length: 21 }, (_, i) => `<stop offset="${i * 5}%" stop-color="${hex(heatColour(1 - i / 20))}"/>`).join('');
+  parts.push(`<defs><linearGradient id="scale" x1="0" y1="0" x2="0" y2="1">${stops}</linearGradient></defs>`);
+  parts.push(`<rect x="${bx}" y="${m.top}" width="16" height="${bh}" fill="url(#scale)" stroke="#999"/>`);
+  parts.push(`<text x="${bx + 22}" y="${m.top + 10}">${fmt(g.max)}</text>`);
+  parts.push(`<text x="${bx + 22}" y="${m.top + bh}">${fmt(g.min)}</text>`);
+  parts.push(`<text transform="translate(${bx + 48} ${m.top + bh / 2}) rotate(90)" text-anchor="middle">${esc(p.yLabel)}</text>`);
+  parts.push('</svg>');
+  return `${parts.join('\n')}\n`;
 }
 
 function fmt(v: number): string {
