@@ -9,6 +9,7 @@ import { fitChecked, type KnotSpec } from './model.js';
 import { checkFolds, holdoutAssignment, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
 import { fail } from './errors.js';
+import { quantileKnotsSorted } from './knots.js';
 
 /** Where the knots of a candidate count K go inside each training set. */
 export type KnotPlacement = 'even' | 'quantile';
@@ -233,20 +234,6 @@ function checkTrainingSets(p: Prepared, tasks: Task[], what: (t: Task) => string
   }
 }
 
-/** Type-7 quantile knots of ascending `s` (the rule of quantileKnots, without its sort). O(K). */
-function quantileKnotsSorted(s: Float64Array, count: number): Float64Array {
-  const n = s.length;
-  const out: number[] = [];
-  for (let j = 0; j < count; j++) {
-    const h = ((n - 1) * j) / (count - 1);
-    const lo = Math.floor(h);
-    const frac = h - lo;
-    const q = lo + 1 < n && frac > 0 ? s[lo]! + frac * (s[lo + 1]! - s[lo]!) : s[lo]!;
-    const v = Math.min(Math.max(q, s[0]!), s[n - 1]!);
-    if (out.length === 0 || v > out[out.length - 1]!) out.push(v);
-  }
-  return Float64Array.from(out);
-}
 
 /**
  * Curve of a knot table at ascending `xs` (linear between knots, flat beyond the ends) by one

@@ -9,7 +9,7 @@ export { poolTies, type PooledData } from './pool-ties.js';
 export { pavaSorted, type PavaResult } from './pava.js';
 export { averageRanks, spearman, resolveDirection } from './direction.js';
 export { isotonicRegression, type IsotonicFit } from './isotonic.js';
-export { evenKnots, quantileKnots, checkKnotCount, checkKnotPositions } from './knots.js';
+export { evenKnots, quantileKnots, quantileKnotsSorted, checkKnotCount, checkKnotPositions } from './knots.js';
 export { solveMonotoneTridiagonal, type MonotoneQpSolution } from './monotone-qp.js';
 export { knotRegression, type KnotFit, type KnotFitOptions } from './knot-fit.js';
 export { interpolate, interpolateAt, intervalIndex, lerp, share } from './interpolate.js';

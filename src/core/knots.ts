@@ -54,6 +54,19 @@ export function evenKnots(min: number, max: number, count: number): Float64Array
 export function quantileKnots(x: ArrayLike<number>, count: number): Float64Array {
   const s = finiteArray('x', x).sort();
   checkKnotCount(count, 'count');
+  const out = quantileKnotsSorted(s, count);
+  if (out.length < 2) fail('TOO_FEW_POINTS', 'x', 'needs at least 2 distinct values to place quantile knots');
+  return out;
+}
+
+/**
+ * {@link quantileKnots} on values already sorted ascending (no sort, no checks; `count` ≥ 2 and
+ * `s` non-empty are the caller's). Duplicates are collapsed, so fewer than `count` may return.
+ * Cost O(count). Used by cross-validation on each training set, which is kept in x order.
+ *
+ * @example quantileKnotsSorted(Float64Array.of(1, 2, 3, 4, 100), 3) // → Float64Array [1, 3, 100]
+ */
+export function quantileKnotsSorted(s: Float64Array, count: number): Float64Array {
   const n = s.length;
   const out: number[] = [];
   for (let j = 0; j < count; j++) {
@@ -64,7 +77,6 @@ export function quantileKnots(x: ArrayLike<number>, count: number): Float64Array
     const v = Math.min(Math.max(q, s[0]!), s[n - 1]!);
     if (out.length === 0 || v > out[out.length - 1]!) out.push(v);
   }
-  if (out.length < 2) fail('TOO_FEW_POINTS', 'x', 'needs at least 2 distinct values to place quantile knots');
   return Float64Array.from(out);
 }
 
