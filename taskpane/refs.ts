@@ -12,33 +12,9 @@ export interface Area {
   readonly c2: number;
 }
 
-/** Largest row and column of a worksheet (Excel 2007 and later). */
-export const MAX_ROWS = 1048576;
-export const MAX_COLS = 16384;
+import { MAX_COLS, MAX_ROWS, columnLetters, columnNumber } from '../src/adapter/a1.js';
 
-/** Column number (1-based) → letters: 1 → "A", 27 → "AA". */
-export function columnLetters(col: number): string {
-  if (!Number.isInteger(col) || col < 1 || col > MAX_COLS) throw new RangeError(`column ${col} is outside 1…${MAX_COLS}`);
-  let s = '';
-  let c = col;
-  while (c > 0) {
-    const m = (c - 1) % 26;
-    s = String.fromCharCode(65 + m) + s;
-    c = Math.floor((c - 1) / 26);
-  }
-  return s;
-}
-
-/** Column letters → number: "A" → 1, "aa" → 27. */
-export function columnNumber(letters: string): number {
-  let n = 0;
-  for (const ch of letters.toUpperCase()) {
-    const v = ch.charCodeAt(0) - 64;
-    if (v < 1 || v > 26) throw new RangeError(`"${letters}" is not a column name`);
-    n = n * 26 + v;
-  }
-  return n;
-}
+export { MAX_COLS, MAX_ROWS, columnLetters, columnNumber };
 
 /** True when a sheet name must be quoted in a reference (anything but letters, digits, _ and ., or a name that looks like a cell). */
 export function needsQuotes(sheet: string): boolean {

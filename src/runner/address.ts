@@ -1,22 +1,14 @@
 /** A1-style addresses for the runner: "Sheet!B7", quoted sheet names, column letters. */
+import { columnLetters as lettersOf, columnNumber as numberOf } from '../adapter/a1.js';
 
 /** Column letters of a 0-based column index: 0 → "A", 26 → "AA". O(log col). */
 export function columnLetters(col: number): string {
-  let s = '';
-  let c = col + 1;
-  while (c > 0) {
-    const r = (c - 1) % 26;
-    s = String.fromCharCode(65 + r) + s;
-    c = Math.floor((c - 1) / 26);
-  }
-  return s;
+  return lettersOf(col + 1);
 }
 
 /** 0-based column index of column letters: "A" → 0, "AA" → 26. */
 export function columnIndex(letters: string): number {
-  let c = 0;
-  for (const ch of letters.toUpperCase()) c = c * 26 + (ch.charCodeAt(0) - 64);
-  return c - 1;
+  return numberOf(letters) - 1;
 }
 
 /** "B7" of a 0-based row and column. */
