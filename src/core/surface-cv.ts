@@ -7,6 +7,7 @@ import { checkFolds, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
 import { suggestKnots, type SuggestionRule } from './suggest-knots.js';
 import { fail } from './errors.js';
+import type { CandidateScore } from './cross-validate.js';
 import { checkAxisDirection, surfaceChecked, type AxisDirection } from './surface.js';
 import { evaluateLattice, locate } from './surface-lattice.js';
 
@@ -37,21 +38,11 @@ export interface SurfaceCrossValidationOptions {
 }
 
 /** Cross-validated scores of one (K1, K2) pair. */
-export interface SurfaceCandidateScore {
+export interface SurfaceCandidateScore extends Omit<CandidateScore, 'knots'> {
+  /** Knot counts of the pair along x1 and x2 (0 = every distinct level). The other fields are as
+   *  in the one-predictor {@link CandidateScore}, computed over the same folds. */
   knots1: number;
   knots2: number;
-  /** √(pooled weighted mean of held-out squared errors over all folds and repeats). */
-  cvRmse: number;
-  /** sd of the F·R per-fold RMSEs (denominator F·R − 1) / √(F·R). */
-  cvSe: number;
-  /** 1 − pooled held-out SSE / (R · Σ w (y − ȳ_w)² over all used rows). */
-  cvR2: number;
-  /** Pooled weighted mean absolute held-out error. */
-  cvMae: number;
-  /** Mean training RMSE over the F·R fits. */
-  trainRmse: number;
-  /** Held-out RMSE of every fit, repeat by repeat, fold by fold. */
-  foldRmse: number[];
 }
 
 /** Result of {@link crossValidateSurface}. */
