@@ -12,6 +12,8 @@ import type { CellResult } from '../src/functions/types.js';
 import { CellFailure, computeFit, cvArgs, cvRows, knotTableCsv, type CvRow, type DataColumns, type FitView } from './analysis.js';
 import { allFormulas, parseCandidates, type CvSettings, type DataRefs, type DirectionCode, type FitSettings, type FormulaKind } from './formulas.js';
 import { CvChart, FitChart, type CvView } from './charts.js';
+import { HEATMAP_MAX_CELLS, computeSurface, gridFormula, knotField, renderHeatmap, type SecondInput, type SurfaceSettings } from './surface-view.js';
+import type { HeatmapView } from './heat-scale.js';
 
 /** The data the pane works on, wherever they come from. */
 export interface Selection {
@@ -23,6 +25,8 @@ export interface Selection {
   readonly description: string;
   /** Name of the knot-table download. */
   readonly fileStem: string;
+  /** A second input: the pane then also shows the fitted surface over (x, x2) as a heat-map. */
+  readonly x2?: SecondInput | undefined;
 }
 
 /** State of the cross-validation run. */
@@ -42,6 +46,18 @@ export interface Snapshot {
   readonly progress: number;
   readonly formulas: Partial<Record<FormulaKind, string>>;
   readonly fitError: string | null;
+  /** The heat-map of the surface (null when no x2 is chosen or GRID gave an error). */
+  readonly surface: {
+    readonly settings: SurfaceSettings;
+    readonly knots1: number[];
+    readonly knots2: number[];
+    readonly values: number[][];
+    /** Text and colours of the value cells as drawn (rows = x2 knots). */
+    readonly text: string[][];
+    readonly background: string[][];
+    readonly formula: string;
+  } | null;
+  readonly surfaceError: string | null;
 }
 
 function el<T extends HTMLElement>(id: string): T {
@@ -79,6 +95,9 @@ export class App {
   private progress = 0;
   private abort: AbortController | undefined;
   private formulas: Partial<Record<FormulaKind, string>> = {};
+  private surfaceView: HeatmapView | undefined;
+  private surfaceError: string | null = null;
+  private gridText: string | undefined;
   private readonly fitChart: FitChart;
   private readonly cvChart: CvChart;
   private readonly client: WorkerClient;
@@ -100,6 +119,7 @@ export class App {
 
   private wire(): void {
     el<HTMLInputElement>('knots').addEventListener('change', () => this.refresh());
+    for (const id of ['knots1', 'knots2', 'direction1', 'direction2']) el<HTMLElement>(id).addEventListener('change', () => this.refresh());
     el<HTMLSelectElement>('direction').addEventListener('change', () => {
       this.invalidateCv('The direction changed: run the suggestion again.');
       this.refresh();
@@ -196,10 +216,59 @@ export class App {
     this.fitChart.show(this.view, sel?.labels ?? { x: 'x', y: 'y' });
     this.renderStats();
     this.renderKnotTable();
+    this.renderSurface();
     this.updateFormulas();
     el<HTMLButtonElement>('download').disabled = this.view === undefined;
     el<HTMLButtonElement>('suggest').disabled = sel === undefined || this.cvState === 'running';
     this.onRefresh?.();
+  }
+
+  /** Reads the surface controls. */
+  surfaceSettings(): SurfaceSettings {
+    const d = (id: string): DirectionCode => Number(el<HTMLSelectElement>(id).value) as DirectionCode;
+    return { knots1: knotField(el<HTMLInputElement>('knots1').value), knots2: knotField(el<HTMLInputElement>('knots2').value), direction1: d('direction1'), direction2: d('direction2') };
+  }
+
+  /** The surface section: hidden without x2; otherwise RATCHET.GRID of the data as a heat-map. */
+  private renderSurface(): void {
+    const sel = this.selection;
+    const section = el<HTMLElement>('surface');
+    const table = el<HTMLTableElement>('heatmap');
+    const legend = el<HTMLElement>('heatmap-legend');
+    this.surfaceView = undefined;
+    this.surfaceError = null;
+    if (!sel?.x2) {
+      section.hidden = true;
+      table.replaceChildren();
+      legend.replaceChildren();
+      return;
+    }
+    section.hidden = false;
+    const s = el<HTMLDivElement>('surface-status');
+    try {
+      const view = computeSurface(sel.data, sel.x2.cells, this.surfaceSettings());
+      const values = view.knots1.length * view.knots2.length;
+      if (values > HEATMAP_MAX_CELLS) {
+        table.replaceChildren();
+        legend.replaceChildren();
+        s.textContent = `The lattice has ${view.knots1.length} × ${view.knots2.length} = ${values} values — too many to draw here (at most ${HEATMAP_MAX_CELLS}). Choose knot counts along x and x2.`;
+        s.classList.remove('error');
+        return;
+      }
+      this.surfaceView = view;
+      renderHeatmap(table, legend, view, { x1: sel.labels.x, x2: sel.x2.label, y: sel.labels.y });
+      const rows = this.view?.points.length;
+      s.textContent =
+        `Surface over ${sel.labels.x} and ${sel.x2.label}: ${view.knots1.length} × ${view.knots2.length} = ${values} values` +
+        (rows !== undefined && values >= rows / 2 ? ` for about ${rows} rows — many values per row: expect over-fit.` : '.');
+      s.classList.remove('error');
+    } catch (e) {
+      this.surfaceError = errorText(e);
+      table.replaceChildren();
+      legend.replaceChildren();
+      s.textContent = this.surfaceError;
+      s.classList.add('error');
+    }
   }
 
   private renderStats(): void {
@@ -235,6 +304,7 @@ export class App {
     const area = el<HTMLTextAreaElement>('formulas');
     const sel = this.selection;
     this.formulas = {};
+    this.gridText = undefined;
     if (!sel) {
       area.value = '';
       el<HTMLButtonElement>('copy').disabled = true;
@@ -251,14 +321,26 @@ export class App {
     }
     this.formulas = allFormulas(sel.refs, this.fitSettings(), cv, this.newXsRef);
     const f = this.formulas as Record<FormulaKind, string>;
+    if (sel.x2) this.gridText = gridFormula(sel.refs, sel.x2.ref, this.surfaceSettings());
     area.value = [
       `Knot table:       ${f.KNOTS}`,
       `Curve at new x:   ${f.PREDICT}`,
       `Fit statistics:   ${f.STATS}`,
       `Cross-validation: ${f.CV}`,
       `Suggested count:  ${f.BESTK}`,
+      ...(this.gridText === undefined ? [] : [`Surface table:    ${this.gridText}`]),
     ].join('\n');
     el<HTMLButtonElement>('copy').disabled = false;
+  }
+
+  /** The RATCHET.GRID formula for the current x2 and surface settings (undefined without x2). */
+  surfaceFormula(): string | undefined {
+    return this.gridText;
+  }
+
+  /** The surface shown now (undefined without x2, on an error, or when too large to draw). */
+  currentSurface(): HeatmapView | undefined {
+    return this.surfaceView;
   }
 
   /** The formula of one kind for the current state (Office insert actions). */
@@ -391,7 +473,7 @@ export class App {
 
   private async copy(): Promise<void> {
     const area = el<HTMLTextAreaElement>('formulas');
-    const text = Object.values(this.formulas).join('\n');
+    const text = [...Object.values(this.formulas), ...(this.gridText === undefined ? [] : [this.gridText])].join('\n');
     try {
       await navigator.clipboard.writeText(text);
       this.cvStatus('');
@@ -428,6 +510,19 @@ export class App {
       progress: this.progress,
       formulas: { ...this.formulas },
       fitError: this.fitError,
+      surface:
+        this.surfaceView && this.gridText !== undefined
+          ? {
+              settings: this.surfaceSettings(),
+              knots1: [...this.surfaceView.knots1],
+              knots2: [...this.surfaceView.knots2],
+              values: this.surfaceView.values.map((r) => [...r]),
+              text: this.surfaceView.cells.map((r) => r.map((c) => c.text)),
+              background: this.surfaceView.cells.map((r) => r.map((c) => c.background)),
+              formula: this.gridText,
+            }
+          : null,
+      surfaceError: this.surfaceError,
     });
   }
 

@@ -12,6 +12,7 @@ import { absoluteRef, areaSize, intersects, parseAddress, tableColumnRef, type A
 import { insertFormula, type Confirm } from './insert.js';
 import { spillSize, type FormulaKind } from './formulas.js';
 import { candidateCount } from './analysis.js';
+import { gridSpill } from './surface-view.js';
 
 function el<T extends HTMLElement>(id: string): T {
   return document.getElementById(id) as T;
@@ -123,7 +124,7 @@ async function selectionColumns(): Promise<string[]> {
 
 /** The Excel side of the pane. */
 export class OfficeData {
-  private ranges: { x: ReadRange; y: ReadRange; w: ReadRange | undefined } | undefined;
+  private ranges: { x: ReadRange; y: ReadRange; w: ReadRange | undefined; x2: ReadRange | undefined } | undefined;
   private handlers: OfficeExtension.EventHandlerResult<Excel.WorksheetChangedEventArgs>[] = [];
   private timer: ReturnType<typeof setTimeout> | undefined;
   private pendingConfirm: ((ok: boolean) => void) | undefined;
@@ -138,6 +139,7 @@ export class OfficeData {
     el<HTMLButtonElement>('pick-x').addEventListener('click', safe(pick('addr-x'), fitStatus));
     el<HTMLButtonElement>('pick-y').addEventListener('click', safe(pick('addr-y'), fitStatus));
     el<HTMLButtonElement>('pick-w').addEventListener('click', safe(pick('addr-w'), fitStatus));
+    el<HTMLButtonElement>('pick-x2').addEventListener('click', safe(pick('addr-x2'), fitStatus));
     el<HTMLButtonElement>('pick-target').addEventListener('click', safe(pick('target'), (t) => this.insertStatus(t, true)));
     el<HTMLButtonElement>('pick-columns').addEventListener(
       'click',
@@ -150,7 +152,7 @@ export class OfficeData {
       }, fitStatus),
     );
     el<HTMLButtonElement>('read-ranges').addEventListener('click', safe(() => this.read(), fitStatus));
-    for (const id of ['addr-x', 'addr-y', 'addr-w']) {
+    for (const id of ['addr-x', 'addr-y', 'addr-w', 'addr-x2']) {
       el<HTMLInputElement>(id).addEventListener('change', safe(() => this.read(), fitStatus));
     }
     el<HTMLInputElement>('addr-newx').addEventListener('change', () => {
@@ -161,6 +163,7 @@ export class OfficeData {
     for (const b of document.querySelectorAll<HTMLButtonElement>('[data-insert]')) {
       b.addEventListener('click', safe(() => this.insert(b.dataset.insert as FormulaKind), (t) => this.insertStatus(t, true)));
     }
+    el<HTMLButtonElement>('insert-grid').addEventListener('click', safe(() => this.insertGrid(), (t) => this.insertStatus(t, true)));
     el<HTMLButtonElement>('confirm-yes').addEventListener('click', () => this.answer(true));
     el<HTMLButtonElement>('confirm-no').addEventListener('click', () => this.answer(false));
     el<HTMLDivElement>('confirm').addEventListener('keydown', (e) => {
@@ -188,15 +191,22 @@ export class OfficeData {
     const xa = el<HTMLInputElement>('addr-x').value.trim();
     const ya = el<HTMLInputElement>('addr-y').value.trim();
     const wa = el<HTMLInputElement>('addr-w').value.trim();
+    const x2a = el<HTMLInputElement>('addr-x2').value.trim();
     if (xa === '' || ya === '') return;
-    const [x, y, w] = await Promise.all([readRange(xa, 'x range'), readRange(ya, 'y range'), wa === '' ? Promise.resolve(undefined) : readRange(wa, 'weight range')]);
-    this.ranges = { x, y, w };
+    const [x, y, w, x2] = await Promise.all([
+      readRange(xa, 'x range'),
+      readRange(ya, 'y range'),
+      wa === '' ? Promise.resolve(undefined) : readRange(wa, 'weight range'),
+      x2a === '' ? Promise.resolve(undefined) : readRange(x2a, 'second x range'),
+    ]);
+    this.ranges = { x, y, w, x2 };
     const sel: Selection = {
       data: { x: x.cells, y: y.cells, w: w?.cells },
       refs: { x: x.ref, y: y.ref, w: w?.ref },
       labels: { x: `x (${x.ref})`, y: `y (${y.ref})` },
-      description: `x = ${x.ref}, y = ${y.ref}${w ? `, weight = ${w.ref}` : ''}`,
+      description: `x = ${x.ref}, y = ${y.ref}${w ? `, weight = ${w.ref}` : ''}${x2 ? `, x2 = ${x2.ref}` : ''}`,
       fileStem: 'ratchet',
+      x2: x2 ? { cells: x2.cells, ref: x2.ref, label: `x2 (${x2.ref})` } : undefined,
     };
     this.app.setSelection(sel, keepCv);
     await this.watch();
@@ -207,7 +217,7 @@ export class OfficeData {
     this.handlers = [];
     const r = this.ranges;
     if (!r) return;
-    const sheets = new Set([r.x.area.sheet, r.y.area.sheet, ...(r.w ? [r.w.area.sheet] : [])].filter((s): s is string => s !== undefined));
+    const sheets = new Set([r.x.area.sheet, r.y.area.sheet, ...(r.w ? [r.w.area.sheet] : []), ...(r.x2 ? [r.x2.area.sheet] : [])].filter((s): s is string => s !== undefined));
     // A handler is removed through the request context it was added with.
     for (const h of old) {
       try {
@@ -235,7 +245,7 @@ export class OfficeData {
     } catch {
       return;
     }
-    const hit = [r.x, r.y, r.w].some((q) => q !== undefined && q.sheetId === e.worksheetId && intersects({ ...q.area, sheet: undefined }, changedArea));
+    const hit = [r.x, r.y, r.w, r.x2].some((q) => q !== undefined && q.sheetId === e.worksheetId && intersects({ ...q.area, sheet: undefined }, changedArea));
     if (!hit) return;
     if (this.timer !== undefined) clearTimeout(this.timer);
     this.timer = setTimeout(() => {
@@ -258,6 +268,27 @@ export class OfficeData {
     this.pendingConfirm = undefined;
     el<HTMLDivElement>('confirm').hidden = true;
     p?.(ok);
+  }
+
+  /** Inserts the RATCHET.GRID formula of the surface at the target cell (asks before writing over anything). */
+  async insertGrid(): Promise<void> {
+    this.insertStatus('');
+    const r = this.ranges;
+    const view = this.app.currentSurface();
+    const formula = this.app.surfaceFormula();
+    if (!r?.x2 || !view || !formula) {
+      this.insertStatus('Choose a second x range whose surface is drawn without an error first.', true);
+      return;
+    }
+    const target = el<HTMLInputElement>('target').value.trim();
+    if (target === '') {
+      this.insertStatus('Pick the top-left cell of the result first.', true);
+      return;
+    }
+    const size = gridSpill(view);
+    const inputs = [r.x.area, r.y.area, r.x2.area, ...(r.w ? [r.w.area] : [])];
+    const outcome = await insertFormula(Excel, { formula, target, rows: size.rows, cols: size.cols, inputs }, this.confirm);
+    this.insertStatus(outcome.message, !outcome.written);
   }
 
   /** Inserts one formula at the target cell (asks before writing over anything). */

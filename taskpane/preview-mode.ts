@@ -11,6 +11,7 @@ export const SAMPLES: readonly { readonly file: string; readonly title: string; 
   { file: 'adhesive-tack.xlsx', title: 'Weeks in storage vs adhesive tack (falling)', url: () => new URL('../samples/adhesive-tack.xlsx', import.meta.url) },
   { file: 'lab-calibration.xlsx', title: 'Lab calibration with replicate weights', url: () => new URL('../samples/lab-calibration.xlsx', import.meta.url) },
   { file: 'knot-count-study.xlsx', title: 'Knot-count study (cross-validation)', url: () => new URL('../samples/knot-count-study.xlsx', import.meta.url) },
+  { file: 'coating-cure.xlsx', title: 'Oven temperature × dwell time vs coating hardness (surface)', url: () => new URL('../samples/coating-cure.xlsx', import.meta.url) },
 ];
 
 function el<T extends HTMLElement>(id: string): T {
@@ -35,7 +36,7 @@ export class PreviewData {
     el<HTMLInputElement>('file').addEventListener('change', () => void this.openFile());
     el<HTMLButtonElement>('sample-open').addEventListener('click', () => void this.openSample(sample.value));
     el<HTMLSelectElement>('sheet').addEventListener('change', () => this.chooseSheet(Number(el<HTMLSelectElement>('sheet').value)));
-    for (const id of ['col-x', 'col-y', 'col-w']) el<HTMLSelectElement>(id).addEventListener('change', () => this.apply());
+    for (const id of ['col-x', 'col-y', 'col-w', 'col-x2']) el<HTMLSelectElement>(id).addEventListener('change', () => this.apply());
     app.setHostText('Browser preview — not inside Excel. Open a CSV or .xlsx file or a sample; everything stays on this computer.');
   }
 
@@ -79,15 +80,17 @@ export class PreviewData {
     const s = this.source?.sheets[i];
     if (!s) return;
     this.sheet = s;
-    const [cx, cy, cw] = ['col-x', 'col-y', 'col-w'].map((id) => el<HTMLSelectElement>(id)) as [HTMLSelectElement, HTMLSelectElement, HTMLSelectElement];
+    const [cx, cy, cw, cx2] = ['col-x', 'col-y', 'col-w', 'col-x2'].map((id) => el<HTMLSelectElement>(id)) as [HTMLSelectElement, HTMLSelectElement, HTMLSelectElement, HTMLSelectElement];
     const opts = (): HTMLOptionElement[] => s.columns.map((c, j) => option(String(j), columnLabel(c)));
     cx.replaceChildren(...opts());
     cy.replaceChildren(...opts());
     cw.replaceChildren(option('', '(none: equal weights)'), ...opts());
+    cx2.replaceChildren(option('', '(none: one input)'), ...opts());
     cx.value = '0';
     cy.value = s.columns.length > 1 ? '1' : '0';
     cw.value = '';
-    for (const c of [cx, cy, cw]) c.disabled = false;
+    cx2.value = '';
+    for (const c of [cx, cy, cw, cx2]) c.disabled = false;
     this.apply();
   }
 
@@ -104,12 +107,14 @@ export class PreviewData {
     const y = this.column('col-y');
     if (!s || !src || !x || !y) return;
     const w = this.column('col-w');
+    const x2 = this.column('col-x2');
     const sel: Selection = {
       data: { x: x.cells, y: y.cells, w: w?.cells },
       refs: { x: columnRef(s, x), y: columnRef(s, y), w: w ? columnRef(s, w) : undefined },
       labels: { x: x.name, y: y.name },
-      description: `${src.fileName}${src.kind === 'xlsx' ? ` › ${s.name}` : ''}: x = ${x.name}, y = ${y.name}${w ? `, weight = ${w.name}` : ''}`,
+      description: `${src.fileName}${src.kind === 'xlsx' ? ` › ${s.name}` : ''}: x = ${x.name}, y = ${y.name}${w ? `, weight = ${w.name}` : ''}${x2 ? `, x2 = ${x2.name}` : ''}`,
       fileStem: src.fileName.replace(/\.[^.]*$/, ''),
+      x2: x2 ? { cells: x2.cells, ref: columnRef(s, x2), label: x2.name } : undefined,
     };
     this.app.setSelection(sel);
   }
