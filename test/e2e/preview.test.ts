@@ -101,7 +101,7 @@ describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () 
     });
     page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
     await page.goto(server.url);
-    await page.waitForFunction(() => (document.getElementById('sample') as HTMLSelectElement | null)?.options.length === 4);
+    await page.waitForFunction(() => (document.getElementById('sample') as HTMLSelectElement | null)?.options.length === 5);
   }, 90_000);
 
   afterAll(async () => {
@@ -228,6 +228,75 @@ describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () 
     expect(weighted).not.toEqual(unweighted); // the weights matter on these data
     expect(s.curve).toEqual(weighted.map((r) => ({ x: r[0], y: r[1] })));
     expect(s.formulas.KNOTS).toBe('=RATCHET.KNOTS(Data!$B$2:$B$13,Data!$A$2:$A$13,0,1,Data!$C$2:$C$13)');
+  });
+
+  it('a second x column shows the fitted surface as a heat-map: K1 × K2 cells equal to RATCHET.GRID', async () => {
+    const file = 'coating-cure.xlsx';
+    await page.selectOption('#sample', file);
+    await page.click('#sample-open');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().data?.x.length === 48);
+    expect(await page.isHidden('#surface')).toBe(true); // no x2 chosen: the one-input pane as before
+    expect((await snap(page)).surface).toBeNull();
+    const optionFor = (id: string, header: string): Promise<string> =>
+      page.evaluate(({ id, header }) => [...(document.getElementById(id) as HTMLSelectElement).options].find((o) => o.text.startsWith(`${header} — `))!.value, { id, header });
+    await page.selectOption('#col-y', await optionFor('col-y', 'hardness'));
+    await page.selectOption('#col-x2', await optionFor('col-x2', 'dwell min'));
+    await setValue(page, '#knots1', '4');
+    await setValue(page, '#knots2', '3');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().surface?.knots1.length === 4);
+    const { xs, ys } = await sampleColumns(file, 'oven temp °C', 'hardness');
+    const { ys: x2s } = await sampleColumns(file, 'oven temp °C', 'dwell min');
+    const drawn = async () => ({
+      values: (await page.$$eval('#heatmap td.heat', (tds) => tds.map((td) => (td as HTMLElement).dataset.value!))).map(Number),
+      text: await page.$$eval('#heatmap td.heat', (tds) => tds.map((td) => td.textContent)),
+      cols: (await page.$$eval('#heatmap thead th[scope="col"]', (ths) => ths.map((th) => th.textContent))).map(Number),
+      rows: (await page.$$eval('#heatmap tbody th[scope="row"]', (ths) => ths.map((th) => th.textContent))).map(Number),
+      backgrounds: await page.$$eval('#heatmap td.heat', (tds) => tds.map((td) => getComputedStyle(td).backgroundColor)),
+    });
+    for (const [k1, k2] of [
+      [4, 3],
+      [0, 0],
+    ] as const) {
+      if (k1 === 0) {
+        await setValue(page, '#knots1', '0');
+        await setValue(page, '#knots2', '0');
+        await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().surface?.knots1.length === 7);
+      }
+      const grid = invoke('GRID', [ys, xs, x2s, k1, k2, 1, 1]) as number[][];
+      const K1 = grid[0]!.length - 1;
+      const K2 = grid.length - 1;
+      const d = await drawn();
+      expect(d.values.length).toBe(K1 * K2);
+      expect(d.values).toEqual(grid.slice(1).flatMap((r) => r.slice(1)));
+      expect(d.text).toEqual(grid.slice(1).flatMap((r) => r.slice(1)).map((v) => String(Number(v.toPrecision(8)))));
+      expect(d.cols).toEqual(grid[0]!.slice(1));
+      expect(d.rows).toEqual(grid.slice(1).map((r) => r[0]));
+      // the colours follow the values: the lowest cell is the palest, the highest the darkest
+      const light = d.backgrounds.map((c) => c.match(/\d+/g)!.slice(0, 3).reduce((a, v) => a + Number(v), 0));
+      expect(light[d.values.indexOf(Math.min(...d.values))]).toBe(Math.max(...light));
+      expect(light[d.values.indexOf(Math.max(...d.values))]).toBe(Math.min(...light));
+      const s = await snap(page);
+      expect(s.surface!.formula).toBe(`=RATCHET.GRID(Data!$C$2:$C$49,Data!$A$2:$A$49,Data!$B$2:$B$49,${k1},${k2},1,1)`);
+      expect(s.surfaceError).toBeNull();
+      if (k1 === 4) {
+        fs.mkdirSync(resultsDir, { recursive: true });
+        await page.locator('#surface').screenshot({ path: path.join(resultsDir, 'preview-surface.png') });
+        await page.emulateMedia({ colorScheme: 'dark' });
+        await page.waitForTimeout(100);
+        await page.locator('#surface').screenshot({ path: path.join(resultsDir, 'preview-surface-dark.png') });
+        await page.emulateMedia({ colorScheme: 'light' });
+      }
+    }
+    expect(await page.inputValue('#formulas')).toContain('Surface table:    =RATCHET.GRID(');
+    // the one-input chart is unchanged beside it: y against x alone
+    const s = await snap(page);
+    const table = invoke('KNOTS', [ys, xs, Number(s.settings!.fit.knots), 1]) as number[][];
+    expect(s.curve).toEqual(table.map((r) => ({ x: r[0], y: r[1] })));
+    // back to no x2: the surface section goes away
+    await page.selectOption('#col-x2', '');
+    expect(await page.isHidden('#surface')).toBe(true);
+    expect((await snap(page)).formulas).not.toHaveProperty('GRID');
+    expect(await page.inputValue('#formulas')).not.toContain('RATCHET.GRID');
   });
 
   it('follows the dark colour scheme (screenshot)', async () => {
