@@ -260,7 +260,7 @@ export class App {
       const rows = this.view?.points.length;
       s.textContent =
         `Surface over ${sel.labels.x} and ${sel.x2.label}: ${view.knots1.length} × ${view.knots2.length} = ${values} values` +
-        (rows !== undefined && values >= rows / 2 ? ` for about ${rows} rows — many values per row: expect over-fit.` : '.');
+        (rows !== undefined && values >= rows / 2 ? ` from about ${rows} rows — at least one value per two rows: expect over-fit.` : '.');
       s.classList.remove('error');
     } catch (e) {
       this.surfaceError = errorText(e);

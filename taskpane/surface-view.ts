@@ -94,20 +94,14 @@ export function renderHeatmap(table: HTMLTableElement, legend: HTMLElement, view
   caption.textContent = `Fitted ${labels.y}, ${K1} × ${K2} knots`;
   const head = document.createElement('thead');
   const r1 = document.createElement('tr');
-  r1.append(cell('td', '', { rowspan: '2', colspan: '2', class: 'corner' }), cell('th', `${labels.x1} →`, { colspan: String(K1), scope: 'colgroup', class: 'axis' }));
+  // The corner names the column of x2 knots below it; the spanning header names the x1 knots.
+  r1.append(cell('th', `${labels.x2} ↓`, { rowspan: '2', scope: 'col', class: 'axis corner' }), cell('th', `${labels.x1} →`, { colspan: String(K1), scope: 'colgroup', class: 'axis' }));
   const r2 = document.createElement('tr');
   for (const k of view.knots1) r2.append(cell('th', String(k), { scope: 'col' }));
   head.append(r1, r2);
   const body = document.createElement('tbody');
   view.cells.forEach((row, b) => {
     const tr = document.createElement('tr');
-    if (b === 0) {
-      const side = cell('th', '', { rowspan: String(K2), scope: 'rowgroup', class: 'axis axis-side' });
-      const span = document.createElement('span');
-      span.textContent = `${labels.x2} ↓`;
-      side.append(span);
-      tr.append(side);
-    }
     tr.append(cell('th', String(view.knots2[b]!), { scope: 'row' }));
     for (const c of row) {
       const td = cell('td', c.text, { 'data-value': String(c.value), class: 'heat' });

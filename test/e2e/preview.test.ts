@@ -249,7 +249,7 @@ describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () 
     const drawn = async () => ({
       values: (await page.$$eval('#heatmap td.heat', (tds) => tds.map((td) => (td as HTMLElement).dataset.value!))).map(Number),
       text: await page.$$eval('#heatmap td.heat', (tds) => tds.map((td) => td.textContent)),
-      cols: (await page.$$eval('#heatmap thead th[scope="col"]', (ths) => ths.map((th) => th.textContent))).map(Number),
+      cols: (await page.$$eval('#heatmap thead tr:last-child th', (ths) => ths.map((th) => th.textContent))).map(Number),
       rows: (await page.$$eval('#heatmap tbody th[scope="row"]', (ths) => ths.map((th) => th.textContent))).map(Number),
       backgrounds: await page.$$eval('#heatmap td.heat', (tds) => tds.map((td) => getComputedStyle(td).backgroundColor)),
     });
@@ -464,6 +464,36 @@ describe.skipIf(SKIP)('task pane in Excel mode (office.js stand-in)', () => {
     await page.click('[data-insert="STATS"]');
     await page.waitForFunction(() => /Inserted/.test(document.getElementById('insert-status')?.textContent ?? ''));
     expect((await stubCall<{ formula: string }>('get', 'Trials', 'K2')).formula).toBe("=RATCHET.STATS(Assay[[signal '[mV']]],Assay[conc],3,1)");
+  });
+
+  it('a second x range shows the surface heat-map equal to RATCHET.GRID, and Insert GRID writes that formula', async () => {
+    // Invented second input for the 12 rows of sheet Trials.
+    const x2 = [3, 1, 2, 3, 1, 2, 3, 1, 2, 3, 1, 2];
+    await page.evaluate((x2) => {
+      const s = (window as unknown as { __excelStub: { set(sh: string, a: string, v: unknown): void } }).__excelStub;
+      x2.forEach((v, i) => s.set('Trials', `C${i + 2}`, v));
+    }, x2);
+    await page.fill('#addr-x', 'Trials!A2:A13');
+    await page.fill('#addr-y', 'Trials!B2:B13');
+    await page.fill('#addr-x2', 'Trials!C2:C13');
+    await page.click('#read-ranges');
+    await page.waitForSelector('#surface:not([hidden])'); // the surface controls appear with x2
+    await setValue(page, '#knots1', '3');
+    await setValue(page, '#knots2', '2');
+    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().surface?.knots2.length === 2);
+    // y as the sheet holds it now (an earlier check changed B4)
+    const yNow: number[] = [];
+    for (let i = 0; i < y.length; i++) yNow.push((await stubCall<{ value: number }>('get', 'Trials', `B${i + 2}`)).value);
+    expect(yNow[2]).toBe(9.5);
+    const grid = invoke('GRID', [yNow.map((v) => [v]), x.map((v) => [v]), x2.map((v) => [v]), 3, 2, 1, 1]) as number[][];
+    const values = (await page.$$eval('#heatmap td.heat', (tds) => tds.map((td) => (td as HTMLElement).dataset.value!))).map(Number);
+    expect(values).toEqual(grid.slice(1).flatMap((r) => r.slice(1)));
+    expect(values.length).toBe(6);
+    await page.fill('#target', 'Trials!M2');
+    await page.click('#insert-grid');
+    await page.waitForFunction(() => /Inserted/.test(document.getElementById('insert-status')?.textContent ?? ''));
+    expect((await stubCall<{ formula: string }>('get', 'Trials', 'M2')).formula).toBe('=RATCHET.GRID(Trials!$B$2:$B$13,Trials!$A$2:$A$13,Trials!$C$2:$C$13,3,2,1,1)');
+    await page.screenshot({ path: path.join(resultsDir, 'office-surface.png'), fullPage: true });
   });
 
   it('requested office.js only because it is hosted (served by the stand-in), nothing else outside localhost, no errors', () => {
