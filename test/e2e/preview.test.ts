@@ -278,8 +278,9 @@ describe.skipIf(SKIP)('browser preview (playwright-core + Debian chromium)', () 
       const s = await snap(page);
       expect(s.surface!.formula).toBe(`=RATCHET.GRID(Data!$C$2:$C$49,Data!$A$2:$A$49,Data!$B$2:$B$49,${k1},${k2},1,1)`);
       expect(s.surfaceError).toBeNull();
+      fs.mkdirSync(resultsDir, { recursive: true });
+      if (k1 === 0) await page.locator('#surface').screenshot({ path: path.join(resultsDir, 'preview-surface-classic.png') });
       if (k1 === 4) {
-        fs.mkdirSync(resultsDir, { recursive: true });
         await page.locator('#surface').screenshot({ path: path.join(resultsDir, 'preview-surface.png') });
         await page.emulateMedia({ colorScheme: 'dark' });
         await page.waitForTimeout(100);
