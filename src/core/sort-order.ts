@@ -10,8 +10,8 @@ const MASK = BUCKETS - 1;
  * Returns the permutation that sorts `values` ascending: `values[order[0]] ≤ values[order[1]] ≤ …`.
  * The sort is stable (equal values keep their input order) and treats −0 as equal to +0.
  *
- * Cost: O(n) time (four counting passes over 16-bit digits of the 64-bit key), O(n) extra
- * memory. A linear scan first returns the identity at once when `values` is already sorted.
+ * Cost: O(n) time (one histogram pass, then up to four scatter passes over 16-bit digits of the
+ * 64-bit key, each skipped when all elements share that digit), O(n) extra memory. A linear scan first returns the identity at once when `values` is already sorted.
  *
  * @param values finite numbers (NaN is not allowed — callers validate first); not modified.
  * @returns a new Uint32Array of indices (empty for empty input).
@@ -57,38 +57,52 @@ export function sortOrder(values: ArrayLike<number>): Uint32Array {
       lo[i] = l;
     }
   }
-  const count = new Uint32Array(BUCKETS);
-  let src = order;
-  let dst = new Uint32Array(n);
-  for (let pass = 0; pass < 4; pass++) {
-    const key = pass < 2 ? lo : hi;
-    const shift = (pass & 1) * RADIX_BITS;
-    count.fill(0);
-    for (let i = 0; i < n; i++) count[(key[src[i]!]! >>> shift) & MASK]!++;
-    // Skip a pass whose digit is the same for every element (common for the high bits).
-    let only = -1;
-    for (let b = 0; b < BUCKETS; b++) {
-      if (count[b] === n) {
-        only = b;
-        break;
-      }
-      if (count[b] !== 0) break;
-    }
-    if (only >= 0) continue;
-    let sum = 0;
-    for (let b = 0; b < BUCKETS; b++) {
-      const c = count[b]!;
-      count[b] = sum;
-      sum += c;
-    }
-    for (let i = 0; i < n; i++) {
-      const idx = src[i]!;
-      const b = (key[idx]! >>> shift) & MASK;
-      dst[count[b]!++] = idx;
-    }
-    const t = src;
-    src = dst;
-    dst = t;
+  // All four digit histograms in one pass (they do not depend on the order), then four stable
+  // scatter passes that carry the remaining key words along with the indices, so every pass reads
+  // its input sequentially (gathering keys through the permutation would miss the cache).
+  const counts = [new Uint32Array(BUCKETS), new Uint32Array(BUCKETS), new Uint32Array(BUCKETS), new Uint32Array(BUCKETS)];
+  const [c0, c1, c2, c3] = counts as [Uint32Array, Uint32Array, Uint32Array, Uint32Array];
+  for (let i = 0; i < n; i++) {
+    const l = lo[i]!;
+    const h = hi[i]!;
+    c0[l & MASK]!++;
+    c1[l >>> RADIX_BITS]!++;
+    c2[h & MASK]!++;
+    c3[h >>> RADIX_BITS]!++;
   }
-  return src;
+  // A pass whose digit is the same for every element changes nothing and is skipped.
+  const needed = counts.map((c) => {
+    let sum = 0;
+    let nonEmpty = 0;
+    for (let b = 0; b < BUCKETS; b++) {
+      const k = c[b]!;
+      if (k !== 0) nonEmpty++;
+      c[b] = sum;
+      sum += k;
+    }
+    return nonEmpty > 1;
+  });
+  let idx = order;
+  let keyLo = lo;
+  let keyHi = hi;
+  let spareIdx = new Uint32Array(n);
+  let spareLo = new Uint32Array(n);
+  let spareHi = new Uint32Array(n);
+  for (let pass = 0; pass < 4; pass++) {
+    if (!needed[pass]) continue;
+    const c = counts[pass]!;
+    const onLo = pass < 2;
+    const shift = (pass & 1) * RADIX_BITS;
+    const key = onLo ? keyLo : keyHi;
+    for (let i = 0; i < n; i++) {
+      const at = c[(key[i]! >>> shift) & MASK]!++;
+      spareIdx[at] = idx[i]!;
+      if (onLo) spareLo[at] = keyLo[i]!; // the low word is needed only by passes 0 and 1
+      spareHi[at] = keyHi[i]!;
+    }
+    [idx, spareIdx] = [spareIdx, idx];
+    [keyHi, spareHi] = [spareHi, keyHi];
+    if (onLo) [keyLo, spareLo] = [spareLo, keyLo];
+  }
+  return idx;
 }
