@@ -7,28 +7,8 @@
  * (median of several runs each) so that other load on the machine hits both alike.
  */
 import { crossValidate, fitMonotone, kFoldAssignment } from '../src/core/index.js';
-import { risingData, type BenchRecord } from './harness.js';
+import { risingData, timePair, type BenchRecord } from './harness.js';
 
-/**
- * Median times of `a` and `b` measured alternately (a, b, a, b, …) after one warm-up call of
- * each, so a change in machine load affects both sides alike.
- */
-function timePair(a: () => unknown, b: () => unknown, runs: number): [number, number] {
-  a();
-  b();
-  const ta: number[] = [];
-  const tb: number[] = [];
-  for (let r = 0; r < runs; r++) {
-    let t0 = performance.now();
-    a();
-    ta.push(performance.now() - t0);
-    t0 = performance.now();
-    b();
-    tb.push(performance.now() - t0);
-  }
-  const median = (v: number[]): number => v.sort((p, q) => p - q)[Math.floor(v.length / 2)]!;
-  return [median(ta), median(tb)];
-}
 
 const FOLDS = 10;
 const SEED = 1;

@@ -16,30 +16,8 @@
 import { fitMonotone, interpolateAt } from '../src/core/index.js';
 import { functionByName } from '../src/functions/registry.js';
 import { clearCaches } from '../src/functions/engine.js';
-import { risingData, type BenchRecord } from './harness.js';
+import { risingData, timePair, type BenchRecord } from './harness.js';
 
-/**
- * Median times of `a` and `b` measured alternately after `warm` warm-up calls of each (the PREDICT
- * path needs several rounds before V8 has optimised it).
- */
-function timePair(a: () => unknown, b: () => unknown, runs: number, warm = 6): [number, number] {
-  for (let w = 0; w < warm; w++) {
-    a();
-    b();
-  }
-  const ta: number[] = [];
-  const tb: number[] = [];
-  for (let r = 0; r < runs; r++) {
-    let t0 = performance.now();
-    a();
-    ta.push(performance.now() - t0);
-    t0 = performance.now();
-    b();
-    tb.push(performance.now() - t0);
-  }
-  const median = (v: number[]): number => v.sort((p, q) => p - q)[Math.floor(v.length / 2)]!;
-  return [median(ta), median(tb)];
-}
 
 export function run(emit: (r: BenchRecord) => void, options: { quick: boolean }): void {
   const n = 10_000;
@@ -60,7 +38,7 @@ export function run(emit: (r: BenchRecord) => void, options: { quick: boolean })
       clearCaches();
       for (let i = 0; i < calls; i++) sink += (predict.invoke([[[newX[i]!]], ys, xs, knots]) as number[][])[0]![0]!;
     };
-    const [sameMs, floorMs] = timePair(sameArgs, floor, runs);
+    const [sameMs, floorMs] = timePair(sameArgs, floor, runs, 6);
     emit({ case: 'floor: 1 fit + 10,000 interpolations', n, knots, ms: floorMs });
     emit({ case: '10,000 PREDICT, same range objects', n, knots, ms: sameMs, ratio: sameMs / floorMs, goal: 2 });
 
@@ -87,7 +65,7 @@ export function run(emit: (r: BenchRecord) => void, options: { quick: boolean })
     const [spillMs] = timePair(() => {
       clearCaches();
       sink += (predict.invoke([column, ys, xs, knots]) as number[][]).length;
-    }, () => 0, runs);
+    }, () => 0, runs, 6);
     emit({ case: '1 PREDICT with 10,000 new x', n, knots, ms: spillMs, ratio: spillMs / floorMs });
   }
   if (sink === 42) console.log('');

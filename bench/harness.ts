@@ -25,6 +25,30 @@ export function timeMs(fn: () => unknown, runs = 5): number {
   return times[Math.floor(times.length / 2)]!;
 }
 
+/**
+ * Median times of `a` and `b` measured alternately (a, b, a, b, …) after `warm` warm-up calls of
+ * each, so a change in machine load affects both sides alike (some paths need several rounds before
+ * V8 has optimised them).
+ */
+export function timePair(a: () => unknown, b: () => unknown, runs: number, warm = 1): [number, number] {
+  for (let w = 0; w < warm; w++) {
+    a();
+    b();
+  }
+  const ta: number[] = [];
+  const tb: number[] = [];
+  for (let r = 0; r < runs; r++) {
+    let t0 = performance.now();
+    a();
+    ta.push(performance.now() - t0);
+    t0 = performance.now();
+    b();
+    tb.push(performance.now() - t0);
+  }
+  const median = (v: number[]): number => v.sort((p, q) => p - q)[Math.floor(v.length / 2)]!;
+  return [median(ta), median(tb)];
+}
+
 /** Deterministic uniform numbers in [0, 1) for benchmark data (a 32-bit LCG; not for statistics). */
 export function lcg(seed: number): () => number {
   let s = seed >>> 0;
