@@ -2,13 +2,12 @@
  * Cross-validated scores of (K1, K2) knot pairs for the monotone surface, with the folds, seeds and
  * rules of the one-predictor cross-validation (src/core/cross-validate.ts, folds.ts, suggest-knots.ts).
  */
-import { finiteArray, sameLength, weightArray } from './validate.js';
 import { checkFolds, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
 import { suggestKnots, type SuggestionRule } from './suggest-knots.js';
 import { fail } from './errors.js';
 import type { CandidateScore } from './cross-validate.js';
-import { checkAxisDirection, surfaceChecked, type AxisDirection } from './surface.js';
+import { checkSurfaceInputs, surfaceChecked, type AxisDirection } from './surface.js';
 import { evaluateLattice, locate } from './surface-lattice.js';
 
 /** Options of {@link crossValidateSurface}. */
@@ -110,18 +109,7 @@ export function crossValidateSurface(
   y: ArrayLike<number>,
   options: SurfaceCrossValidationOptions = {},
 ): SurfaceCrossValidationResult {
-  const a1 = finiteArray('x1', x1);
-  sameLength('x1', a1.length, 'x2', x2);
-  const a2 = finiteArray('x2', x2);
-  sameLength('x1', a1.length, 'y', y);
-  const ay = finiteArray('y', y);
-  const aw = weightArray(a1.length, options.weights);
-  const d1 = checkAxisDirection(options.direction1, 'direction1');
-  const d2 = checkAxisDirection(options.direction2, 'direction2');
-  const tol = options.tolerance ?? 1e-9;
-  if (typeof tol !== 'number' || !(tol >= 1e-14 && tol <= 1e-3)) {
-    fail('BAD_OPTION', 'tolerance', `needs a number in [1e-14, 1e-3]; got ${String(tol)}`);
-  }
+  const { xs1: a1, xs2: a2, ys: ay, ws: aw, d1, d2, tol } = checkSurfaceInputs(x1, x2, y, options);
   // Rows with positive weight, in row order.
   const keep: number[] = [];
   for (let i = 0; i < a1.length; i++) if (aw[i]! > 0) keep.push(i);

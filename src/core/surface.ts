@@ -198,21 +198,47 @@ export function fitSurface(
   y: ArrayLike<number>,
   options: SurfaceOptions = {},
 ): SurfaceModel {
+  const { xs1, xs2, ys, ws, d1, d2, tol } = checkSurfaceInputs(x1, x2, y, options);
+  const spec1 = checkSurfaceKnots(options.knots1, 'knots1');
+  const spec2 = checkSurfaceKnots(options.knots2, 'knots2');
+  return surfaceChecked(xs1, xs2, ys, ws, spec1, spec2, d1, d2, tol);
+}
+
+/** Validated copies of the inputs and options shared by fitSurface and crossValidateSurface. */
+export interface SurfaceInputs {
+  xs1: Float64Array;
+  xs2: Float64Array;
+  ys: Float64Array;
+  ws: Float64Array;
+  d1: AxisDirection;
+  d2: AxisDirection;
+  tol: number;
+}
+
+/**
+ * Checks and copies x1, x2, y, the weights, both directions and the tolerance (default 1e-9, in
+ * [1e-14, 1e-3]). O(n). @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT,
+ * BAD_OPTION.
+ */
+export function checkSurfaceInputs(
+  x1: ArrayLike<number>,
+  x2: ArrayLike<number>,
+  y: ArrayLike<number>,
+  options: { weights?: ArrayLike<number> | undefined; direction1?: unknown; direction2?: unknown; tolerance?: number | undefined },
+): SurfaceInputs {
   const xs1 = finiteArray('x1', x1);
   sameLength('x1', xs1.length, 'x2', x2);
   const xs2 = finiteArray('x2', x2);
   sameLength('x1', xs1.length, 'y', y);
   const ys = finiteArray('y', y);
   const ws = weightArray(xs1.length, options.weights);
-  const spec1 = checkSurfaceKnots(options.knots1, 'knots1');
-  const spec2 = checkSurfaceKnots(options.knots2, 'knots2');
   const d1 = checkAxisDirection(options.direction1, 'direction1');
   const d2 = checkAxisDirection(options.direction2, 'direction2');
   const tol = options.tolerance ?? 1e-9;
   if (typeof tol !== 'number' || !(tol >= 1e-14 && tol <= 1e-3)) {
     fail('BAD_OPTION', 'tolerance', `needs a number in [1e-14, 1e-3]; got ${String(tol)}`);
   }
-  return surfaceChecked(xs1, xs2, ys, ws, spec1, spec2, d1, d2, tol);
+  return { xs1, xs2, ys, ws, d1, d2, tol };
 }
 
 /** 2^e nearest the largest |v| over rows with positive weight (1 when all are 0). O(n). */
