@@ -12,9 +12,9 @@ export interface BenchRecord {
   [extra: string]: unknown;
 }
 
-/** Median wall time in milliseconds of `runs` calls of `fn` after one warm-up call. */
+/** Median wall time in milliseconds of `runs` calls of `fn` after three warm-up calls (JIT). */
 export function timeMs(fn: () => unknown, runs = 5): number {
-  fn();
+  for (let w = 0; w < 3; w++) fn();
   const times: number[] = [];
   for (let r = 0; r < runs; r++) {
     const t0 = performance.now();

@@ -2,16 +2,14 @@
  * Stable ascending sort order of finite numbers by LSD radix sort on their IEEE-754 bits.
  */
 
-const RADIX_BITS = 16;
-const BUCKETS = 1 << RADIX_BITS;
-const MASK = BUCKETS - 1;
 
 /**
  * Returns the permutation that sorts `values` ascending: `values[order[0]] ≤ values[order[1]] ≤ …`.
  * The sort is stable (equal values keep their input order) and treats −0 as equal to +0.
  *
  * Cost: O(n) time (one histogram pass, then up to four scatter passes over 16-bit digits of the
- * 64-bit key, each skipped when all elements share that digit), O(n) extra memory. A linear scan first returns the identity at once when `values` is already sorted.
+ * 64-bit key — eight over 8-bit digits below 65,536 elements — each skipped when all elements
+ * share that digit), O(n) extra memory. A linear scan first returns the identity at once when `values` is already sorted.
  *
  * @param values finite numbers (NaN is not allowed — callers validate first); not modified.
  * @returns a new Uint32Array of indices (empty for empty input).
@@ -57,47 +55,54 @@ export function sortOrder(values: ArrayLike<number>): Uint32Array {
       lo[i] = l;
     }
   }
-  // All four digit histograms in one pass (they do not depend on the order), then four stable
-  // scatter passes that carry the remaining key words along with the indices, so every pass reads
-  // its input sequentially (gathering keys through the permutation would miss the cache).
-  const counts = [new Uint32Array(BUCKETS), new Uint32Array(BUCKETS), new Uint32Array(BUCKETS), new Uint32Array(BUCKETS)];
-  const [c0, c1, c2, c3] = counts as [Uint32Array, Uint32Array, Uint32Array, Uint32Array];
+  // Digits of 16 bits (4 passes) for large inputs; of 8 bits (8 passes) below 65,536 elements,
+  // where clearing and summing 65,536-bucket histograms would cost more than the passes.
+  const bits = n >= 65536 ? 16 : 8;
+  const buckets = 1 << bits;
+  const mask = buckets - 1;
+  const perWord = 32 / bits;
+  const passes = 2 * perWord;
+  // All digit histograms in one pass (they do not depend on the order).
+  const counts = new Uint32Array(passes * buckets);
   for (let i = 0; i < n; i++) {
     const l = lo[i]!;
     const h = hi[i]!;
-    c0[l & MASK]!++;
-    c1[l >>> RADIX_BITS]!++;
-    c2[h & MASK]!++;
-    c3[h >>> RADIX_BITS]!++;
+    for (let p = 0; p < perWord; p++) {
+      counts[p * buckets + ((l >>> (p * bits)) & mask)]!++;
+      counts[(p + perWord) * buckets + ((h >>> (p * bits)) & mask)]!++;
+    }
   }
-  // A pass whose digit is the same for every element changes nothing and is skipped.
-  const needed = counts.map((c) => {
+  // Exclusive prefix sums; a pass whose digit is the same for every element is skipped.
+  const needed: boolean[] = [];
+  for (let p = 0; p < passes; p++) {
     let sum = 0;
     let nonEmpty = 0;
-    for (let b = 0; b < BUCKETS; b++) {
-      const k = c[b]!;
+    for (let b = p * buckets, end = b + buckets; b < end; b++) {
+      const k = counts[b]!;
       if (k !== 0) nonEmpty++;
-      c[b] = sum;
+      counts[b] = sum;
       sum += k;
     }
-    return nonEmpty > 1;
-  });
+    needed.push(nonEmpty > 1);
+  }
+  // Stable scatter passes that carry the key words along with the indices, so every pass reads
+  // its input sequentially (gathering keys through the permutation would miss the cache).
   let idx = order;
   let keyLo = lo;
   let keyHi = hi;
   let spareIdx = new Uint32Array(n);
   let spareLo = new Uint32Array(n);
   let spareHi = new Uint32Array(n);
-  for (let pass = 0; pass < 4; pass++) {
+  for (let pass = 0; pass < passes; pass++) {
     if (!needed[pass]) continue;
-    const c = counts[pass]!;
-    const onLo = pass < 2;
-    const shift = (pass & 1) * RADIX_BITS;
+    const base = pass * buckets;
+    const onLo = pass < perWord;
+    const shift = (pass % perWord) * bits;
     const key = onLo ? keyLo : keyHi;
     for (let i = 0; i < n; i++) {
-      const at = c[(key[i]! >>> shift) & MASK]!++;
+      const at = counts[base + ((key[i]! >>> shift) & mask)]!++;
       spareIdx[at] = idx[i]!;
-      if (onLo) spareLo[at] = keyLo[i]!; // the low word is needed only by passes 0 and 1
+      if (onLo) spareLo[at] = keyLo[i]!; // the low word is needed only by the low-word passes
       spareHi[at] = keyHi[i]!;
     }
     [idx, spareIdx] = [spareIdx, idx];
