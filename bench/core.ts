@@ -57,7 +57,7 @@ export function run(emit: (r: BenchRecord) => void, options: { quick: boolean })
   const sizes = options.quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6];
   for (const n of sizes) {
     const { x, y } = risingData(n);
-    const runs = n >= 1e6 ? 5 : 9;
+    const runs = n >= 1e6 ? 5 : n <= 1e4 ? 41 : 9;
     let sink = 0;
     const sumMs = timeMs(() => {
       sink += sumPass(x, y);
