@@ -1,24 +1,18 @@
 /**
- * Entry of the task pane page, which is also the add-in's shared runtime: when the page is hosted
- * in Office it loads office.js, then the custom-functions bundle (which registers the RATCHET
- * functions with CustomFunctions.associate — so it must run after office.js), then starts the
- * pane in Excel mode. Opened in a plain browser it never requests office.js and runs as the
- * preview instead.
+ * Entry of the task pane page, which is also the add-in's shared runtime. The page is only ever
+ * opened by Office (the browser preview is its own page, preview.html, which never loads
+ * office.js): office.js comes first through a static script tag in the page's head, as Office
+ * requires; then this entry loads the custom-functions bundle (which registers the RATCHET
+ * functions with CustomFunctions.associate — so it must run after office.js) and starts the pane
+ * in Excel mode.
  */
 /// <reference types="office-js" />
 import { App } from './app.js';
-import { OFFICE_JS, isOfficeHosted, loadScript } from './host.js';
 
 async function main(): Promise<void> {
-  if (!isOfficeHosted(window as unknown as Parameters<typeof isOfficeHosted>[0])) {
-    const { PreviewData } = await import(/* webpackChunkName: "preview-mode" */ './preview-mode.js');
-    new PreviewData(new App('preview'));
-    return;
-  }
-  try {
-    await loadScript(OFFICE_JS);
-  } catch (e) {
-    document.getElementById('host')!.textContent = `Office's script library could not be loaded (${e instanceof Error ? e.message : String(e)}). The add-in needs it to talk to Excel.`;
+  if (typeof Office === 'undefined') {
+    document.getElementById('host')!.textContent =
+      "Office's script library is not available: this page is the add-in's page inside Excel. For a preview without Excel, run npm run preview.";
     return;
   }
   // Shared runtime: the RATCHET functions live in this page too.

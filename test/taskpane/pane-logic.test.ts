@@ -8,7 +8,6 @@ import { CsvError, parseCsv, sniffSeparator } from '../../taskpane/csv.js';
 import { absoluteRef, columnLetters, columnNumber, intersects, parseAddress, sheetPrefix, spillArea, tableColumnRef } from '../../taskpane/refs.js';
 import { candidatesText, formulaFor, parseCandidates, spillSize } from '../../taskpane/formulas.js';
 import { columnRef, csvCell, sourceFromCsv, xlsxCell } from '../../taskpane/sources.js';
-import { isOfficeHosted } from '../../taskpane/host.js';
 import { computeFit, knotTableCsv } from '../../taskpane/analysis.js';
 import { functionByName } from '../../src/functions/registry.js';
 
@@ -141,19 +140,5 @@ describe('sources of the preview', () => {
     expect(xlsxCell({ sharedFormula: 'A1', result: undefined })).toBeNull();
     expect(xlsxCell({ richText: [{ text: 'te' }, { text: 'mp' }] })).toBe('temp');
     expect(xlsxCell({ error: '#DIV/0!' })).toEqual({ kind: 'error', code: '#DIV/0!' });
-  });
-});
-
-describe('host detection (decides whether office.js is requested)', () => {
-  const plain = { location: { search: '' }, name: '', sessionStorage: { getItem: () => null } };
-  it('is false in a plain browser tab, so the preview never loads office.js', () => {
-    expect(isOfficeHosted(plain)).toBe(false);
-    expect(isOfficeHosted({ ...plain, chrome: { runtime: {} } })).toBe(false);
-  });
-  it('is true with Office’s _host_Info parameter, its stored host info, or a desktop bridge', () => {
-    expect(isOfficeHosted({ ...plain, location: { search: '?_host_Info=Excel$Win32$16.01$en-US$$$$0' } })).toBe(true);
-    expect(isOfficeHosted({ ...plain, sessionStorage: { getItem: (k: string) => (k === 'hostInfoValue' ? 'Excel|Mac' : null) } })).toBe(true);
-    expect(isOfficeHosted({ ...plain, chrome: { webview: {} } })).toBe(true);
-    expect(isOfficeHosted({ ...plain, webkit: { messageHandlers: { Office: {} } } })).toBe(true);
   });
 });
