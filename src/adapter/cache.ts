@@ -70,12 +70,7 @@ export class LruCache<V> {
     this.map.set(key, { value, bytes });
     this.lastKey = key;
     this.totalBytes += bytes;
-    while (this.map.size > this.maxEntries || this.totalBytes > this.maxBytes) {
-      const oldest = this.map.keys().next().value as string;
-      this.totalBytes -= this.map.get(oldest)!.bytes;
-      this.map.delete(oldest);
-      this.stats.evictions++;
-    }
+    this.evictToBounds();
     this.sync();
   }
 
@@ -91,13 +86,18 @@ export class LruCache<V> {
   resize(maxEntries: number, maxBytes: number): void {
     this.maxEntries = maxEntries;
     this.maxBytes = maxBytes;
+    this.evictToBounds();
+    this.sync();
+  }
+
+  /** Drops least recently used entries until both bounds hold. */
+  private evictToBounds(): void {
     while (this.map.size > this.maxEntries || this.totalBytes > this.maxBytes) {
       const oldest = this.map.keys().next().value as string;
       this.totalBytes -= this.map.get(oldest)!.bytes;
       this.map.delete(oldest);
       this.stats.evictions++;
     }
-    this.sync();
   }
 
   private sync(): void {
