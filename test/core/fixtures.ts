@@ -124,3 +124,16 @@ export function inputCase(name: string): InputCase {
   if (c === undefined) throw new Error(`no input case ${name} in core_inputs.json`);
   return c;
 }
+
+/**
+ * Hat-function weights of x on knots t (x clamped to the ends): [interval j, weight of t_j, weight
+ * of t_{j+1}] — one row of the design matrix B, by a linear scan, independent of the core's code.
+ */
+export function hatRow(t: ArrayLike<number>, x: number): [number, number, number] {
+  const K = t.length;
+  const xc = Math.min(Math.max(x, t[0]!), t[K - 1]!);
+  let j = 0;
+  while (j < K - 2 && xc >= t[j + 1]!) j++;
+  const u = (xc - t[j]!) / (t[j + 1]! - t[j]!);
+  return [j, 1 - u, u];
+}

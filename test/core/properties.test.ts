@@ -30,6 +30,7 @@ import {
   sortOrder,
   type Direction,
 } from '../../src/core/index.js';
+import { hatRow } from './fixtures.js';
 
 // Fixed seed for reproducible CI runs; FC_SEED / FC_RUNS explore further (e.g. FC_RUNS=20000).
 fc.configureGlobal({ seed: Number(process.env.FC_SEED ?? 20240601), numRuns: Number(process.env.FC_RUNS ?? 300) });
@@ -133,15 +134,6 @@ function upBounds(dir: Direction, lower = -Infinity, upper = Infinity): [number,
   return dir === 'up' ? [lower, upper] : [-upper, -lower];
 }
 
-/** Hat-function weights of x on knots t (x clamped to the ends): the row of B. Independent of the core. */
-function hatRow(t: ArrayLike<number>, x: number): [number, number, number] {
-  const K = t.length;
-  const xc = Math.min(Math.max(x, t[0]!), t[K - 1]!);
-  let j = 0;
-  while (j < K - 2 && xc >= t[j + 1]!) j++;
-  const u = (xc - t[j]!) / (t[j + 1]! - t[j]!);
-  return [j, 1 - u, u];
-}
 
 function isNonDecreasing(v: ArrayLike<number>): boolean {
   for (let i = 1; i < v.length; i++) if (!(v[i]! >= v[i - 1]!)) return false;

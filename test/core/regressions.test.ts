@@ -5,17 +5,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { fitMonotone, invertAt, isotonicRegression, knotRegression, lerp, predict, RatchetError } from '../../src/core/index.js';
-import { bvlsRefs, inputCase, rRefs } from './fixtures.js';
+import { bvlsRefs, hatRow, inputCase, rRefs } from './fixtures.js';
 
-/** Hat-function weights of x on knots t (x clamped to the ends), computed here independently. */
-function hatRow(t: ArrayLike<number>, x: number): [number, number, number] {
-  const K = t.length;
-  const xc = Math.min(Math.max(x, t[0]!), t[K - 1]!);
-  let j = 0;
-  while (j < K - 2 && xc >= t[j + 1]!) j++;
-  const u = (xc - t[j]!) / (t[j + 1]! - t[j]!);
-  return [j, 1 - u, u];
-}
 
 describe('monotone-qp: the active-set tolerance is in the units of the multipliers (w·y), not of H', () => {
   it('a knot fit of y measured in units of 1e-20 is the knot fit of the same y in units of 1, scaled', () => {
