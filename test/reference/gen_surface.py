@@ -31,6 +31,8 @@ import sklearn
 from cvxopt import matrix, solvers
 from sklearn.model_selection import KFold
 
+from lattice_design import design
+
 OUT = os.path.join("test", "reference", "fixtures")
 COMMAND = "/usr/bin/python3 test/reference/gen_surface.py"
 RSCRIPT = "/usr/bin/Rscript"
@@ -47,28 +49,6 @@ def r_dataset(name, cols):
     out = subprocess.run([RSCRIPT, "--vanilla", "-e", code], check=True, capture_output=True, text=True).stdout
     rows = list(csv.reader(io.StringIO(out)))[1:]
     return [[float(v) for v in r] for r in rows]
-
-
-def hat(x, t):
-    K = len(t)
-    xc = np.clip(x, t[0], t[-1])
-    j = np.minimum(np.searchsorted(t, xc, side="right") - 1, K - 2)
-    u = (xc - t[j]) / (t[j + 1] - t[j])
-    M = np.zeros((len(x), K))
-    M[np.arange(len(x)), j] += 1 - u
-    M[np.arange(len(x)), j + 1] += u
-    return M
-
-
-def design(x1, x2, t1, t2):
-    A = hat(x1, t1)
-    G = hat(x2, t2)
-    K1, K2 = len(t1), len(t2)
-    B = np.zeros((len(x1), K1 * K2))
-    for b in range(K2):
-        for a in range(K1):
-            B[:, b * K1 + a] = A[:, a] * G[:, b]
-    return B
 
 
 def order_matrix(K1, K2):

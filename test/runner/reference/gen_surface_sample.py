@@ -24,10 +24,14 @@ repository root). Deterministic output (floats by json repr, no time stamps).
 import json
 import os
 import subprocess
+import sys
 
 import cvxopt
 import numpy as np
 from cvxopt import matrix, solvers
+
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "reference"))
+from lattice_design import design  # noqa: E402
 
 RSCRIPT = "/usr/bin/Rscript"
 COMMAND = "/usr/bin/python3 test/runner/reference/gen_surface_sample.py"
@@ -47,25 +51,6 @@ x2 = np.array(INPUTS["B"], dtype=float)
 y = np.array(INPUTS["C"], dtype=float)
 new1 = np.array(INPUTS["N"], dtype=float)
 new2 = np.array(INPUTS["O"], dtype=float)
-
-
-def hats(x, t):
-    """Row i: the weights of the knots t in the linear interpolation at x[i] (clamped to t)."""
-    K = len(t)
-    xc = np.clip(x, t[0], t[-1])
-    j = np.minimum(np.searchsorted(t, xc, side="right") - 1, K - 2)
-    u = (xc - t[j]) / (t[j + 1] - t[j])
-    M = np.zeros((len(x), K))
-    M[np.arange(len(x)), j] += 1 - u
-    M[np.arange(len(x)), j + 1] += u
-    return M
-
-
-def design(a, b, t1, t2):
-    """Bilinear design: column b_index * K1 + a_index (row-major K2 x K1, as RATCHET.GRID)."""
-    H1 = hats(a, t1)
-    H2 = hats(b, t2)
-    return np.einsum("ib,ia->iba", H2, H1).reshape(len(a), len(t2) * len(t1))
 
 
 def monotone_qp(B, y, K1, K2):
