@@ -1,6 +1,7 @@
 /**
  * Goodness-of-fit statistics of a fitted curve.
  */
+import { scaleExponents, timesPowerOfTwo } from './scale.js';
 
 /** Result of {@link fitStatistics}. */
 export interface FitStatistics {
@@ -46,7 +47,10 @@ export function fitStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w
   const sad = sums[5]!;
   const safe =
     Number.isFinite(sw) && Number.isFinite(sse) && Number.isFinite(sst) && Number.isFinite(sae) && Number.isFinite(sad) &&
-    (sae === 0 || sse > TINY) && (sad === 0 || sst > TINY);
+    (sae === 0 || sse > TINY) && (sad === 0 || sst > TINY) &&
+    // Total weight far from 1 (all weights near 1e-250, or some near 1e100): products w·|r| may have
+    // underflowed to 0 unseen (then SAE and SSE would both be 0), so take the scaled path.
+    sw > WEIGHT_FLOOR && sw < 1 / WEIGHT_FLOOR;
   if (!safe) return scaledStatistics(y, fitted, w, count);
   // R² below the range of doubles (an awful fit of near-constant y) is reported as −MAX_VALUE.
   const r2 = sst > 0 ? Math.max(1 - sse / sst, -Number.MAX_VALUE) : sse === 0 ? 1 : 0;
@@ -99,6 +103,9 @@ function plainSums(y: ArrayLike<number>, fitted: ArrayLike<number>, w: ArrayLike
   out[5] = sad;
 }
 
+/** Total weights outside [2^-300, 2^300] take the scaled path (see fitStatistics). */
+const WEIGHT_FLOOR = 2 ** -300;
+
 /** Sums of squares below this (2^-800) may have lost precision to underflow. */
 const TINY = 2 ** -800;
 
@@ -109,17 +116,17 @@ const TINY = 2 ** -800;
  */
 function scaledStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w: ArrayLike<number> | undefined, count: number): FitStatistics {
   const n = y.length;
-  let maxW = 0;
   let maxY = 0;
   for (let i = 0; i < n; i++) {
     const wi = w === undefined ? 1 : w[i]!;
     if (wi > 0) {
-      if (wi > maxW) maxW = wi;
       const a = Math.abs(y[i]!);
       if (a > maxY) maxY = a;
     }
   }
-  const wScale = 2 ** -powerOfTwoExponent(maxW);
+  // Weights scaled to their largest near 1, or to their geometric middle when they span more than
+  // 2^600 (as the fits do; see src/core/scale.ts), so the lightest rows still count.
+  const wScale = timesPowerOfTwo(1, -scaleExponents(y, w ?? null).wExp);
   const yExp = powerOfTwoExponent(maxY);
   const yScale = 2 ** -yExp;
   let sw = 0;
