@@ -23,8 +23,9 @@ export interface FitStatistics {
 /**
  * Weighted fit statistics of `fitted` against `y`. Rows with weight 0 are ignored.
  *
- * Cost: O(n), two passes; four when the plain sums would overflow (|y| or w near 1e308) or the
- * squares underflow (1e-160-sized residuals), which are then taken on values scaled by powers of
+ * Cost: O(n), three passes; six when the plain sums would overflow (|y| or w near 1e308) or the
+ * products underflow (1e-160-sized residuals, or y and weights whose product is below 1e-300, such
+ * as y near 1e-100 with weights near 1e-250), which are then taken on values scaled by powers of
  * two so the results stay accurate. Inputs are not modified;
  * preconditions (same lengths, finite values, weights ≥ 0 with a positive total) are the
  * callers' — the fitting functions guarantee them.
@@ -48,9 +49,9 @@ export function fitStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w
   const safe =
     Number.isFinite(sw) && Number.isFinite(sse) && Number.isFinite(sst) && Number.isFinite(sae) && Number.isFinite(sad) &&
     (sae === 0 || sse > TINY) && (sad === 0 || sst > TINY) &&
-    // Total weight far from 1 (all weights near 1e-250, or some near 1e100): products w·|r| may have
-    // underflowed to 0 unseen (then SAE and SSE would both be 0), so take the scaled path.
-    sw > WEIGHT_FLOOR && sw < 1 / WEIGHT_FLOOR;
+    // y or weights far from 1 (1e-260 y with 1e-64 weights): products w·|r| may have underflowed
+    // to 0 unseen — SAE and SSE would both be 0 — so take the scaled path (see src/core/scale.ts).
+    !scaleExponents(y, w ?? null).needed;
   if (!safe) return scaledStatistics(y, fitted, w, count);
   // R² below the range of doubles (an awful fit of near-constant y) is reported as −MAX_VALUE.
   const r2 = sst > 0 ? Math.max(1 - sse / sst, -Number.MAX_VALUE) : sse === 0 ? 1 : 0;
@@ -102,9 +103,6 @@ function plainSums(y: ArrayLike<number>, fitted: ArrayLike<number>, w: ArrayLike
   out[4] = sst;
   out[5] = sad;
 }
-
-/** Total weights outside [2^-300, 2^300] take the scaled path (see fitStatistics). */
-const WEIGHT_FLOOR = 2 ** -300;
 
 /** Sums of squares below this (2^-800) may have lost precision to underflow. */
 const TINY = 2 ** -800;
