@@ -13,7 +13,8 @@ import type { PavaResult } from './pava.js';
  * agrees with exact PAVA to a few ulps per merge.
  *
  * Precondition in the name: positions in x order, one value each (ties pooled), weights finite
- * and > 0, |y| ≤ 1 after the caller's scaling (differences of means cannot overflow).
+ * and > 0 with a finite total, |y| below about 1e307 so that differences of means cannot overflow
+ * (the classic fit passes y scaled to at most 1).
  *
  * Cost: O(n) time and memory, like pavaSorted.
  *

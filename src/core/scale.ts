@@ -37,7 +37,8 @@ const SAFE_EXPONENT = 100;
  * @param ws finite weights ≥ 0 with a positive one, length n; null for unit weights.
  * @throws RatchetError NUMERICAL when the positive weights span more than 2^1700 (about 1e512):
  *   no common scale keeps both the heaviest and the lightest row representable in the sums.
- * @example scaleExponents([3e-200, -5e-200], null).yExp // → -661
+ * @example scaleExponents([3e-200, -5e-200], null).yExp // → -662
+ * @example scaleExponents([10, 14], [1e100, 1e-300]) // → { yExp: 4, wExp: -331, spread: 1329, needed: true }
  */
 export function scaleExponents(ys: ArrayLike<number>, ws: ArrayLike<number> | null): ScaleExponents {
   let maxY = 0;
@@ -64,13 +65,27 @@ export function scaleExponents(ys: ArrayLike<number>, ws: ArrayLike<number> | nu
   return { yExp, wExp, spread, needed };
 }
 
-/** v·2^e without overflow or underflow of the factor itself (2^e may leave the range of doubles). */
+/**
+ * v·2^e, applied in two halves so that the factor itself never leaves the range of doubles (2^e
+ * alone overflows for e > 1023 and underflows for e < −1074). Exact unless the result itself
+ * overflows (±Infinity) or falls below the normal range (then rounded as a subnormal). O(1).
+ *
+ * @param v any number (±Infinity and NaN pass through).
+ * @param e a whole number, typically within ±2100.
+ * @example timesPowerOfTwo(3, -1074) // → 1.5e-323
+ */
 export function timesPowerOfTwo(v: number, e: number): number {
   const half = Math.trunc(e / 2);
   return v * 2 ** half * 2 ** (e - half);
 }
 
-/** The exponent k of the smallest power of two 2^k ≥ v, clamped to [−1074, 1023]; 0 for v = 0. */
+/**
+ * The exponent k of the smallest power of two 2^k ≥ v (from Math.log2, so exact powers of two may
+ * come out one higher — harmless for scaling), clamped to [−1074, 1023]; 0 for v = 0. O(1).
+ *
+ * @param v a finite number ≥ 0.
+ * @example exponentOf(5e-200) // → -662
+ */
 export function exponentOf(v: number): number {
   return v > 0 ? Math.min(1023, Math.max(-1074, Math.ceil(Math.log2(v)))) : 0;
 }
