@@ -5,7 +5,7 @@
  * it calculates in every Excel version since 2007 and in other spreadsheet programs that read
  * .xlsx files. Pure functions, no host APIs.
  */
-import { fail } from '../core/index.js';
+import { checkKnotTable, fail } from '../core/index.js';
 import { MAX_COLS, MAX_ROWS, columnLetters, columnNumber } from './a1.js';
 
 /** Where a knot table sits: two columns (knot x, fitted value), one row per knot, no header. */
@@ -96,4 +96,61 @@ export function portableCurveFormula(table: KnotTablePlace, newX: string): strin
           return `IF(${x}<=INDEX(${X},1),INDEX(${Y},1),IF(${x}>=INDEX(${X},${k}),INDEX(${Y},${k}),${inner}))`;
         })();
   return `=IF(ISBLANK(${x}),"",IF(ISNUMBER(${x}),${numberCase},#VALUE!))`;
+}
+
+/** One cell of a portable-curve block, at an offset from its top-left cell. */
+export interface PortableCell {
+  /** Rows below and columns right of the block's top-left cell, from 0. */
+  readonly dr: number;
+  readonly dc: number;
+  /** A number (knot table), a label, or a formula (text starting with "="). */
+  readonly value: number | string;
+}
+
+/** Labels of the block's header row. */
+export const PORTABLE_HEADER: readonly string[] = ['knot x', 'fitted value', '', 'new x', 'predicted'];
+
+/**
+ * The cells of a self-contained portable curve, to write from a top-left cell at (row, col) of a
+ * sheet: a header row ({@link PORTABLE_HEADER}); below it the knot table as plain values in the
+ * first two columns; an empty column; then `newXRows` empty "new x" cells with, beside each, the
+ * {@link portableCurveFormula} that predicts at it. Typing x values into the "new x" column gives
+ * predictions without the add-in. Cost O(K + newXRows).
+ *
+ * @param knots the knot table (knot x strictly increasing, finite values), e.g. a RATCHET.KNOTS
+ *   result; 1 to 1,048,575 rows.
+ * @param at the block's top-left cell: 1-based `row` and `col`, and the `sheet` the formulas live
+ *   on (undefined: no sheet prefix, same sheet). Column `col` + 4 must exist.
+ * @param newXRows how many "new x" rows to prepare, a whole number ≥ 1; default 10.
+ * @throws RatchetError BAD_KNOTS / NON_FINITE naming `knots` for a table the formula could not read
+ *   correctly; BAD_OPTION naming `at` or `newXRows`.
+ * @example portableCurveBlock([[1, 10], [3, 14]], { row: 1, col: 4 }, 1).slice(0, 4)
+ * // → [{ dr: 0, dc: 0, value: 'knot x' }, { dr: 0, dc: 1, value: 'fitted value' }, { dr: 0, dc: 3, value: 'new x' }, { dr: 0, dc: 4, value: 'predicted' }]
+ */
+export function portableCurveBlock(
+  knots: readonly (readonly [number, number])[],
+  at: { readonly row: number; readonly col: number; readonly sheet?: string | undefined },
+  newXRows = 10,
+): PortableCell[] {
+  checkKnotTable(
+    knots.map((k) => k[0]),
+    knots.map((k) => k[1]),
+    'knots',
+  );
+  if (!Number.isInteger(at.row) || !Number.isInteger(at.col) || at.row < 1 || at.col < 1 || at.col + 4 > MAX_COLS) {
+    fail('BAD_OPTION', 'at', `needs a 1-based row and a column with 4 columns to its right; got row ${at.row}, column ${at.col}`);
+  }
+  const height = Math.max(knots.length, newXRows) + 1;
+  if (!Number.isInteger(newXRows) || newXRows < 1 || at.row + height - 1 > MAX_ROWS) {
+    fail('BAD_OPTION', 'newXRows', `needs a whole number ≥ 1 that fits below row ${at.row}; got ${String(newXRows)}`);
+  }
+  const cells: PortableCell[] = [];
+  PORTABLE_HEADER.forEach((label, dc) => {
+    if (label !== '') cells.push({ dr: 0, dc, value: label });
+  });
+  knots.forEach(([x, y], i) => cells.push({ dr: i + 1, dc: 0, value: x }, { dr: i + 1, dc: 1, value: y }));
+  const table: KnotTablePlace = { sheet: at.sheet, topLeft: `${columnLetters(at.col)}${at.row + 1}`, rows: knots.length };
+  const newXColumn = columnLetters(at.col + 3);
+  for (let i = 0; i < newXRows; i++) cells.push({ dr: i + 1, dc: 4, value: portableCurveFormula(table, `${newXColumn}${at.row + 1 + i}`) });
+  return cells;
 }

@@ -9,7 +9,8 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { readFileSync } from 'node:fs';
-import { portableCurveFormula } from '../../src/adapter/portable-curve.js';
+import { portableCurveBlock, portableCurveFormula } from '../../src/adapter/portable-curve.js';
+import { cellName } from '../../src/runner/address.js';
 import { isRatchetError } from '../../src/core/index.js';
 import { evaluate, type Setup, type SetupCell } from '../runner/helpers.js';
 
@@ -140,5 +141,46 @@ describe('portableCurveFormula text', () => {
     }
     expect(isRatchetError(thrown, 'BAD_OPTION')).toBe(true);
     expect((thrown as Error).message).toBe(message);
+  });
+});
+
+describe('portableCurveBlock', () => {
+  it('written into a sheet and given new x, predicts what RATCHET.EVAL predicts from the same table', () => {
+    const table = knotTable(pressure.x, pressure.y, 6) as [number, number][];
+    const cells = portableCurveBlock(table, { row: 3, col: 2, sheet: 'Hand-off' }, 5);
+    const sheet: Record<string, SetupCell> = {};
+    for (const c of cells) sheet[cellName(2 + c.dr, 1 + c.dc)] = typeof c.value === 'string' && c.value.startsWith('=') ? { f: c.value.slice(1) } : c.value;
+    const lo = table[0]![0];
+    const hi = table[table.length - 1]![0];
+    const xs = [lo - 50, lo, (lo + hi) / 3, hi, hi + 50];
+    xs.forEach((x, i) => {
+      sheet[`E${4 + i}`] = x;
+      sheet[`H${4 + i}`] = { f: `RATCHET.EVAL(E${4 + i},$B$4:$C$${3 + table.length})` };
+    });
+    const book = evaluate({ 'Hand-off': sheet });
+    expect(book.block("'Hand-off'!B3", 1, 5)).toEqual([['knot x', 'fitted value', null, 'new x', 'predicted']]);
+    expect(book.block("'Hand-off'!B4", table.length, 2)).toEqual(table);
+    xs.forEach((_x, i) => {
+      const got = book.value(`'Hand-off'!F${4 + i}`) as number;
+      const want = book.value(`'Hand-off'!H${4 + i}`) as number;
+      expect(typeof got).toBe('number');
+      expect(Math.abs(got - want)).toBeLessThanOrEqual(1e-12 * Math.abs(want));
+    });
+  });
+
+  it('refuses a table the formula could not read correctly, and a block that does not fit', () => {
+    expect(() => portableCurveBlock([[2, 1], [1, 3]], { row: 1, col: 1 })).toThrow(/^knots/);
+    expect(() => portableCurveBlock([[1, Number.NaN]], { row: 1, col: 1 })).toThrow(/^knots values/);
+    expect(() => portableCurveBlock([[1, 2]], { row: 1, col: 16381 })).toThrow('at: needs a 1-based row and a column with 4 columns to its right; got row 1, column 16381.');
+    expect(() => portableCurveBlock([[1, 2]], { row: 1, col: 1 }, 0)).toThrow('newXRows: needs a whole number ≥ 1 that fits below row 1; got 0.');
+  });
+
+  it('matches its documented example', () => {
+    expect(portableCurveBlock([[1, 10], [3, 14]], { row: 1, col: 4 }, 1).slice(0, 4)).toEqual([
+      { dr: 0, dc: 0, value: 'knot x' },
+      { dr: 0, dc: 1, value: 'fitted value' },
+      { dr: 0, dc: 3, value: 'new x' },
+      { dr: 0, dc: 4, value: 'predicted' },
+    ]);
   });
 });
