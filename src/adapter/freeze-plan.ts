@@ -5,6 +5,8 @@
  * objects. Pure functions, no host APIs.
  */
 
+import { columnLetters } from './a1.js';
+
 /** A cell value as a host reports it; an error cell is `{ error: "#N/A" }`. */
 export type FrozenValue = number | string | boolean | null | { readonly error: string };
 
@@ -70,9 +72,7 @@ export function callsAddIn(formula: string): boolean {
 
 /** "B7" of a 1-based row and column. */
 function a1(row: number, col: number): string {
-  let s = '';
-  for (let c = col; c > 0; c = Math.floor((c - 1) / 26)) s = String.fromCharCode(65 + ((c - 1) % 26)) + s;
-  return `${s}${row}`;
+  return `${columnLetters(col)}${row}`;
 }
 
 /** "2026-12-01 21:45 UTC" of a date. */
