@@ -6,7 +6,7 @@ import type { CommonFitOptions, Direction } from './types.js';
 import { boundsPair, finiteArray, sameLength, weightArray } from './validate.js';
 import { checkKnotCount, checkKnotPositions, evenKnots } from './knots.js';
 import { resolveDirection } from './direction.js';
-import { fail } from './errors.js';
+import { fail, isRatchetError } from './errors.js';
 import { intervalIndex } from './interpolate.js';
 import { bandTimes, solveBandedQp, sparseRow, type SparseRow, type SymmetricBand } from './shape-qp.js';
 import type { TableInterpolation } from './smooth-table.js';
@@ -110,8 +110,9 @@ export interface ShapeFit {
  * (active set on the banded KKT system), starting from the best constant with every shape
  * constraint in the working set.
  *
- * Knots with no data nearby: when H is singular (a coefficient whose basis function meets no row
- * with positive weight, or chains of such), the data do not determine every coefficient. Ratchet
+ * Knots with no data nearby: when H is singular or nearly so (a coefficient whose basis function
+ * meets no row with positive weight, chains of such, or rows only a few ulps apart; a Cholesky
+ * pivot below 1e-10 of its diagonal entry), the data do not determine every coefficient. Ratchet
  * then adds the tie-break ε Σ (θⱼ₊₁ − θⱼ)²/gⱼ (gⱼ the knot span of the difference) with
  * ε = 1e-8·tr(H)/tr(R), and runs four proximal passes (the same QP with the tie-break centred on
  * the previous answer) that remove its bias on the data-determined directions. The answer is
@@ -250,12 +251,19 @@ export function shapeChecked(
   }
   const start = new Float64Array(m).fill(v);
 
-  let sol;
+  let sol: { theta: Float64Array; multipliers: Float64Array; active: Int32Array } | null = null;
   if (lo === hi) {
     sol = { theta: start, multipliers: new Float64Array(rows.length), active: Int32Array.from(working) };
   } else if (positiveDefinite(bands)) {
-    sol = solveBandedQp(H, c, rows, start, working);
-  } else {
+    // Nearly singular H (rows a few ulps apart) can still defeat the KKT elimination: then the
+    // tie-break below takes over.
+    try {
+      sol = solveBandedQp(H, c, rows, start, working);
+    } catch (e) {
+      if (!isRatchetError(e, 'NUMERICAL')) throw e;
+    }
+  }
+  if (sol === null) {
     // Tie-break for coefficients the data leave free (see shapeRegression), with proximal passes.
     let trH = 0;
     for (let j = 0; j < m; j++) trH += bands[0]![j]!;
@@ -288,6 +296,15 @@ export function shapeChecked(
   // Rounding guard: the shape rows hold to rounding; make order and bounds hold exactly (changes of
   // an ulp or so), so that a table read-back never sees a reversed step.
   const theta = sol.theta;
+  // Active difference rows (θ_{k+1} ≥ θ_k held with equality) are flat stretches: make them exactly
+  // flat, as the plain knot model's groups are; an active bound pins its end exactly.
+  for (const r of sol.active) {
+    const row = rows[r]!;
+    if (row.cols.length === 2 && row.rhs === 0 && row.coefs[0]! < 0 && row.coefs[0] === -row.coefs[1]!) {
+      theta[row.cols[1]!] = theta[row.cols[0]!]!;
+    } else if (r === loRow) theta[0] = lo;
+    else if (r === hiRow) theta[m - 1] = hi;
+  }
   for (let j = 0; j < m; j++) {
     if (j > 0 && theta[j]! < theta[j - 1]!) theta[j] = theta[j - 1]!;
     if (theta[j]! < lo) theta[j] = lo;
@@ -404,7 +421,7 @@ function positiveDefinite(bands: readonly Float64Array[]): boolean {
   for (let j = 0; j < m; j++) {
     let dj = bands[0]![j]!;
     for (let k = 1; k <= p && j - k >= 0; k++) dj -= L[k]![j - k]! ** 2;
-    if (!(dj > 1e-12 * bands[0]![j]!) || !(dj > 0)) return false;
+    if (!(dj > 1e-10 * bands[0]![j]!) || !(dj > 0)) return false;
     const ljj = Math.sqrt(dj);
     L[0]![j] = ljj;
     for (let k = 1; k <= p && j + k < m; k++) {

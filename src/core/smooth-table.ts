@@ -27,7 +27,9 @@ export function checkInterpolation(value: unknown, name = 'interpolation'): Tabl
 
 /**
  * Value at x of a table read with `interpolation`, flat beyond its ends. Quadratic: on interval j
- * (rows 2j, 2j + 1, 2j + 2) the parabola through the three rows (Lagrange form). Cost O(log K).
+ * (rows 2j, 2j + 1, 2j + 2) the parabola through the three rows (Lagrange form); where that
+ * parabola is monotone the value is kept between the interval's end values (rounding only).
+ * Cost O(log K).
  * Preconditions (the public callers check them): positions strictly increasing, values finite,
  * odd length ≥ 3 for `'quadratic'`; x finite.
  *
@@ -47,7 +49,37 @@ export function smoothTableAt(tx: ArrayLike<number>, ty: ArrayLike<number>, inte
     else hi = mid - 1;
   }
   const j = 2 * lo;
-  return parabola(tx[j]!, tx[j + 1]!, tx[j + 2]!, ty[j]!, ty[j + 1]!, ty[j + 2]!, x);
+  const y0 = ty[j]!;
+  const y2 = ty[j + 2]!;
+  const v = parabola(tx[j]!, tx[j + 1]!, tx[j + 2]!, y0, ty[j + 1]!, y2, x);
+  // A monotone piece stays between its end values; keep rounding from carrying it past them (so
+  // that a predicted value can always be read back).
+  if (!monotonePiece(tx, ty, j)) return v;
+  const lo2 = Math.min(y0, y2);
+  const hi2 = Math.max(y0, y2);
+  return v < lo2 ? lo2 : v > hi2 ? hi2 : v;
+}
+
+/**
+ * True when the parabola through rows j … j + 2 is monotone on [tx[j], tx[j + 2]]: its derivative
+ * at both ends has the sign of y₂ − y₀ (or is 0), to 1e-9 of the rise plus 1e-14 of the values
+ * over the width (the rounding of a fitted table).
+ */
+function monotonePiece(tx: ArrayLike<number>, ty: ArrayLike<number>, j: number): boolean {
+  const x0 = tx[j]!;
+  const x1 = tx[j + 1]!;
+  const x2 = tx[j + 2]!;
+  const s = ty[j + 2]! >= ty[j]! ? 1 : -1;
+  const y0 = s * ty[j]!;
+  const y1 = s * ty[j + 1]!;
+  const y2 = s * ty[j + 2]!;
+  const d01 = (y1 - y0) / (x1 - x0);
+  const d12 = (y2 - y1) / (x2 - x1);
+  const curv = (d12 - d01) / (x2 - x0);
+  const left = d01 - curv * (x1 - x0);
+  const right = d12 + curv * (x2 - x1);
+  const tol = (1e-9 * (Math.abs(y2 - y0) + Math.abs(y1 - y0)) + 1e-14 * Math.max(Math.abs(y0), Math.abs(y1), Math.abs(y2))) / (x2 - x0);
+  return left >= -tol && right >= -tol;
 }
 
 /** The parabola through (x0, y0), (x1, y1), (x2, y2) at x, Lagrange form. */
@@ -108,7 +140,7 @@ export function evaluateTable(
  * The x in [t₀, t_{K−1}] where a table's curve equals `target`. Linear tables: as
  * {@link invertAt}. Quadratic tables: each interval's parabola must be monotone in the table's
  * direction (its derivative at both interval ends of the right sign, to 1e-9 of the interval's
- * rise over its width); the answer solves the quadratic on the interval that reaches the target
+ * rise plus 1e-14 of its values, over its width: the rounding of a fitted table); the answer solves the quadratic on the interval that reaches the target
  * (numerically stable root formula, kept inside the interval). Where the curve equals the target
  * over a whole stretch (constant intervals), `tie` picks its lowest x, middle or highest x — the
  * rule of the linear table.
@@ -145,21 +177,8 @@ export function invertQuadraticChecked(tx: Float64Array, ty: Float64Array, targe
   const s = ty[P - 1]! >= ty[0]! ? 1 : -1;
   for (let j = 0; j < J; j++) {
     const i = 2 * j;
-    const x0 = tx[i]!;
-    const x1 = tx[i + 1]!;
-    const x2 = tx[i + 2]!;
-    const y0 = s * ty[i]!;
-    const y1 = s * ty[i + 1]!;
-    const y2 = s * ty[i + 2]!;
-    // Derivative of the parabola at both ends.
-    const d01 = (y1 - y0) / (x1 - x0);
-    const d12 = (y2 - y1) / (x2 - x1);
-    const curv = (d12 - d01) / (x2 - x0);
-    const left = d01 - curv * (x1 - x0);
-    const right = d12 + curv * (x2 - x1);
-    const tol = 1e-9 * (Math.abs(y2 - y0) + Math.abs(y1 - y0)) / (x2 - x0);
-    if (left < -tol || right < -tol || y2 < y0) {
-      fail('BAD_KNOTS', 'knot_table', `needs a monotone curve to read back x; the parabola on [${x0}, ${x2}] turns`);
+    if (!monotonePiece(tx, ty, i) || s * ty[i + 2]! < s * ty[i]!) {
+      fail('BAD_KNOTS', 'knot_table', `needs a monotone curve to read back x; the parabola on [${tx[i]}, ${tx[i + 2]}] turns`);
     }
   }
   const y = s * target;
