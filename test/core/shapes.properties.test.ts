@@ -377,3 +377,19 @@ describe('cross-validation over knot counts for a shape', () => {
     expect(cv.scores[1]!.foldRmse[0]!).toBeCloseRel(rmse, 1e-12);
   });
 });
+
+describe('knots with no data nearby', () => {
+  it('concave fit, 11 knots, data only near both ends: the empty knots 2 … 8 lie on the line between knots 1 and 9 (to 1e-6), and the fit repeats exactly', () => {
+    const xs = [0, 0.2, 0.5, 0.8, 1, 9, 9.3, 9.6, 10];
+    const ys = [0, 0.5, 1.1, 1.4, 1.8, 4, 4.1, 4.15, 4.2];
+    const a = fitMonotone(xs, ys, { knots: 11, curvature: -1 });
+    const b = fitMonotone(xs, ys, { knots: 11, curvature: -1 });
+    expect(Array.from(a.knotY)).toEqual(Array.from(b.knotY));
+    const t = a.knotX;
+    const v = a.knotY;
+    for (let j = 2; j <= 8; j++) {
+      const line = v[1]! + ((v[9]! - v[1]!) * (t[j]! - t[1]!)) / (t[9]! - t[1]!);
+      expect(v[j]!).toBeCloseRel(line, 1e-6);
+    }
+  });
+});
