@@ -41,7 +41,11 @@ export const PLAIN_SHAPE: ShapeSpec = Object.freeze({ curvature: 0, degree: 1 })
 
 /**
  * Validates the curvature and degree options together with the knots: the classic fit (knots 0)
- * offers neither. @throws RatchetError BAD_OPTION.
+ * offers neither. Cost O(1).
+ * @param curvature, degree the options as given (absent → 0 and 1).
+ * @param spec the validated knots option (0 = classic).
+ * @throws RatchetError BAD_OPTION (a value outside its set, or a shape with the classic fit).
+ * @example checkShapeSpec(-1, 2, 5) // → { curvature: -1, degree: 2 }
  */
 export function checkShapeSpec(curvature: unknown, degree: unknown, spec: KnotSpec): ShapeSpec {
   const c = checkCurvature(curvature);

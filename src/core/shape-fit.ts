@@ -17,14 +17,24 @@ export type Curvature = -1 | 0 | 1;
 /** Degree of a knot fit: 1 piecewise linear, 2 smooth (quadratic B-spline). */
 export type Degree = 1 | 2;
 
-/** Validates a curvature option (absent → 0). @throws RatchetError BAD_OPTION. */
+/**
+ * Validates a curvature option: −1, 0 or 1; absent (undefined or null) → 0. Cost O(1).
+ * @param value the option as given. @param name the argument name for the message (default `curvature`).
+ * @throws RatchetError BAD_OPTION for anything else (message names the value or its type).
+ * @example checkCurvature(undefined) // → 0
+ */
 export function checkCurvature(value: unknown, name = 'curvature'): Curvature {
   if (value === undefined || value === null) return 0;
   if (value === 0 || value === 1 || value === -1) return value;
   return fail('BAD_OPTION', name, `needs -1 (concave), 0 (any) or 1 (convex); got ${typeof value === 'number' ? String(value) : typeof value}`);
 }
 
-/** Validates a degree option (absent → 1). @throws RatchetError BAD_OPTION. */
+/**
+ * Validates a degree option: 1 or 2; absent (undefined or null) → 1. Cost O(1).
+ * @param value the option as given. @param name the argument name for the message (default `degree`).
+ * @throws RatchetError BAD_OPTION for anything else.
+ * @example checkDegree(2) // → 2
+ */
 export function checkDegree(value: unknown, name = 'degree'): Degree {
   if (value === undefined || value === null) return 1;
   if (value === 1 || value === 2) return value;
@@ -150,8 +160,11 @@ export function shapeRegression(x: ArrayLike<number>, y: ArrayLike<number>, opti
 
 /**
  * {@link shapeRegression} on validated inputs (finite x, y; weights checked or null for unit
- * weights; a checked knot count or checked positions; resolved direction). Used by the model
- * entry and cross-validation. Inputs are not modified.
+ * weights; a checked knot count or checked positions; resolved direction; checked curvature,
+ * degree and bounds). Used by the model entry and cross-validation, which validate once. Same
+ * objective, cost, edge cases and errors as {@link shapeRegression}; inputs are not modified.
+ * @example shapeChecked(Float64Array.of(0, 1, 2, 3), Float64Array.of(0, 2, 2.5, 2.6), null, 4, 'up', -1, 1, -Infinity, Infinity).knotY
+ *   // → Float64Array [0, 2, 2.5, 2.6]
  */
 export function shapeChecked(
   xs: Float64Array,

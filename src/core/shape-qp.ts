@@ -31,7 +31,15 @@ export interface BandedQpSolution {
   readonly iterations: number;
 }
 
-/** Builds a {@link SparseRow}; the coefficients are scaled so that the largest |coef| is 1. */
+/**
+ * Builds a {@link SparseRow} a·θ ≥ rhs, scaling coefficients and right-hand side by the largest
+ * |coef| (so that multipliers of different rows share the units of the linear term). Cost O(q).
+ *
+ * @param cols ascending column indices (≥ 1). @param coefs one finite coefficient per column, not
+ *   all 0. @param rhs right-hand side (default 0).
+ * @throws RatchetError NUMERICAL when no coefficient is finite and non-zero.
+ * @example sparseRow([0, 1], [-2, 2], 1) // → { cols: [0, 1], coefs: [-1, 1], rhs: 0.5 }
+ */
 export function sparseRow(cols: readonly number[], coefs: readonly number[], rhs = 0): SparseRow {
   let s = 0;
   for (const a of coefs) s = Math.max(s, Math.abs(a));
@@ -39,14 +47,21 @@ export function sparseRow(cols: readonly number[], coefs: readonly number[], rhs
   return { cols: Int32Array.from(cols), coefs: Float64Array.from(coefs, (a) => a / s), rhs: rhs / s };
 }
 
-/** a·θ for a sparse row. */
+/**
+ * a·θ for a sparse row. Cost O(q) for q non-zeros.
+ * @example rowDot(sparseRow([0, 1], [-1, 1]), [2, 5]) // → 3
+ */
 export function rowDot(row: SparseRow, theta: ArrayLike<number>): number {
   let s = 0;
   for (let k = 0; k < row.cols.length; k++) s += row.coefs[k]! * theta[row.cols[k]!]!;
   return s;
 }
 
-/** (Hθ) for a symmetric banded H. O(m·bandwidth). */
+/**
+ * Hθ for a symmetric banded H (see {@link SymmetricBand}), written into `out` (default a new
+ * array). Cost O(m·bandwidth).
+ * @example bandTimes({ bands: [Float64Array.of(2, 2), Float64Array.of(1)] }, [1, 1]) // → Float64Array [3, 3]
+ */
 export function bandTimes(H: SymmetricBand, theta: ArrayLike<number>, out = new Float64Array(theta.length)): Float64Array {
   const m = theta.length;
   out.fill(0);

@@ -18,7 +18,11 @@ import { finiteArray } from './validate.js';
 /** `'linear'` (straight lines between rows) or `'quadratic'` (a parabola through each row triple). */
 export type TableInterpolation = 'linear' | 'quadratic';
 
-/** Validates an interpolation option (absent → `'linear'`). @throws RatchetError BAD_OPTION. */
+/**
+ * Validates an interpolation option: `'linear'` or `'quadratic'`; absent → `'linear'`. Cost O(1).
+ * @throws RatchetError BAD_OPTION for anything else.
+ * @example checkInterpolation(undefined) // → 'linear'
+ */
 export function checkInterpolation(value: unknown, name = 'interpolation'): TableInterpolation {
   if (value === undefined || value === null || value === 'linear') return 'linear';
   if (value === 'quadratic') return 'quadratic';
@@ -93,8 +97,12 @@ function parabola(x0: number, x1: number, x2: number, y0: number, y1: number, y2
 
 /**
  * Checks a table for {@link evaluateTable} and {@link invertTable}: positions finite and strictly
- * increasing, values finite, same length; for `'quadratic'` an odd number of rows ≥ 3.
+ * increasing, values finite, same length; for `'quadratic'` an odd number of rows ≥ 3. Returns
+ * validated copies and the interpolation. Cost O(K).
+ * @param knotX, knotY the table. @param interpolation as {@link checkInterpolation}.
+ * @param name argument name for messages (default `knot_table`).
  * @throws RatchetError BAD_KNOTS, NON_FINITE, LENGTH_MISMATCH, BAD_OPTION.
+ * @example checkTable([0, 1, 2], [0, 1, 1], 'quadratic')[2] // → 'quadratic'
  */
 export function checkTable(
   knotX: ArrayLike<number>,
@@ -167,7 +175,11 @@ export function invertTable(
   return invertQuadraticChecked(tx, ty, target, tie);
 }
 
-/** {@link invertTable} for a checked quadratic table. */
+/**
+ * {@link invertTable} for a checked quadratic table (odd length ≥ 3, strictly increasing
+ * positions, finite values, finite target): same rule, errors and cost.
+ * @example invertQuadraticChecked(Float64Array.of(0, 1, 2), Float64Array.of(0, 0.75, 1), 1, 'middle') // → 2
+ */
 export function invertQuadraticChecked(tx: Float64Array, ty: Float64Array, target: number, tie: TieRule): number {
   if (tie !== 'lowest' && tie !== 'middle' && tie !== 'highest') {
     fail('BAD_OPTION', 'tie', `needs 'lowest', 'middle' or 'highest'; got ${String(tie)}`);
