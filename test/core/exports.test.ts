@@ -10,15 +10,18 @@ describe('src/core/index.ts', () => {
   it('exports exactly the documented runtime names', () => {
     expect(Object.keys(core).sort()).toEqual([
       'RatchetError', 'SURFACE_EXACT_NODES', 'SURFACE_ITERATIVE_NODES', 'SURFACE_MAX_NODES', 'SplitMix64',
-      'admmLattice', 'assembleLattice', 'averageRanks', 'boundsPair', 'checkAxisDirection', 'checkFolds',
-      'checkKnotCount', 'checkKnotPositions', 'checkKnotSpec', 'checkKnotTable', 'checkSeed', 'checkSurfaceKnots',
-      'crossValidate', 'crossValidateSurface', 'defaultCandidates', 'evaluateLattice', 'evenKnots', 'fail',
-      'finiteArray', 'finiteView', 'fitChecked', 'fitMonotone', 'fitStatistics', 'fitSurface', 'foldSizes',
-      'holdoutAssignment', 'holdoutSize', 'holdoutValidate', 'inducedOrder', 'interpolate', 'interpolateAt',
-      'intervalIndex', 'invertAt', 'invertChecked', 'isRatchetError', 'isotonicRegression', 'kFoldAssignment',
-      'knotRegression', 'latticeEdges', 'lerp', 'locate', 'orderEnvelopeMean', 'pavaSorted', 'poolTies', 'predict',
-      'predictSurface', 'quantileKnots', 'quantileKnotsSorted', 'repeatState', 'resolveDirection', 'sameLength',
-      'seededPermutation', 'share', 'solveMonotoneTridiagonal', 'sortOrder', 'spearman', 'suggestKnots',
+      'admmLattice', 'assembleLattice', 'averageRanks', 'bandTimes', 'boundsPair', 'checkAxisDirection',
+      'checkCurvature', 'checkDegree', 'checkFolds', 'checkInterpolation', 'checkKnotCount', 'checkKnotPositions',
+      'checkKnotSpec', 'checkKnotTable', 'checkSeed', 'checkShapeSpec', 'checkSurfaceKnots', 'checkTable',
+      'crossValidate', 'crossValidateSurface', 'defaultCandidates', 'evaluateLattice', 'evaluateTable',
+      'evenKnots', 'fail', 'finiteArray', 'finiteView', 'fitChecked', 'fitMonotone', 'fitStatistics', 'fitSurface',
+      'foldSizes', 'holdoutAssignment', 'holdoutSize', 'holdoutValidate', 'inducedOrder', 'interpolate',
+      'interpolateAt', 'intervalIndex', 'invertAt', 'invertChecked', 'invertQuadraticChecked', 'invertTable',
+      'isRatchetError', 'isotonicRegression', 'kFoldAssignment', 'knotRegression', 'latticeEdges', 'lerp',
+      'locate', 'nullSpaceBasis', 'orderEnvelopeMean', 'pavaSorted', 'poolTies', 'predict', 'predictSurface',
+      'quadraticBasisAt', 'quantileKnots', 'quantileKnotsSorted', 'repeatState', 'resolveDirection', 'rowDot',
+      'sameLength', 'seededPermutation', 'shapeChecked', 'shapeRegression', 'share', 'smoothTableAt',
+      'solveBandedQp', 'solveMonotoneTridiagonal', 'sortOrder', 'sparseRow', 'spearman', 'suggestKnots',
       'suggestSurfaceKnots', 'surfaceChecked', 'weightArray',
     ]);
   });
