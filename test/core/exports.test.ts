@@ -10,15 +10,17 @@ describe('src/core/index.ts', () => {
   it('exports exactly the documented runtime names', () => {
     expect(Object.keys(core).sort()).toEqual([
       'RatchetError', 'SURFACE_EXACT_NODES', 'SURFACE_ITERATIVE_NODES', 'SURFACE_MAX_NODES', 'SplitMix64',
-      'admmLattice', 'assembleLattice', 'averageRanks', 'boundsPair', 'checkAxisDirection', 'checkFolds',
-      'checkKnotCount', 'checkKnotPositions', 'checkKnotSpec', 'checkKnotTable', 'checkSeed', 'checkSurfaceKnots',
-      'crossValidate', 'crossValidateSurface', 'defaultCandidates', 'evaluateLattice', 'evenKnots', 'fail',
-      'finiteArray', 'finiteView', 'fitChecked', 'fitMonotone', 'fitStatistics', 'fitSurface', 'foldSizes',
+      'admmLattice', 'assembleLattice', 'averageRanks', 'bandAt', 'bandModelChecked', 'boundsPair',
+      'checkAxisDirection', 'checkBandKnots', 'checkFolds', 'checkKnotCount', 'checkKnotPositions',
+      'checkKnotSpec', 'checkKnotTable', 'checkSeed', 'checkSurfaceKnots', 'crossValidate',
+      'crossValidateSurface', 'defaultCandidates', 'evaluateLattice', 'evenKnots', 'fail', 'finiteArray',
+      'finiteView', 'fitBandModel', 'fitChecked', 'fitMonotone', 'fitStatistics', 'fitSurface', 'foldSizes',
       'holdoutAssignment', 'holdoutSize', 'holdoutValidate', 'inducedOrder', 'interpolate', 'interpolateAt',
-      'intervalIndex', 'invertAt', 'invertChecked', 'isRatchetError', 'isotonicRegression', 'kFoldAssignment',
-      'knotRegression', 'latticeEdges', 'lerp', 'locate', 'orderEnvelopeMean', 'pavaSorted', 'poolTies', 'predict',
-      'predictSurface', 'quantileKnots', 'quantileKnotsSorted', 'repeatState', 'resolveDirection', 'sameLength',
-      'seededPermutation', 'share', 'solveMonotoneTridiagonal', 'sortOrder', 'spearman', 'suggestKnots',
+      'intervalIndex', 'inverseBand', 'invertAt', 'invertChecked', 'isRatchetError', 'isotonicRegression',
+      'kFoldAssignment', 'knotRegression', 'latticeEdges', 'lerp', 'locate', 'monotoneActiveSetBasis',
+      'orderEnvelopeMean', 'pavaSorted', 'poolTies', 'predict', 'predictSurface', 'quantileKnots',
+      'quantileKnotsSorted', 'repeatState', 'resolveDirection', 'sameLength', 'seededPermutation', 'share',
+      'solveMonotoneTridiagonal', 'sortOrder', 'spearman', 'studentTCdf', 'studentTQuantile', 'suggestKnots',
       'suggestSurfaceKnots', 'surfaceChecked', 'weightArray',
     ]);
   });
