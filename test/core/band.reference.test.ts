@@ -5,7 +5,10 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { bandAt, fitBandModel, inverseBand, monotoneActiveSetBasis, knotRegression, spearman, studentTQuantile, RatchetError } from '../../src/core/index.js';
+import {
+  bandAt, checkDirection, fitBandModel, fitMonotone, inverseBand, monotoneActiveSetBasis, knotRegression, spearman, spreadStatistics,
+  studentTCdf, studentTQuantile, RatchetError,
+} from '../../src/core/index.js';
 
 interface BandRow {
   level: number;
@@ -20,7 +23,7 @@ interface BandCase {
   source: string;
   x: number[];
   y: number[];
-  w?: number[];
+  w?: number[] | null;
   knots?: number | number[];
   knot_x?: number[];
   theta?: number[];
@@ -37,13 +40,14 @@ interface CalibrationCase {
   source: string;
   x: number[];
   y: number[];
-  w?: number[];
+  w?: number[] | null;
   sets: { level: number; replicates: number; intervals: { target: number; lower: number; x: number; upper: number }[] }[];
 }
 interface BandFixture {
   command: string;
   versions: Record<string, string>;
   qt: { p: number[]; rows: { df: number; q: number[] }[] };
+  pt: { t: number[]; rows: { df: number; lower: number[]; upper: number[] }[] };
   line: BandCase[];
   hat: BandCase[];
   active: BandCase[];
@@ -55,7 +59,7 @@ const fixture = JSON.parse(readFileSync(new URL('../reference/fixtures/band_r.js
 
 /** Checks every band row of a case against R's predict.lm at 1e-9 relative. */
 function checkBands(c: BandCase, knots: number | number[]): void {
-  const model = fitBandModel(c.x, c.y, { knots, weights: c.w });
+  const model = fitBandModel(c.x, c.y, { knots, weights: c.w ?? undefined });
   expect(model.sigma).toBeCloseRel(c.sigma, 1e-9);
   expect(model.dfResid).toBe(c.df_resid);
   for (const row of c.bands) {
@@ -82,6 +86,17 @@ describe('Student t quantile against R stats::qt (gen_band.R)', () => {
   });
 });
 
+describe('Student t distribution function against R stats::pt (gen_band.R)', () => {
+  it(`equals pt (lower and upper tail) to 1e-13 relative on ${fixture.pt.t.length} t values × ${fixture.pt.rows.length} df`, () => {
+    for (const row of fixture.pt.rows) {
+      fixture.pt.t.forEach((t, k) => {
+        expect(studentTCdf(t, row.df)).toBeCloseRel(row.lower[k]!, 1e-13, 0);
+        expect(studentTCdf(-t, row.df)).toBeCloseRel(row.upper[k]!, 1e-13, 0);
+      });
+    }
+  });
+});
+
 describe('BAND with knots = 2 equals R predict.lm on lm(y ~ x) (gen_band.R, R datasets package)', () => {
   for (const c of fixture.line) {
     it(`${c.name} (${c.source}${c.w ? ', seeded weights' : ''}): confidence and prediction bands at levels 0.5, 0.9, 0.95, 0.99 to 1e-9 relative`, () => {
@@ -105,7 +120,7 @@ describe('BAND with knots = 2 equals R predict.lm on lm(y ~ x) (gen_band.R, R da
 describe('BAND with more knots and no active constraint equals predict.lm on the degree-1 B-spline basis (splines::bs)', () => {
   for (const c of fixture.hat) {
     it(`${c.name} (${c.source}): knots ${JSON.stringify(c.knots)}, bands at levels 0.9 and 0.95 to 1e-9 relative`, () => {
-      const fit = knotRegression(c.x, c.y, { knots: c.knots!, weights: c.w });
+      const fit = knotRegression(c.x, c.y, { knots: c.knots!, weights: c.w ?? undefined });
       expect(fit.knotY).toBeAllCloseRel(c.theta!, 1e-9);
       expect(fit.levels).toBe(fit.knotY.length);
       checkBands(c, c.knots!);
@@ -116,7 +131,7 @@ describe('BAND with more knots and no active constraint equals predict.lm on the
 describe('BAND with an active constraint equals predict.lm on the reduced design of the groups (quadprog::solve.QP + lm)', () => {
   for (const c of fixture.active) {
     it(`${c.name} (${c.source.slice(0, 40)}…): same groups as quadprog's solution, bands to 1e-9 relative`, () => {
-      const fit = knotRegression(c.x, c.y, { knots: c.knot_x!, weights: c.w });
+      const fit = knotRegression(c.x, c.y, { knots: c.knot_x!, weights: c.w ?? undefined });
       expect(fit.knotY).toBeAllCloseRel(c.theta_quadprog!, 1e-7);
       const basis = monotoneActiveSetBasis(fit.knotX, fit.knotY, fit.identified);
       expect(basis.size).toBe(c.parameters);
@@ -131,7 +146,7 @@ describe('INVERTBAND with knots = 2 equals the classical straight-line calibrati
   for (const c of fixture.calibration) {
     for (const set of c.sets) {
       it(`${c.name} (${c.source}): level ${set.level}, ${set.replicates} replicate(s), ${set.intervals.length} targets to 1e-8 relative`, () => {
-        const model = fitBandModel(c.x, c.y, { knots: 2, weights: c.w });
+        const model = fitBandModel(c.x, c.y, { knots: 2, weights: c.w ?? undefined });
         const got = inverseBand(model, set.intervals.map((r) => r.target), set.level, set.replicates);
         set.intervals.forEach((r, k) => {
           const g = got[k]!;
@@ -152,4 +167,42 @@ describe("Spearman's rank correlation against R cor(method = 'spearman')", () =>
       expect(spearman(c.x, c.y)).toBeCloseRel(c.spearman, 1e-12);
     });
   }
+});
+
+describe('STATS sigma, df_resid and spearman against R (summary(lm)$sigma, df.residual, cor(method = "spearman"); gen_band.R)', () => {
+  for (const c of fixture.line) {
+    it(`${c.name}: knots = 2 fit gives R's sigma to 1e-9 and df_resid exactly`, () => {
+      const m = fitMonotone(c.x, c.y, { knots: 2, weights: c.w ?? undefined });
+      const s = spreadStatistics(c.x, c.y, m.fitted, m.levels, c.w ?? undefined);
+      expect(s.sigma!).toBeCloseRel(c.sigma, 1e-9);
+      expect(s.dfResid).toBe(c.df_resid);
+      expect(s.spearman!).toBeCloseRel(spearman(c.x, c.y), 1e-15);
+    });
+  }
+  for (const c of fixture.spearman) {
+    it(`${c.name}: spreadStatistics' spearman equals R's ${c.spearman.toFixed(6)} to 1e-12`, () => {
+      const m = fitMonotone(c.x, c.y, { direction: 'auto' });
+      expect(spreadStatistics(c.x, c.y, m.fitted, m.levels).spearman!).toBeCloseRel(c.spearman, 1e-12);
+    });
+  }
+});
+
+describe('direction check on R datasets (gen_band.R spearman cases)', () => {
+  const get = (name: string) => fixture.spearman.find((c) => c.name === name)!;
+  it("mtcars mpg ~ wt (R's rho -0.886) fitted 'up': warns and suggests 'down'", () => {
+    const c = get('mtcars');
+    const warning = checkDirection(c.x, c.y, 'up');
+    expect(warning).not.toBeNull();
+    expect(warning!.suggested).toBe('down');
+    expect(warning!.spearman).toBeCloseRel(c.spearman, 1e-12);
+    expect(warning!.pValue).toBeLessThan(1e-6);
+    expect(warning!.message).toBe("y falls as x rises (Spearman's rank correlation -0.89, 32 rows) but the fit is 'up'; try direction 'down'.");
+  });
+  it("mtcars fitted 'down' and cars dist ~ speed fitted 'up': no warning", () => {
+    expect(checkDirection(get('mtcars').x, get('mtcars').y, 'down')).toBeNull();
+    expect(checkDirection(get('cars').x, get('cars').y, 'up')).toBeNull();
+  });
+  it("cars fitted 'down' warns and suggests 'up'", () => {
+    expect(checkDirection(get('cars').x, get('cars').y, 'down')?.suggested).toBe('up');
+  });
 });

@@ -9,19 +9,20 @@ import * as core from '../../src/core/index.js';
 describe('src/core/index.ts', () => {
   it('exports exactly the documented runtime names', () => {
     expect(Object.keys(core).sort()).toEqual([
-      'RatchetError', 'SURFACE_EXACT_NODES', 'SURFACE_ITERATIVE_NODES', 'SURFACE_MAX_NODES', 'SplitMix64',
-      'admmLattice', 'assembleLattice', 'averageRanks', 'bandAt', 'bandModelChecked', 'boundsPair',
-      'checkAxisDirection', 'checkBandKnots', 'checkFolds', 'checkKnotCount', 'checkKnotPositions',
-      'checkKnotSpec', 'checkKnotTable', 'checkSeed', 'checkSurfaceKnots', 'crossValidate',
-      'crossValidateSurface', 'defaultCandidates', 'evaluateLattice', 'evenKnots', 'fail', 'finiteArray',
-      'finiteView', 'fitBandModel', 'fitChecked', 'fitMonotone', 'fitStatistics', 'fitSurface', 'foldSizes',
+      'DIRECTION_P_THRESHOLD', 'DIRECTION_RHO_THRESHOLD', 'RatchetError', 'SURFACE_EXACT_NODES',
+      'SURFACE_ITERATIVE_NODES', 'SURFACE_MAX_NODES', 'SplitMix64', 'admmLattice', 'assembleLattice',
+      'averageRanks', 'bandAt', 'bandModelChecked', 'boundsPair', 'checkAxisDirection', 'checkBandKnots',
+      'checkDirection', 'checkFolds', 'checkKnotCount', 'checkKnotPositions', 'checkKnotSpec',
+      'checkKnotTable', 'checkSeed', 'checkSurfaceKnots', 'crossValidate', 'crossValidateSurface',
+      'defaultCandidates', 'evaluateLattice', 'evenKnots', 'fail', 'finiteArray', 'finiteView',
+      'fitBandModel', 'fitChecked', 'fitMonotone', 'fitStatistics', 'fitSurface', 'foldSizes',
       'holdoutAssignment', 'holdoutSize', 'holdoutValidate', 'inducedOrder', 'interpolate', 'interpolateAt',
       'intervalIndex', 'inverseBand', 'invertAt', 'invertChecked', 'isRatchetError', 'isotonicRegression',
       'kFoldAssignment', 'knotRegression', 'latticeEdges', 'lerp', 'locate', 'monotoneActiveSetBasis',
       'orderEnvelopeMean', 'pavaSorted', 'poolTies', 'predict', 'predictSurface', 'quantileKnots',
       'quantileKnotsSorted', 'repeatState', 'resolveDirection', 'sameLength', 'seededPermutation', 'share',
-      'solveMonotoneTridiagonal', 'sortOrder', 'spearman', 'studentTCdf', 'studentTQuantile', 'suggestKnots',
-      'suggestSurfaceKnots', 'surfaceChecked', 'weightArray',
+      'solveMonotoneTridiagonal', 'sortOrder', 'spearman', 'spreadStatistics', 'studentTCdf',
+      'studentTQuantile', 'suggestKnots', 'suggestSurfaceKnots', 'surfaceChecked', 'weightArray',
     ]);
   });
 

@@ -1,6 +1,7 @@
 # Reference fixtures for the knot model's bands and read-back intervals, computed with R.
 #
 # Writes fixtures/band_r.json:
+#   pt           stats::pt (both tails) on a grid of t and degrees of freedom
 #   qt           stats::qt on a table of degrees of freedom (1 ... 1000 and some non-integer) and
 #                probabilities (one-sided 0.55 ... 0.999 and (1 + level)/2 for levels 0.5 ... 0.999)
 #   line         knots = 2 on open datasets whose least-squares line rises: stats::lm and
@@ -40,6 +41,9 @@ dfs <- c(1:30, seq(35, 100, 5), seq(150, 1000, 50), 1.5, 2.5, 7.3, 150.75)
 levels <- c(0.5, 0.8, 0.9, 0.95, 0.98, 0.99, 0.995, 0.998, 0.999)
 ps <- sort(unique(c(0.55, 0.6, 0.75, 0.9, 0.95, 0.99, 0.999, (1 + levels) / 2)))
 qt_rows <- lapply(dfs, function(df) list(df = df, q = jarr(qt(ps, df))))
+# stats::pt, both tails, on a grid of t values (lower.tail = FALSE for the upper tail)
+pt_t <- c(-40, -6, -2.5, -1, -0.1, 0, 0.01, 0.5, 1, 1.7, 3, 8, 50, 400)
+pt_rows <- lapply(c(1, 2, 3, 4.5, 10, 29, 100, 1000), function(df) list(df = df, lower = jarr(pt(pt_t, df)), upper = jarr(pt(pt_t, df, lower.tail = FALSE))))
 
 # ---------------------------------------------------------------- helpers
 hat_matrix <- function(x, t) {
@@ -224,6 +228,7 @@ spearman_cases <- lapply(list(
 write_json(list(
   command = command, versions = versions,
   qt = list(p = jarr(ps), rows = qt_rows),
+  pt = list(t = jarr(pt_t), rows = pt_rows),
   line = line_cases, hat = hat_cases, active = active_cases, calibration = cal_cases,
   spearman = spearman_cases
 ), "band_r.json")
