@@ -448,7 +448,9 @@ export function inverseBand(model: BandModel, targets: ArrayLike<number>, level 
     try {
       x0 = invertChecked(tx, model.knotY, ys[i]!, 'middle');
     } catch (err) {
-      const e = err instanceof RatchetError ? err : new RatchetError('NUMERICAL', 'target_ys', 'needs a read-back that works');
+      if (!(err instanceof RatchetError)) throw err;
+      // The read-back's own message, under this function's argument name.
+      const e = new RatchetError(err.code, 'target_ys', err.message.slice(err.argument.length + 2));
       out.push({ lower: e, x: e, upper: e });
       continue;
     }
