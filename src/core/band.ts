@@ -165,7 +165,7 @@ export function checkBandKnots<T>(knots: T | 0 | undefined | null): T {
  * @throws RatchetError BAD_KNOTS (knots 0: the classic fit has no band), TOO_FEW_POINTS
  *   (n_used ≤ p, or knots the data do not determine separately), NUMERICAL (a singular or
  *   overflowing system), and the errors of {@link knotRegression}.
- * @example fitBandModel([1, 2, 3, 4], [1, 3, 2, 4], { knots: 2 }).sigma // → 0.9486832980505138
+ * @example fitBandModel([1, 2, 3, 4], [1, 3, 2, 4], { knots: 2 }).sigma // → 0.9486832980505137
  */
 export function fitBandModel(x: ArrayLike<number>, y: ArrayLike<number>, options: BandFitOptions): BandModel {
   const knots = checkBandKnots(options.knots);
@@ -187,8 +187,13 @@ export function fitBandModel(x: ArrayLike<number>, y: ArrayLike<number>, options
  *
  * Cost O(n log K + K·m²), m the bandwidth of ZᵀHZ (1 for the monotone fit).
  *
- * @throws RatchetError TOO_FEW_POINTS (n_used ≤ p, or a singular reduced system: parameters the
- *   data do not determine), NUMERICAL (non-finite results).
+ * @param xs, ys, ws the data (ws null: unit weights).
+ * @param knotX, knotY the fitted knot table; `direction` the fit's direction.
+ * @param basis the reduced design Z (K rows).
+ * @throws RatchetError BAD_KNOTS (Z without one row per knot), TOO_FEW_POINTS (n_used ≤ p, or a
+ *   singular reduced system: parameters the data do not determine), NUMERICAL (non-finite results).
+ * @example bandModelChecked(Float64Array.of(1, 2, 3, 4), Float64Array.of(1, 3, 2, 4), null,
+ *   Float64Array.of(1, 4), Float64Array.of(1.2, 3.6), 'up', monotoneActiveSetBasis([1, 4], [1.2, 3.6], [1, 1])).dfResid // → 2
  */
 export function bandModelChecked(
   xs: Float64Array,
@@ -371,7 +376,7 @@ function checkLevel(level: number): number {
  * @param level confidence level, 0 < level < 1, default 0.95.
  * @param kind `'confidence'` (default) or `'prediction'`.
  * @throws RatchetError NON_FINITE (a new x), BAD_OPTION (level, kind).
- * @example bandAt(fitBandModel([1, 2, 3, 4], [1, 3, 2, 4], { knots: 2 }), [2.5]).upper[0] // → 3.4646... (see test)
+ * @example bandAt(fitBandModel([1, 2, 3, 4], [1, 3, 2, 4], { knots: 2 }), [2.5]).upper[0] // → 4.540927391012383
  * @see R `predict.lm(…, interval = "confidence" | "prediction")`, which this equals for knots = 2.
  */
 export function bandAt(model: BandModel, newX: ArrayLike<number>, level = 0.95, kind: BandKind = 'confidence'): Band {
@@ -426,7 +431,8 @@ export interface InverseInterval {
  * @param level confidence level, 0 < level < 1, default 0.95.
  * @param replicates number m ≥ 1 of new measurements averaged into each target (whole or not), default 1.
  * @throws RatchetError BAD_OPTION (level, replicates), NON_FINITE (a target).
- * @example inverseBand(fitBandModel(women.height, women.weight, { knots: 2 }), [150])[0].x // → 70.4... (see test)
+ * @example inverseBand(fitBandModel([1, 2, 3, 4, 5, 6], [10, 14, 12, 17, 16, 21], { knots: 2 }), [15], 0.8, 4)[0]
+ *   // → { lower: 2.4559220474129395, x: 3.499999999999999, upper: 4.544077952587058 }
  */
 export function inverseBand(model: BandModel, targets: ArrayLike<number>, level = 0.95, replicates = 1): InverseInterval[] {
   checkLevel(level);
