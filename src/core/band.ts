@@ -193,7 +193,7 @@ export function fitBandModel(x: ArrayLike<number>, y: ArrayLike<number>, options
  * @throws RatchetError BAD_KNOTS (Z without one row per knot), TOO_FEW_POINTS (n_used ≤ p, or a
  *   singular reduced system: parameters the data do not determine), NUMERICAL (non-finite results).
  * @example bandModelChecked(Float64Array.of(1, 2, 3, 4), Float64Array.of(1, 3, 2, 4), null,
- *   Float64Array.of(1, 4), Float64Array.of(1.2, 3.6), 'up', monotoneActiveSetBasis([1, 4], [1.2, 3.6], [1, 1])).dfResid // → 2
+ *   Float64Array.of(1, 4), Float64Array.of(1.3, 3.7), 'up', monotoneActiveSetBasis([1, 4], [1.3, 3.7], [1, 1])).dfResid // → 2
  */
 export function bandModelChecked(
   xs: Float64Array,
