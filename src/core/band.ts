@@ -208,6 +208,7 @@ export function bandModelChecked(
   const K = knotX.length;
   if (basis.knots !== K) fail('BAD_KNOTS', 'basis', `needs one row per knot (${K}); got ${basis.knots}`);
   const p = basis.size;
+  checkBasis(basis);
   // H = BᵀWB (tridiagonal), the residuals, and the range of rows that count.
   const d = new Float64Array(K);
   const e = new Float64Array(K - 1);
@@ -240,15 +241,15 @@ export function bandModelChecked(
   const { rowStart, col, val } = basis;
   let m = 0;
   for (let j = 0; j < K; j++) {
-    const lo = col[rowStart[j]!]!;
+    // Rows j and j + 1 together (H couples them); an empty row (a knot held fixed) adds nothing.
     const end = j + 1 < K ? rowStart[j + 2]! : rowStart[j + 1]!;
-    let hiCol = lo;
-    let loCol = lo;
+    let hiCol = -1;
+    let loCol = p;
     for (let q = rowStart[j]!; q < end; q++) {
       hiCol = Math.max(hiCol, col[q]!);
       loCol = Math.min(loCol, col[q]!);
     }
-    m = Math.max(m, hiCol - loCol);
+    if (hiCol >= loCol) m = Math.max(m, hiCol - loCol);
   }
   const width = m + 1;
   const band = new Float64Array(p * width);
@@ -295,6 +296,15 @@ export function bandModelChecked(
     fail('NUMERICAL', 'known_ys', 'needs data whose sums of squares stay within the range of doubles for a band');
   }
   return { direction, knotX, knotY, nUsed, parameters: p, dfResid, sigma, xRange: [xmin, xmax], knotFactor, crossFactor };
+}
+
+/** Throws BAD_KNOTS unless Z's compressed rows are consistent: starts non-decreasing, columns in [0, p), values finite. */
+function checkBasis(basis: ActiveSetBasis): void {
+  const { knots: K, size: p, rowStart, col, val } = basis;
+  let ok = Number.isInteger(p) && p >= 1 && rowStart.length === K + 1 && rowStart[0] === 0 && rowStart[K] === col.length && col.length === val.length;
+  for (let j = 0; ok && j < K; j++) if (rowStart[j + 1]! < rowStart[j]!) ok = false;
+  for (let q = 0; ok && q < col.length; q++) if (!(col[q]! >= 0 && col[q]! < p) || !Number.isFinite(val[q]!)) ok = false;
+  if (!ok) fail('BAD_KNOTS', 'basis', 'needs compressed rows with non-decreasing starts, columns from 0 to size − 1 and finite values');
 }
 
 /** Interval j and right share u ∈ [0, 1] of x on the knots (x clamped to [t₁, t_K]). O(log K). */
