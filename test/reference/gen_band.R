@@ -37,7 +37,7 @@ versions <- list(
 command <- "Rscript test/reference/gen_band.R"
 
 # ---------------------------------------------------------------- qt table
-dfs <- c(1:30, seq(35, 100, 5), seq(150, 1000, 50), 1.5, 2.5, 7.3, 150.75)
+dfs <- c(1:100, seq(110, 1000, 10), 1.5, 2.5, 7.3, 150.75)
 levels <- c(0.5, 0.8, 0.9, 0.95, 0.98, 0.99, 0.995, 0.998, 0.999)
 ps <- sort(unique(c(0.55, 0.6, 0.75, 0.9, 0.95, 0.99, 0.999, (1 + levels) / 2)))
 qt_rows <- lapply(dfs, function(df) list(df = df, q = jarr(qt(ps, df))))
