@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import {
   bandAt,
+  checkDirection,
   fitBandModel,
   inverseBand,
   invertAt,
@@ -274,5 +275,19 @@ describe('Monte Carlo coverage (2,000 seeded data sets, strictly increasing smoo
     const m = fitBandModel(x, truth, { knots: 5 });
     expect(m.dfResid).toBe(35);
     expect(bandAt(m, [0.5], 0.95).t).toBe(studentTQuantile(0.975, 35));
+  });
+});
+
+describe('direction check on pure noise (seeded SplitMix64)', () => {
+  it('warns on at most 6 % of 2,000 data sets of 20 rows without association (the rule targets a 5 % one-sided test)', () => {
+    const normal = gaussian(SplitMix64.fromSeed(77));
+    const x = Array.from({ length: 20 }, (_, i) => i);
+    let warnings = 0;
+    for (let s = 0; s < 2000; s++) {
+      const y = x.map(() => normal());
+      if (checkDirection(x, y, 'up') !== null) warnings++;
+    }
+    expect(warnings / 2000).toBeLessThanOrEqual(0.06);
+    expect(warnings).toBeGreaterThan(0); // the rule can fire on noise: it is a test, not a filter
   });
 });
