@@ -28,3 +28,7 @@ export { fitSurface, surfaceChecked, predictSurface, checkSurfaceKnots, checkAxi
 export { latticeEdges, orderEnvelopeMean, admmLattice, inducedOrder, type LatticeEdges, type LatticeSolution } from './surface-solve.js';
 export { locate, evaluateLattice, assembleLattice, type LatticeSystem, type LatticeLocation } from './surface-lattice.js';
 export { crossValidateSurface, suggestSurfaceKnots, type SurfaceCrossValidationOptions, type SurfaceCrossValidationResult, type SurfaceCandidateScore, type SurfaceSuggestion } from './surface-cv.js';
+export { studentTCdf, studentTQuantile } from './student-t.js';
+export { fitBandModel, bandModelChecked, monotoneActiveSetBasis, checkBandKnots, bandAt, inverseBand, type ActiveSetBasis, type BandFitOptions, type BandModel, type BandKind, type Band, type InverseInterval } from './band.js';
+export { spreadStatistics, type SpreadStatistics } from './statistics.js';
+export { checkDirection, DIRECTION_RHO_THRESHOLD, DIRECTION_P_THRESHOLD, type DirectionWarning } from './direction-check.js';
