@@ -100,3 +100,26 @@ describe('underflow: y × 1e-100 with all weights 1e-250 is the unscaled fit × 
     });
   }
 });
+
+describe('shaped knot fits (concave, convex, smooth) under rescaling', () => {
+  const x = [1, 2, 3, 4, 5, 6, 7, 8];
+  const y = [10, 14, 12, 17, 16, 21, 22, 22.5];
+  const shapes = [{ curvature: -1 as const }, { curvature: 1 as const }, { degree: 2 as const }];
+  const scalings: [number, number][] = [
+    [1e-100, 1e-250],
+    [1, 1e100],
+    [1, 1e-300],
+    [1e90, 1],
+  ];
+  for (const shape of shapes) {
+    for (const [sy, sw] of scalings) {
+      it(`${JSON.stringify(shape)}, y × ${sy}, weights ${sw}: fitted values and knot values × ${sy} of the unit fit to 1e-9, R² equal`, () => {
+        const base = fitMonotone(x, y, { knots: 4, ...shape });
+        const m = fitMonotone(x, y.map((v) => v * sy), { knots: 4, ...shape, weights: x.map(() => sw) });
+        expect(m.fitted).toBeAllCloseRel(Array.from(base.fitted, (v) => v * sy), 1e-9, 0);
+        expect(m.knotY).toBeAllCloseRel(Array.from(base.knotY, (v) => v * sy), 1e-9, 0);
+        expect(m.stats.r2).toBeCloseRel(base.stats.r2, 1e-9);
+      });
+    }
+  }
+});
