@@ -18,7 +18,8 @@ import { scaleExponents, timesPowerOfTwo } from './scale.js';
 /**
  * shapeChecked on y and weights divided by powers of two when they are far from 1 (see
  * src/core/scale.ts): exact, so the same fit; knot values, coefficients and fitted values are scaled
- * back by 2^yExp, the multipliers (units of weight × y) by 2^(yExp + wExp). Without it, weights near
+ * back by 2^yExp, like the bounds in the constraint rows, the multipliers (units of weight × y) by
+ * 2^(yExp + wExp). Without it, weights near
  * 1e100 or 1e-300, or y near 1e-100 with weights near 1e-250, made the shaped fit fail.
  */
 function shapeScaled(
@@ -52,6 +53,8 @@ function shapeScaled(
     fitted: back(sf.fitted, yExp),
     coefficients: back(sf.coefficients, yExp),
     multipliers: back(sf.multipliers, yExp + (ws === null ? 0 : wExp)),
+    // Bound rows carry their bound as right-hand side, in units of y (shape rows have 0).
+    constraints: sf.constraints.map((row) => (row.rhs === 0 ? row : { ...row, rhs: timesPowerOfTwo(row.rhs, yExp) })),
   };
 }
 
