@@ -12,6 +12,7 @@ import { checkFolds, holdoutAssignment, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
 import { fail } from './errors.js';
 import { quantileKnotsSorted } from './knots.js';
+import { scaleExponents, timesPowerOfTwo } from './scale.js';
 
 /** Where the knots of a candidate count K go inside each training set. */
 export type KnotPlacement = 'even' | 'quantile';
@@ -172,6 +173,12 @@ interface Prepared {
   shape: ShapeSpec;
   /** Σ w (y − ȳ_w)² over all used rows. */
   sst: number;
+  /**
+   * y (and the bounds) are held divided by 2^yExp and the weights by a power of two, so that no
+   * sum underflows or overflows whatever the units (see src/core/scale.ts); scores in units of y
+   * are multiplied back by 2^yExp ({@link inUnitsOfY}). 0 when no rescaling was needed.
+   */
+  yExp: number;
 }
 
 function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValidationOptions): Prepared {
@@ -179,7 +186,19 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
   sameLength('x', xs.length, 'y', y);
   const ys = finiteArray('y', y);
   const ws = weightArray(xs.length, options.weights);
-  const [lower, upper] = boundsPair(options.lower, options.upper);
+  let [lower, upper] = boundsPair(options.lower, options.upper);
+  // Exact power-of-two rescaling of the copies (y near 1e-100 with weights near 1e-250 would
+  // otherwise underflow in every w·r² of the scores).
+  const scales = scaleExponents(ys, ws);
+  const yExp = scales.needed ? scales.yExp : 0;
+  if (scales.needed) {
+    for (let i = 0; i < ys.length; i++) {
+      ys[i] = timesPowerOfTwo(ys[i]!, -scales.yExp);
+      ws[i] = timesPowerOfTwo(ws[i]!, -scales.wExp);
+    }
+    lower = timesPowerOfTwo(lower, -scales.yExp);
+    upper = timesPowerOfTwo(upper, -scales.yExp);
+  }
   const direction = options.direction ?? 'up';
   if (direction !== 'up' && direction !== 'down' && direction !== 'auto') {
     fail('BAD_OPTION', 'direction', `needs 'up', 'down' or 'auto'; got ${String(direction)}`);
@@ -220,7 +239,21 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
   const mean = sumWY / sumW;
   let sst = 0;
   for (let k = 0; k < n; k++) sst += sw[k]! * (sy[k]! - mean) ** 2;
-  return { n, sx, sy, sw, rowOf: order, direction, lower, upper, placement, shape, sst };
+  return { n, sx, sy, sw, rowOf: order, direction, lower, upper, placement, shape, sst, yExp };
+}
+
+/** Scores back in the units of y after {@link prepare}'s rescaling (R² has no units). */
+function inUnitsOfY(scores: CandidateScore[], yExp: number): CandidateScore[] {
+  if (yExp === 0) return scores;
+  const up = (v: number) => timesPowerOfTwo(v, yExp);
+  return scores.map((s) => ({
+    ...s,
+    cvRmse: up(s.cvRmse),
+    cvSe: up(s.cvSe),
+    cvMae: up(s.cvMae),
+    trainRmse: up(s.trainRmse),
+    foldRmse: s.foldRmse.map(up),
+  }));
 }
 
 /**
@@ -443,7 +476,7 @@ export function crossValidate(x: ArrayLike<number>, y: ArrayLike<number>, option
   }
   checkTrainingSets(p, tasks, (t) => `fold ${t.fold + 1} of repeat ${t.repeat + 1}`);
   const acc = evaluate(p, tasks, candidates, options, false);
-  const scores = candidates.map((k, c) => scoreOf(k, acc[c]!, repeats * p.sst, tasks.length, false));
+  const scores = inUnitsOfY(candidates.map((k, c) => scoreOf(k, acc[c]!, repeats * p.sst, tasks.length, false)), p.yExp);
   return { scores, folds, repeats, seed, n: p.n, method: 'k-fold' };
 }
 
@@ -500,6 +533,6 @@ export function holdoutValidate(x: ArrayLike<number>, y: ArrayLike<number>, opti
       testRows++;
     }
   }
-  const scores = candidates.map((k, c) => scoreOf(k, acc[c]!, sst, 1, true));
+  const scores = inUnitsOfY(candidates.map((k, c) => scoreOf(k, acc[c]!, sst, 1, true)), p.yExp);
   return { scores, folds: 1, repeats: 1, seed, n: p.n, method: 'holdout', testFraction, testRows };
 }

@@ -8,6 +8,11 @@ import { pavaSorted } from './pava.js';
 import { resolveDirection } from './direction.js';
 import { fail } from './errors.js';
 import { lerp, share } from './interpolate.js';
+import { scaleExponents, timesPowerOfTwo } from './scale.js';
+import { pavaSortedWide } from './pava-wide.js';
+
+/** Weight spreads (log₂) beyond which PAVA runs on block means (see pavaSortedWide). */
+const WIDE_SPREAD = 600;
 
 /** Result of {@link isotonicRegression}. */
 export interface IsotonicFit {
@@ -83,24 +88,15 @@ export function isotonicChecked(
   lower: number,
   upper: number,
 ): IsotonicFit {
-  // Products w·y of values near 1e308 would overflow while pooling ties: then pool y and w scaled
-  // by powers of two (exact) and scale the pooled weights back (the fit itself is scaled below).
-  let rawY = 0;
-  let rawW = 0;
-  for (let i = 0; i < ys.length; i++) {
-    rawY = Math.max(rawY, Math.abs(ys[i]!));
-    rawW = Math.max(rawW, ws[i]!);
-  }
-  const prescale = rawY > 2 ** 400 || rawW > 2 ** 400;
-  const pre = prescale ? 2 ** -exponentOf(rawY) : 1;
-  const preW = prescale ? 2 ** -exponentOf(rawW) : 1;
-  const pooled = prescale ? poolTies(xs, ys.map((v) => v * pre), ws.map((v) => v * preW)) : poolTies(xs, ys, ws);
-  if (prescale) {
-    for (let j = 0; j < pooled.y.length; j++) {
-      pooled.y[j] = pooled.y[j]! / pre;
-      pooled.w[j] = pooled.w[j]! / preW;
-    }
-  }
+  // Products w·y would overflow while pooling ties for values near 1e308, and underflow for 1e-100
+  // y with 1e-250 weights: then pool y and w scaled by powers of two (exact; see src/core/scale.ts)
+  // and keep the pooled values in those units (the fit is scaled back at the end).
+  const scales = scaleExponents(ys, ws);
+  const prescale = scales.needed;
+  const yUnit = prescale ? scales.yExp : 0;
+  const pooled = prescale
+    ? poolTies(xs, ys.map((v) => timesPowerOfTwo(v, -scales.yExp)), ws.map((v) => timesPowerOfTwo(v, -scales.wExp)))
+    : poolTies(xs, ys, ws);
   const m = pooled.x.length;
   // Positions with positive pooled weight take part in PAVA.
   const active: number[] = [];
@@ -119,7 +115,10 @@ export function isotonicChecked(
   }
   const yExp = exponentOf(maxY);
   // Weights to at most 2^-32 each, so that even 2^32 of them sum (and square) far from overflow.
-  const wScale = 2 ** -(exponentOf(maxW) + 32);
+  // Weights spread over more than 2^600 (prescaled to their geometric middle) go to the PAVA on
+  // block means, which never multiplies two of them.
+  const wide = prescale && scales.spread > WIDE_SPREAD;
+  const wScale = wide ? 1 : 2 ** -(exponentOf(maxW) + 32);
   const sign = direction === 'up' ? 1 : -1;
   const yScale = sign * 2 ** -yExp;
   const ay = new Float64Array(active.length);
@@ -128,13 +127,13 @@ export function isotonicChecked(
     ay[k] = yScale * pooled.y[active[k]!]!;
     aw[k] = wScale * pooled.w[active[k]!]!;
   }
-  const { fitted: af, starts } = pavaSorted(ay, aw);
+  const { fitted: af, starts } = wide ? pavaSortedWide(ay, aw) : pavaSorted(ay, aw);
   const back = sign * 2 ** yExp;
   const tx = new Float64Array(active.length);
   const tv = new Float64Array(active.length);
   for (let k = 0; k < active.length; k++) {
     tx[k] = pooled.x[active[k]!]!;
-    tv[k] = Math.min(upper, Math.max(lower, back * af[k]!));
+    tv[k] = Math.min(upper, Math.max(lower, timesPowerOfTwo(back * af[k]!, yUnit)));
   }
   // Levels: distinct values after clipping (clipping may merge blocks at a bound).
   let levels = starts.length > 0 ? 1 : 0;
@@ -158,6 +157,8 @@ export function isotonicChecked(
   const fitted = new Float64Array(xs.length);
   for (let i = 0; i < xs.length; i++) fitted[i] = value[pooled.group[i]!]!;
   const [knotX, knotY] = minimalTable(tx, tv);
+  // Pooled weights back in the caller's units (they were pooled in rescaled units).
+  if (prescale) for (let j = 0; j < m; j++) pooled.w[j] = timesPowerOfTwo(pooled.w[j]!, scales.wExp);
   return { method: 'isotonic', direction, x: pooled.x, value, weight: pooled.w, fitted, levels, knotX, knotY };
 }
 

@@ -13,6 +13,50 @@ import { fail } from './errors.js';
 import { checkCurvature, checkDegree, shapeChecked, type Curvature, type Degree } from './shape-fit.js';
 import type { SparseRow } from './shape-qp.js';
 import { smoothTableAt, type TableInterpolation } from './smooth-table.js';
+import { scaleExponents, timesPowerOfTwo } from './scale.js';
+
+/**
+ * shapeChecked on y and weights divided by powers of two when they are far from 1 (see
+ * src/core/scale.ts): exact, so the same fit; knot values, coefficients and fitted values are scaled
+ * back by 2^yExp, like the bounds in the constraint rows, the multipliers (units of weight × y) by
+ * 2^(yExp + wExp). Without it, weights near
+ * 1e100 or 1e-300, or y near 1e-100 with weights near 1e-250, made the shaped fit fail.
+ */
+function shapeScaled(
+  xs: Float64Array,
+  ys: Float64Array,
+  ws: Float64Array | null,
+  knots: number | Float64Array,
+  direction: Direction,
+  shape: ShapeSpec,
+  lower: number,
+  upper: number,
+): ReturnType<typeof shapeChecked> {
+  const scales = scaleExponents(ys, ws);
+  if (!scales.needed) return shapeChecked(xs, ys, ws, knots, direction, shape.curvature, shape.degree, lower, upper);
+  const { yExp, wExp } = scales;
+  const sf = shapeChecked(
+    xs,
+    ys.map((v) => timesPowerOfTwo(v, -yExp)),
+    ws === null ? null : ws.map((v) => timesPowerOfTwo(v, -wExp)),
+    knots,
+    direction,
+    shape.curvature,
+    shape.degree,
+    timesPowerOfTwo(lower, -yExp),
+    timesPowerOfTwo(upper, -yExp),
+  );
+  const back = (v: Float64Array, e: number) => v.map((u) => timesPowerOfTwo(u, e));
+  return {
+    ...sf,
+    knotY: back(sf.knotY, yExp),
+    fitted: back(sf.fitted, yExp),
+    coefficients: back(sf.coefficients, yExp),
+    multipliers: back(sf.multipliers, yExp + (ws === null ? 0 : wExp)),
+    // Bound rows carry their bound as right-hand side, in units of y (shape rows have 0).
+    constraints: sf.constraints.map((row) => (row.rhs === 0 ? row : { ...row, rhs: timesPowerOfTwo(row.rhs, yExp) })),
+  };
+}
 
 /** Options of {@link fitMonotone}. */
 export interface ModelOptions extends CommonFitOptions {
@@ -142,7 +186,7 @@ export function fitChecked(
 ): MonotoneModel {
   if (shape.curvature !== 0 || shape.degree !== 1) {
     if (spec === 0) checkShapeSpec(shape.curvature, shape.degree, spec); // throws BAD_OPTION
-    const sf = shapeChecked(xs, ys, ws, spec as number | Float64Array, direction, shape.curvature, shape.degree, lower, upper);
+    const sf = shapeScaled(xs, ys, ws, spec as number | Float64Array, direction, shape, lower, upper);
     return {
       method: 'knots',
       direction: sf.direction,

@@ -1,6 +1,7 @@
 /**
  * Goodness-of-fit statistics of a fitted curve.
  */
+import { scaleExponents, timesPowerOfTwo } from './scale.js';
 
 import { spearman } from './direction.js';
 
@@ -24,8 +25,9 @@ export interface FitStatistics {
 /**
  * Weighted fit statistics of `fitted` against `y`. Rows with weight 0 are ignored.
  *
- * Cost: O(n), two passes; four when the plain sums would overflow (|y| or w near 1e308) or the
- * squares underflow (1e-160-sized residuals), which are then taken on values scaled by powers of
+ * Cost: O(n), three passes; six when the plain sums would overflow (|y| or w near 1e308) or the
+ * products underflow (1e-160-sized residuals, or y and weights whose product is below 1e-300, such
+ * as y near 1e-100 with weights near 1e-250), which are then taken on values scaled by powers of
  * two so the results stay accurate. Inputs are not modified;
  * preconditions (same lengths, finite values, weights ≥ 0 with a positive total) are the
  * callers' — the fitting functions guarantee them.
@@ -48,7 +50,10 @@ export function fitStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w
   const sad = sums[5]!;
   const safe =
     Number.isFinite(sw) && Number.isFinite(sse) && Number.isFinite(sst) && Number.isFinite(sae) && Number.isFinite(sad) &&
-    (sae === 0 || sse > TINY) && (sad === 0 || sst > TINY);
+    (sae === 0 || sse > TINY) && (sad === 0 || sst > TINY) &&
+    // y or weights far from 1 (1e-260 y with 1e-64 weights): products w·|r| may have underflowed
+    // to 0 unseen — SAE and SSE would both be 0 — so take the scaled path (see src/core/scale.ts).
+    !scaleExponents(y, w ?? null).needed;
   if (!safe) return scaledStatistics(y, fitted, w, count);
   // R² below the range of doubles (an awful fit of near-constant y) is reported as −MAX_VALUE.
   const r2 = sst > 0 ? Math.max(1 - sse / sst, -Number.MAX_VALUE) : sse === 0 ? 1 : 0;
@@ -111,17 +116,17 @@ const TINY = 2 ** -800;
  */
 function scaledStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w: ArrayLike<number> | undefined, count: number): FitStatistics {
   const n = y.length;
-  let maxW = 0;
   let maxY = 0;
   for (let i = 0; i < n; i++) {
     const wi = w === undefined ? 1 : w[i]!;
     if (wi > 0) {
-      if (wi > maxW) maxW = wi;
       const a = Math.abs(y[i]!);
       if (a > maxY) maxY = a;
     }
   }
-  const wScale = 2 ** -powerOfTwoExponent(maxW);
+  // Weights scaled to their largest near 1, or to their geometric middle when they span more than
+  // 2^600 (as the fits do; see src/core/scale.ts), so the lightest rows still count.
+  const wScale = timesPowerOfTwo(1, -scaleExponents(y, w ?? null).wExp);
   const yExp = powerOfTwoExponent(maxY);
   const yScale = 2 ** -yExp;
   let sw = 0;
