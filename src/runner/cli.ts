@@ -5,7 +5,9 @@
  * JSON with --json); --out writes a copy with computed values cached; --set changes input cells
  * first. The input file is never modified.
  */
+import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
+import { checkOutput, OutputRefusedError } from './safe-write.js';
 import { parseInputValue, EvaluatedWorkbook, WorkbookReadError, type InputValue, type JsonCell, type FormulaResult } from './workbook.js';
 
 /** Parsed command line. */
@@ -13,15 +15,19 @@ export interface SheetArgs {
   readonly file: string;
   readonly json: boolean;
   readonly out: string | undefined;
+  /** Replace an existing --out file (never an input). */
+  readonly force: boolean;
   readonly set: Readonly<Record<string, InputValue>>;
 }
 
 /** Usage text printed on --help or a bad command line. */
-export const USAGE = `usage: npm run sheet -- <workbook.xlsx> [--json] [--out <copy.xlsx>] [--set Sheet!A1=value ...]
+export const USAGE = `usage: npm run sheet -- <workbook.xlsx> [--json] [--out <copy.xlsx> [--force]] [--set Sheet!A1=value ...]
 
   --json            print one JSON object: "Sheet!A1" -> value of every formula cell and of every
                     cell its result spills into, plus "messages" with each error's message
-  --out <file>      write a copy with the computed values cached (formulas kept)
+  --out <file>      write a copy with the computed values cached (formulas kept); the file
+                    must be new and must not be the input under another name (link)
+  --force           let --out replace an existing file (never the input workbook)
   --set S!A1=value  change an input cell before evaluating; repeat --set, or list several
                     changes after one --set; a value starting with "=" is a formula, TRUE/FALSE
                     are logicals, an empty value makes the cell blank
@@ -38,10 +44,12 @@ export function parseSheetArgs(argv: readonly string[]): SheetArgs {
   let file: string | undefined;
   let json = false;
   let out: string | undefined;
+  let force = false;
   const set: Record<string, InputValue> = {};
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i]!;
     if (a === '--json') json = true;
+    else if (a === '--force') force = true;
     else if (a === '--out') {
       out = argv[++i];
       if (out === undefined || out.startsWith('--')) throw new UsageError('--out needs a file name');
@@ -62,7 +70,8 @@ export function parseSheetArgs(argv: readonly string[]): SheetArgs {
   }
   if (file === undefined) throw new UsageError('name the workbook to evaluate');
   if (out !== undefined && resolve(out) === resolve(file)) throw new UsageError('--out must name a new file; the input workbook is never modified');
-  return { file, json, out, set };
+  if (force && out === undefined) throw new UsageError('--force only applies to --out');
+  return { file, json, out, force, set };
 }
 
 function show(v: JsonCell): string {
@@ -112,15 +121,21 @@ export async function runSheet(
     return 2;
   }
   try {
+    // Refused before the work, and checked again when the copy is written.
+    if (args.out !== undefined && existsSync(args.file)) checkOutput(args.out, [args.file], args.force);
     const book = await EvaluatedWorkbook.fromFile(args.file);
     if (Object.keys(args.set).length > 0) book.set(args.set);
     io.out(args.json ? `${JSON.stringify(book.toJson(), null, 2)}\n` : `${formatTable(book.results())}\n`);
     if (args.out !== undefined) {
-      await book.writeCopy(args.out);
+      await book.writeCopy(args.out, { inputs: [args.file], force: args.force });
       io.err(`sheet: wrote ${args.out}\n`);
     }
     return 0;
   } catch (e) {
+    if (e instanceof OutputRefusedError) {
+      io.err(`sheet: ${e.message}\n`);
+      return 2;
+    }
     if (e instanceof WorkbookReadError) {
       io.err(`sheet: ${e.message}\n`);
       return 1;
