@@ -7,13 +7,14 @@
  * exceljs reports them; cells inside an array formula's range hold cached results in the file and
  * are cleared before evaluation so the fresh result can spill there.
  */
-import { readFileSync, statSync, writeFileSync } from 'node:fs';
+import { readFileSync, statSync } from 'node:fs';
 import ExcelJS from 'exceljs';
 import { DetailedCellError, HyperFormula, type RawCellContent, type SimpleCellAddress } from 'hyperformula';
 import { cellName, parseCellRef, parseRange, qualifiedName } from './address.js';
 import { callsRatchet, toStoredForm, toTypedForm } from './formula-text.js';
 import { beginRecalculation, sizingStateOf } from './plugin.js';
 import { markDynamicArrays } from './dynamic-arrays.js';
+import { checkOutput, writeOutputSafely } from './safe-write.js';
 
 /** A cell value in the runner's JSON: numbers, text, logicals, null for blank, error codes as text. */
 export type JsonCell = number | string | boolean | null;
@@ -51,6 +52,9 @@ const HF_CONFIG = {
   maxRows: 1048576,
   maxColumns: 16384,
 } as const;
+
+/** Name of the engine-only sheet of keeper formulas (never written to a copy, never listed). */
+const KEEPER_SHEET = '__ratchet_keep';
 
 /** Most re-sizing passes per recalculation (each pass re-enters only the cells that changed size). */
 const MAX_PASSES = 25;
@@ -156,7 +160,9 @@ export class EvaluatedWorkbook {
       throw new WorkbookReadError(`Cannot read "${path}": it is not an .xlsx workbook (Excel 2007+ Open XML) or it is damaged.`);
     }
     if (wb.worksheets.length === 0) throw new WorkbookReadError(`Cannot read "${path}": it has no worksheets.`);
-    return EvaluatedWorkbook.fromExcel(wb);
+    const book = EvaluatedWorkbook.fromExcel(wb);
+    book.sourcePath = path;
+    return book;
   }
 
   /**
@@ -220,6 +226,9 @@ export class EvaluatedWorkbook {
     return book;
   }
 
+  /** The file the workbook was read from ({@link fromFile}); a copy never replaces it. */
+  private sourcePath: string | undefined;
+
   /** Sheet names in workbook order. */
   get sheets(): readonly string[] {
     return this.sheetNames;
@@ -280,6 +289,7 @@ export class EvaluatedWorkbook {
         todo.add(k);
       }
       if (todo.size === 0) return;
+      this.keepRangesOf(todo);
       beginRecalculation(this.hf);
       this.hf.batch(() => {
         for (const k of todo) {
@@ -290,6 +300,46 @@ export class EvaluatedWorkbook {
         }
       });
     }
+  }
+
+  /** Ranges (by "sheet:r0:c0:r1:c1") that a keeper formula already reads. */
+  private readonly keptRanges = new Set<string>();
+  private keeperSheet: number | undefined;
+  private keeperRows = 0;
+
+  /**
+   * Gives every range that the formulas about to be re-entered read a second reader: one keeper
+   * formula `=ROWS(range)` per range on an engine-only sheet that is not part of the workbook.
+   * Re-entering a formula replaces its vertex; when it was a range's only reader, HyperFormula
+   * removes the range vertex and then walks all its cells in a loop that grows quadratically
+   * with the range (the cause of a runner that grew as n^1.7), only to build the same range again.
+   * With a keeper the range stays, and re-entering costs O(1) for the graph. A keeper costs one
+   * graph vertex and one edge; ROWS never reads the cells. O(formulas re-entered).
+   */
+  private keepRangesOf(cells: ReadonlySet<string>): void {
+    const add: string[] = [];
+    for (const k of cells) {
+      const [sheet, row, col] = k.split(':').map(Number) as [number, number, number];
+      for (const p of this.hf.getCellPrecedents({ sheet, row, col })) {
+        if (!('start' in p) || p.start.sheet < 0) continue;
+        const key = `${p.start.sheet}:${p.start.row}:${p.start.col}:${p.end.row}:${p.end.col}`;
+        if (this.keptRanges.has(key)) continue;
+        this.keptRanges.add(key);
+        const text = this.hf.simpleCellRangeToString(p, { includeSheetName: true });
+        if (text !== undefined) add.push(`=IF(FALSE,COUNT(${text}))`);
+      }
+    }
+    if (add.length === 0) return;
+    if (this.keeperSheet === undefined) {
+      let name = KEEPER_SHEET;
+      for (let i = 2; !this.hf.isItPossibleToAddSheet(name); i++) name = `${KEEPER_SHEET}${i}`;
+      this.hf.addSheet(name);
+      this.keeperSheet = this.hf.getSheetId(name)!;
+    }
+    const sheet = this.keeperSheet;
+    const top = this.keeperRows;
+    this.keeperRows += add.length;
+    this.hf.batch(() => add.forEach((f, i) => this.hf.setCellContents({ sheet, row: top + i, col: 0 }, [[f]])));
   }
 
   private *spilledRatchetCells(): Generator<string> {
@@ -399,9 +449,23 @@ export class EvaluatedWorkbook {
   /**
    * Writes a copy of the workbook with the current inputs, formulas kept in the stored form
    * (`_xldudf_RATCHET_…`), computed values cached, and spilled results written as dynamic-array
-   * formulas over their current range (dynamic-arrays.ts). The source file is not touched.
+   * formulas over their current range (dynamic-arrays.ts). The source file is not touched: the
+   * copy is refused when it would be one of `inputs` (same path, a link to it, a hard link) or
+   * when it exists and `force` is false, and it is written to a temporary file in the same folder
+   * that then takes its name (safe-write.ts).
+   * @param path the new file. @param options.inputs files that must not be touched besides the
+   * file the workbook was read from (default: none);
+   * options.force replaces an existing file that is not an input (default false).
+   * @throws OutputRefusedError when the copy would replace an input or an existing file.
    */
-  async writeCopy(path: string): Promise<void> {
+  async writeCopy(path: string, options: { inputs?: readonly string[]; force?: boolean } = {}): Promise<void> {
+    const inputs = [...(this.sourcePath === undefined ? [] : [this.sourcePath]), ...(options.inputs ?? [])];
+    checkOutput(path, inputs, options.force ?? false);
+    writeOutputSafely(path, await this.copyBytes(), inputs, options.force ?? false);
+  }
+
+  /** The bytes of the copy {@link writeCopy} writes. O(cells). */
+  async copyBytes(): Promise<Uint8Array> {
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load((await this.source.xlsx.writeBuffer()) as ArrayBuffer);
     for (const [ref, v] of this.setLog) {
@@ -448,7 +512,7 @@ export class EvaluatedWorkbook {
       );
     }
     const { bytes } = await markDynamicArrays(new Uint8Array((await wb.xlsx.writeBuffer()) as ArrayBuffer));
-    writeFileSync(path, bytes);
+    return bytes;
   }
 }
 
