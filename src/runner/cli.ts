@@ -126,6 +126,14 @@ export async function runSheet(
     const book = await EvaluatedWorkbook.fromFile(args.file);
     if (Object.keys(args.set).length > 0) book.set(args.set);
     io.out(args.json ? `${JSON.stringify(book.toJson(), null, 2)}\n` : `${formatTable(book.results())}\n`);
+    const unknown = book.uncomputable();
+    if (unknown.length > 0) {
+      const list = unknown.length > 20 ? `${unknown.slice(0, 20).join(', ')} and ${unknown.length - 20} more` : unknown.join(', ');
+      io.err(
+        `sheet: ${unknown.length} formula cell${unknown.length === 1 ? '' : 's'} cannot be calculated here (a function the engine does not know, or a cell that reads one): ${list}.` +
+          `${args.out !== undefined ? ' The copy keeps the values stored in the workbook for them.' : ''}\n`,
+      );
+    }
     if (args.out !== undefined) {
       await book.writeCopy(args.out, { inputs: [args.file], force: args.force });
       io.err(`sheet: wrote ${args.out}\n`);

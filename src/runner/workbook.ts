@@ -15,6 +15,7 @@ import { callsRatchet, toStoredForm, toTypedForm } from './formula-text.js';
 import { beginRecalculation, sizingStateOf } from './plugin.js';
 import { markDynamicArrays } from './dynamic-arrays.js';
 import { checkOutput, writeOutputSafely } from './safe-write.js';
+import { packageProblem } from './package-check.js';
 
 /** A cell value in the runner's JSON: numbers, text, logicals, null for blank, error codes as text. */
 export type JsonCell = number | string | boolean | null;
@@ -140,7 +141,8 @@ export class EvaluatedWorkbook {
   /**
    * Reads an .xlsx file and evaluates it. Cost: reading plus one evaluation of every formula
    * (array results re-sized in a few more passes over the formulas that spill).
-   * @throws WorkbookReadError when the file is missing, unreadable or not an .xlsx workbook.
+   * @throws WorkbookReadError when the file is missing, unreadable, encrypted, an old .xls, would
+   * unpack to more than 1 GiB (package-check.ts), or is not an .xlsx workbook.
    */
   static async fromFile(path: string): Promise<EvaluatedWorkbook> {
     const wb = new ExcelJS.Workbook();
@@ -154,6 +156,8 @@ export class EvaluatedWorkbook {
       const why = code === 'ENOENT' ? 'no such file' : code === 'EACCES' ? 'permission denied' : `the file cannot be opened (${code ?? String(e)})`;
       throw new WorkbookReadError(`Cannot read "${path}": ${why}.`);
     }
+    const problem = packageProblem(data);
+    if (problem !== undefined) throw new WorkbookReadError(`Cannot read "${path}": ${problem.reason}.`);
     try {
       await wb.xlsx.load(data as unknown as ArrayBuffer);
     } catch {
@@ -363,6 +367,26 @@ export class EvaluatedWorkbook {
     }
   }
 
+  /**
+   * Formula cells the engine cannot calculate, as "Sheet!A1": their formula calls a function the
+   * engine does not know (RATCHET functions are always known), reads such a cell, or cannot be
+   * parsed. They show `#NAME?` (or `#ERROR!`) here; {@link writeCopy} keeps the value stored in
+   * the file for them. O(cells of the used ranges).
+   * @example book.uncomputable() // → ['Data!F2'] for a cell holding =SOMEADDINFN(A2)
+   */
+  uncomputable(): string[] {
+    const out: string[] = [];
+    for (const { addr } of this.formulaCells()) {
+      const v = this.hf.getCellValue(addr);
+      if (!(v instanceof DetailedCellError)) continue;
+      const m = v.message ?? '';
+      if ((v.type === 'NAME' && /^Function name .* not recognized\.$/.test(m)) || (v.type === 'ERROR' && m === 'Parsing error.')) {
+        out.push(qualifiedName(this.sheetNames[addr.sheet]!, addr.row, addr.col));
+      }
+    }
+    return out;
+  }
+
   /** Rows × columns an evaluated formula spills into (1 × 1 for a scalar). */
   private spillSize(addr: SimpleCellAddress): { rows: number; cols: number } {
     const v = this.hf.dependencyGraph.getCell(addr) as unknown as { width?: unknown; height?: unknown } | undefined;
@@ -479,6 +503,9 @@ export class EvaluatedWorkbook {
       if (typeof v === 'string' && /^#[A-Z/0-9!?]+[!?A]$/.test(v)) return { error: v } as ExcelJS.CellErrorValue;
       return v;
     };
+    // Cells the engine cannot calculate keep what the file stored (formula, cached value, array range).
+    const keep = new Set(this.uncomputable());
+    const kept = (sheet: string, row: number, col: number) => keep.has(qualifiedName(sheet, row, col));
     for (const ws of wb.worksheets) {
       // Old array ranges: their cached cells are cleared before fresh results are written.
       ws.eachRow({ includeEmpty: false }, (row) =>
@@ -486,6 +513,7 @@ export class EvaluatedWorkbook {
           const v = cell.value as FormulaCellValue | null;
           if (v && typeof v === 'object' && v.shareType === 'array' && typeof v.ref === 'string') {
             const g = parseRange(v.ref);
+            if (kept(ws.name, g.top, g.left)) return;
             for (let r = g.top; r <= g.bottom; r++) for (let c = g.left; c <= g.right; c++) if (r !== g.top || c !== g.left) ws.getCell(r + 1, c + 1).value = null;
           }
         }),
@@ -494,6 +522,7 @@ export class EvaluatedWorkbook {
     for (const res of this.results()) {
       const ws = wb.getWorksheet(res.sheet)!;
       const a = parseCellRef(`${quoteSheet(res.sheet)}!${res.cell}`);
+      if (kept(res.sheet, a.row, a.col)) continue;
       const stored = toStoredForm(res.formula.replace(/^=/, ''));
       const first = res.values[0]![0]!;
       const result = first === null ? undefined : cellOut(first);
