@@ -182,6 +182,7 @@ export class EvaluatedWorkbook {
   static fromExcel(wb: ExcelJS.Workbook): EvaluatedWorkbook {
     const sheets: Record<string, RawCellContent[][]> = {};
     const names: string[] = [];
+    const formulas: SimpleCellAddress[] = [];
     for (const ws of wb.worksheets) {
       names.push(ws.name);
       const grid: RawCellContent[][] = [];
@@ -203,6 +204,7 @@ export class EvaluatedWorkbook {
             const text = cell.formula;
             if (typeof text === 'string' && text !== '') {
               put(r, c, `=${toTypedForm(text.replace(/^=/, ''))}`);
+              formulas.push({ sheet: names.length - 1, row: r, col: c });
               const fv = v as FormulaCellValue;
               if (fv.shareType === 'array' && typeof fv.ref === 'string') {
                 const g = parseRange(fv.ref);
@@ -226,6 +228,7 @@ export class EvaluatedWorkbook {
     }
     const hf = HyperFormula.buildFromSheets(sheets, HF_CONFIG, namedRanges(wb));
     const book = new EvaluatedWorkbook(hf, wb, names);
+    for (const a of formulas) book.noteFormulaCell({ sheet: hf.getSheetId(names[a.sheet]!)!, row: a.row, col: a.col });
     book.settle();
     return book;
   }
@@ -268,7 +271,10 @@ export class EvaluatedWorkbook {
     this.hf.batch(() => {
       for (const e of entries) this.hf.setCellContents(e.addr, [[e.raw]]);
     });
-    for (const e of entries) this.recordSet(e.ref, e.v);
+    for (const e of entries) {
+      this.recordSet(e.ref, e.v);
+      if (typeof e.raw === 'string' && e.raw.startsWith('=')) this.noteFormulaCell(e.addr);
+    }
     this.settle();
   }
 
@@ -354,16 +360,31 @@ export class EvaluatedWorkbook {
     }
   }
 
+  /**
+   * Cells that hold or held a formula (read from the file or set later), sheet by sheet, row by
+   * row: the formulas are found without visiting every cell of the used ranges (which cost
+   * O(cells) per re-sizing pass).
+   */
+  private formulaIndex: SimpleCellAddress[] = [];
+  private formulaIndexSorted = true;
+  private readonly formulaIndexKeys = new Set<string>();
+
+  private noteFormulaCell(addr: SimpleCellAddress): void {
+    const k = `${addr.sheet}:${addr.row}:${addr.col}`;
+    if (this.formulaIndexKeys.has(k)) return;
+    this.formulaIndexKeys.add(k);
+    this.formulaIndex.push(addr);
+    this.formulaIndexSorted = false;
+  }
+
   private *formulaCells(): Generator<{ addr: SimpleCellAddress; formula: string }> {
-    for (let sheet = 0; sheet < this.sheetNames.length; sheet++) {
-      const dim = this.hf.getSheetDimensions(sheet);
-      for (let row = 0; row < dim.height; row++) {
-        for (let col = 0; col < dim.width; col++) {
-          const addr = { sheet, row, col };
-          const f = this.hf.getCellFormula(addr);
-          if (f !== undefined) yield { addr, formula: f };
-        }
-      }
+    if (!this.formulaIndexSorted) {
+      this.formulaIndex.sort((a, b) => a.sheet - b.sheet || a.row - b.row || a.col - b.col);
+      this.formulaIndexSorted = true;
+    }
+    for (const addr of this.formulaIndex) {
+      const f = this.hf.getCellFormula(addr);
+      if (f !== undefined) yield { addr, formula: f };
     }
   }
 
