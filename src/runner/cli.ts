@@ -7,6 +7,7 @@
  */
 import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
+import { writeFrozenCopy } from './freeze.js';
 import { checkOutput, OutputRefusedError } from './safe-write.js';
 import { parseInputValue, EvaluatedWorkbook, WorkbookReadError, type InputValue, type JsonCell, type FormulaResult } from './workbook.js';
 
@@ -18,16 +19,20 @@ export interface SheetArgs {
   /** Replace an existing --out file (never an input). */
   readonly force: boolean;
   readonly set: Readonly<Record<string, InputValue>>;
+  /** --freeze: where to write a copy with every RATCHET formula replaced by its values (freeze.ts). */
+  readonly freeze?: string | undefined;
 }
 
 /** Usage text printed on --help or a bad command line. */
-export const USAGE = `usage: npm run sheet -- <workbook.xlsx> [--json] [--out <copy.xlsx> [--force]] [--set Sheet!A1=value ...]
+export const USAGE = `usage: npm run sheet -- <workbook.xlsx> [--json] [--out <copy.xlsx> [--force]] [--freeze <frozen.xlsx>] [--set Sheet!A1=value ...]
 
   --json            print one JSON object: "Sheet!A1" -> value of every formula cell and of every
                     cell its result spills into, plus "messages" with each error's message
   --out <file>      write a copy with the computed values cached (formulas kept); the file
                     must be new and must not be the input under another name (link)
-  --force           let --out replace an existing file (never the input workbook)
+  --force           let --out and --freeze replace an existing file (never the input workbook)
+  --freeze <file>   write a copy for colleagues without the add-in: every RATCHET formula
+                    replaced by its values, and a sheet listing what was replaced
   --set S!A1=value  change an input cell before evaluating; repeat --set, or list several
                     changes after one --set; a value starting with "=" is a formula, TRUE/FALSE
                     are logicals, an empty value makes the cell blank
@@ -45,6 +50,7 @@ export function parseSheetArgs(argv: readonly string[]): SheetArgs {
   let json = false;
   let out: string | undefined;
   let force = false;
+  let freeze: string | undefined;
   const set: Record<string, InputValue> = {};
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i]!;
@@ -53,6 +59,9 @@ export function parseSheetArgs(argv: readonly string[]): SheetArgs {
     else if (a === '--out') {
       out = argv[++i];
       if (out === undefined || out.startsWith('--')) throw new UsageError('--out needs a file name');
+    } else if (a === '--freeze') {
+      freeze = argv[++i];
+      if (freeze === undefined || freeze.startsWith('--')) throw new UsageError('--freeze needs a file name');
     } else if (a === '--set' || a.startsWith('--set=')) {
       const spec = a === '--set' ? argv[++i] : a.slice('--set='.length);
       const eq = spec?.indexOf('=') ?? -1;
@@ -70,8 +79,9 @@ export function parseSheetArgs(argv: readonly string[]): SheetArgs {
   }
   if (file === undefined) throw new UsageError('name the workbook to evaluate');
   if (out !== undefined && resolve(out) === resolve(file)) throw new UsageError('--out must name a new file; the input workbook is never modified');
-  if (force && out === undefined) throw new UsageError('--force only applies to --out');
-  return { file, json, out, force, set };
+  if (force && out === undefined && freeze === undefined) throw new UsageError('--force only applies to --out and --freeze');
+  if (freeze !== undefined && [file, out].some((f) => f !== undefined && resolve(f) === resolve(freeze))) throw new UsageError('--freeze must name a new file of its own');
+  return { file, json, out, force, set, freeze };
 }
 
 function show(v: JsonCell): string {
@@ -122,7 +132,7 @@ export async function runSheet(
   }
   try {
     // Refused before the work, and checked again when the copy is written.
-    if (args.out !== undefined && existsSync(args.file)) checkOutput(args.out, [args.file], args.force);
+    if (existsSync(args.file)) for (const target of [args.out, args.freeze]) if (target !== undefined) checkOutput(target, [args.file], args.force);
     const book = await EvaluatedWorkbook.fromFile(args.file);
     if (Object.keys(args.set).length > 0) book.set(args.set);
     io.out(args.json ? `${JSON.stringify(book.toJson(), null, 2)}\n` : `${formatTable(book.results())}\n`);
@@ -137,6 +147,11 @@ export async function runSheet(
     if (args.out !== undefined) {
       await book.writeCopy(args.out, { inputs: [args.file], force: args.force });
       io.err(`sheet: wrote ${args.out}\n`);
+    }
+    if (args.freeze !== undefined) {
+      const f = await writeFrozenCopy(book, args.freeze, new Date(), { inputs: [args.file, ...(args.out === undefined ? [] : [args.out])], force: args.force });
+      io.err(`sheet: wrote ${args.freeze} (${f.replaced} RATCHET formulas replaced by values; see its sheet "${f.noteSheet}")\n`);
+      if (f.unresolved.length > 0) io.err(`sheet: warning: frozen as errors that are not answers: ${f.unresolved.join(', ')}\n`);
     }
     return 0;
   } catch (e) {

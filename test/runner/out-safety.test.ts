@@ -96,9 +96,15 @@ describe('--out never destroys an input', () => {
     expect(readdirSync(sub)).toEqual(['late.xlsx']);
   });
 
-  it('--force without --out is a usage error', async () => {
+  it('--force without --out or --freeze is a usage error', async () => {
     const c = capture();
     expect(await runSheet([SMALL, '--force'], c.io)).toBe(2);
-    expect(c.err.join('')).toContain('--force only applies to --out');
+    expect(c.err.join('')).toContain('--force only applies to --out and --freeze');
+  });
+
+  it('refuses a --freeze file that is a symbolic link to the input, even with --force', async () => {
+    const { dir, input } = folder();
+    symlinkSync(input, join(dir, 'frozen.xlsx'));
+    await refused([input, '--freeze', join(dir, 'frozen.xlsx'), '--force'], input, 'is the input workbook');
   });
 });
