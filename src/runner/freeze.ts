@@ -5,13 +5,14 @@
  * add-in. The plan (which cells, which values, the note) is src/adapter/freeze-plan.ts, shared
  * with the task pane; this module applies it to an exceljs copy.
  */
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import ExcelJS from 'exceljs';
 import { freezePlan, type FreezePlan, type FrozenValue, type LiveFormula } from '../adapter/freeze-plan.js';
 import { parseCellRef, qualifiedName } from './address.js';
 import { markDynamicArrays } from './dynamic-arrays.js';
+import { writeOutputSafely } from './safe-write.js';
 import { quoteSheet, type EvaluatedWorkbook, type JsonCell } from './workbook.js';
 
 /** Error codes a workbook file can hold (Excel 2007 and the dynamic-array versions). */
@@ -43,10 +44,18 @@ export interface FreezeSummary {
  * source file is not touched. Cost: writing the copy twice (O(size of the workbook)).
  * @param book an evaluated workbook. @param path the file to write (.xlsx).
  * @param date the date shown on the note sheet; default now.
+ * @param safety files the copy must never replace (`inputs`, default none) and whether an existing
+ * file may be replaced (`force`, default false); see safe-write.ts.
+ * @throws OutputRefusedError when `path` is one of `inputs` (any name or link) or exists without `force`.
  * @returns the number of formulas replaced, the note sheet's name and the unresolved cells.
  * @example await writeFrozenCopy(book, 'kiln-frozen.xlsx') // → { replaced: 12, noteSheet: 'Frozen values', unresolved: [] }
  */
-export async function writeFrozenCopy(book: EvaluatedWorkbook, path: string, date: Date = new Date()): Promise<FreezeSummary> {
+export async function writeFrozenCopy(
+  book: EvaluatedWorkbook,
+  path: string,
+  date: Date = new Date(),
+  safety: { inputs?: readonly string[]; force?: boolean } = {},
+): Promise<FreezeSummary> {
   const dir = mkdtempSync(join(tmpdir(), 'ratchet-freeze-'));
   let bytes: Buffer;
   try {
@@ -79,6 +88,6 @@ export async function writeFrozenCopy(book: EvaluatedWorkbook, path: string, dat
   note.getColumn(3).width = 60;
   note.getColumn(4).width = 22;
   const { bytes: marked } = await markDynamicArrays(new Uint8Array((await wb.xlsx.writeBuffer()) as ArrayBuffer));
-  writeFileSync(path, marked);
+  writeOutputSafely(path, marked, safety.inputs ?? [], safety.force ?? false);
   return { replaced: plan.replaced, noteSheet: plan.noteSheet, unresolved: [...plan.unresolved, ...odd] };
 }
