@@ -18,9 +18,9 @@
  * the O(n) parse and hash once. Cost of a first parse: O(cells); the hash is computed on first use.
  */
 import { fail } from '../core/index.js';
-import type { CellArg, CellValueIn } from '../functions/types.js';
+import type { CellArg, CellValueIn } from './cell-types.js';
 import { InputCellError } from './errors.js';
-import { hashFloat64 } from './hash.js';
+import { hashFloat64, sameBits } from './hash.js';
 
 /** Largest accepted magnitude of a number in any argument (sums of squares of n ≤ 10⁶ such values stay finite). */
 export const MAX_MAGNITUDE = 1e100;
@@ -50,6 +50,17 @@ export class Vector {
     this.hashCache ??= `${this.rows}x${this.cols}:${hashFloat64(this.values)}`;
     return this.hashCache;
   }
+}
+
+/**
+ * True when two parsed arguments hold the same cells: same shape and the same bit patterns (blanks
+ * included). Cost O(cells), O(1) for the same object.
+ * @example sameVector(readVector('y', [[1], [2]]), readVector('y', [[1], [2]])) // → true
+ */
+export function sameVector(a: Vector | undefined, b: Vector | undefined): boolean {
+  if (a === b) return true;
+  if (a === undefined || b === undefined) return false;
+  return a.rows === b.rows && a.cols === b.cols && sameBits(a.values, b.values);
 }
 
 /** Arguments with fewer cells are parsed on every call (cheaper than memoising them). */
@@ -196,17 +207,6 @@ export function readScalar(name: string, arg: CellArg): number | undefined {
   else return fail('BAD_OPTION', name, `needs a number; got ${describeCell(v)}`);
   if (!Number.isFinite(num)) fail('BAD_OPTION', name, `needs a finite number; got ${describeCell(num)}`);
   return num;
-}
-
-/** A whole-number option in [min, max], or `def` when omitted. @throws RatchetError BAD_OPTION. */
-export function readWhole(name: string, arg: CellArg, def: number, min: number, max: number, what = 'a whole number'): number {
-  const v = readScalar(name, arg);
-  if (v === undefined) return def;
-  if (!Number.isInteger(v) || v < min || v > max) {
-    const range = max === Infinity ? `≥ ${min}` : `from ${min} to ${max}`;
-    fail('BAD_OPTION', name, `needs ${what} ${range}; got ${v}`);
-  }
-  return v;
 }
 
 /** One of the listed values, or `def` when omitted. @throws RatchetError BAD_OPTION. */

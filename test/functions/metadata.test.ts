@@ -10,7 +10,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
-import { SHEET_FUNCTIONS, helpUrlOf } from '../../src/functions/registry.js';
+import { NAMESPACE, SHEET_FUNCTIONS, helpUrlOf, signatureOf } from '../../src/functions/registry.js';
 import { headingAnchors, renderHelpPage } from '../../scripts/help-page.mjs';
 
 interface ParamMeta {
@@ -97,6 +97,14 @@ describe('generated functions.json', () => {
       // The help page is the README with an id on every heading; "### RATCHET.FIT" gets "ratchetfit".
       expect(readme).toContain(`\n### RATCHET.${f.id}\n`);
       expect(anchors.has(f.helpUrl.split('#')[1]!)).toBe(true);
+    }
+  });
+
+  it("each function's section of the help page opens with the syntax line derived from its spec", () => {
+    const readme = readFileSync(fileURLToPath(new URL('../../README.md', import.meta.url)), 'utf8');
+    for (const f of SHEET_FUNCTIONS) {
+      const section = readme.split(`\n### ${NAMESPACE}.${f.name}\n`)[1]!.split('\n### ')[0]!;
+      expect(section).toContain(`\`=${signatureOf(f)}\``);
     }
   });
 
