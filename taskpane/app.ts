@@ -13,7 +13,7 @@ import { CellFailure, computeFit, cvArgs, cvRows, knotTableCsv, type CvRow, type
 import { allFormulas, parseCandidates, type CvSettings, type DataRefs, type DirectionCode, type FitSettings, type FormulaKind } from './formulas.js';
 import { CvChart, FitChart, type CvView } from './charts.js';
 import { HEATMAP_MAX_CELLS, computeSurface, gridFormula, knotField, renderHeatmap, type SecondInput, type SurfaceSettings } from './surface-view.js';
-import type { HeatmapView } from './heat-scale.js';
+import type { HeatmapView } from '../src/view/heat-scale.js';
 
 /** The data the pane works on, wherever they come from. */
 export interface Selection {

@@ -12,10 +12,10 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { fitSurface } from '../../src/core/index.js';
-import { buildSamples } from '../../src/runner/samples.js';
+import { buildSamples } from '../../scripts/samples/samples.js';
 import { CellFailure } from '../../taskpane/analysis.js';
 import { computeSurface, gridArgs, gridFormula, gridSpill, knotField, type SurfaceSettings } from '../../taskpane/surface-view.js';
-import { cellText, contrast, heatColour, heatmapFromGrid, hex, luminance, oklchToRgb, textColourOn } from '../../taskpane/heat-scale.js';
+import { cellText, contrast, heatColour, heatmapFromGrid, hex, luminance, oklchToRgb, textColourOn } from '../../src/view/heat-scale.js';
 import type { CellValueIn } from '../../src/functions/types.js';
 
 const CLASSIC: SurfaceSettings = { knots1: 0, knots2: 0, direction1: 1, direction2: 1 };
