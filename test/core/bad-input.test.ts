@@ -1,5 +1,5 @@
 /**
- * Bad input (issue 2, "Bad input"): every row is a typed RatchetError whose code AND full message
+ * Bad input (README.md, "Errors"; DEVELOPERS.md, "Conventions"): every row is a typed RatchetError whose code AND full message
  * are checked. Message shape (src/core/errors.ts): "<argument>: <what it needs>[; <what it got>]."
  * A fuzz test then feeds arbitrary values and checks that nothing untyped is thrown and no NaN or
  * ±Infinity comes back silently.

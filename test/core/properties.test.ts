@@ -195,6 +195,19 @@ describe('classic fit: properties', () => {
           sa += w[i]! * Math.abs(d.y[i]!);
         }
         expect(Math.abs(sy - sf)).toBeLessThanOrEqual(1e-12 * sa + 1e-300);
+        // A level is the set of rows sharing one fitted value; with positive weight, its value is
+        // the weighted mean of those rows' y (zero-weight rows carry no weight into the mean).
+        const levels = new Map<number, { sw: number; swy: number; swa: number }>();
+        for (let i = 0; i < d.x.length; i++) {
+          const l = levels.get(fit.fitted[i]!) ?? { sw: 0, swy: 0, swa: 0 };
+          l.sw += w[i]!;
+          l.swy += w[i]! * d.y[i]!;
+          l.swa += w[i]! * Math.abs(d.y[i]!);
+          levels.set(fit.fitted[i]!, l);
+        }
+        for (const [value, l] of levels) {
+          if (l.sw > 0) expect(Math.abs(value - l.swy / l.sw)).toBeLessThanOrEqual(1e-12 * (l.swa / l.sw) + 1e-300);
+        }
       }),
     );
   });

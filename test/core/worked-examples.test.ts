@@ -103,7 +103,7 @@ describe('SciPy documentation example of scipy.optimize.isotonic_regression (Sci
   });
 });
 
-describe('the worked knot example of the method notes (/work/shared/METHODS.md; computed with quadprog, not published)', () => {
+describe('the worked knot example of docs/methods.md (computed with quadprog, not published)', () => {
   const x = [0, 0.5, 1, 1.5, 2, 2.5, 3];
   const y = [0, 2, 1, 1.5, 1, 3, 2.8];
 

@@ -3,7 +3,7 @@
  * own generator (custom-functions-metadata, the library inside custom-functions-metadata-plugin
  * that the webpack build runs). This test runs that generator directly — no webpack — and checks
  * a snapshot of what users and Excel see (ids, names, parameter counts, dimensionality, optional
- * flags, options) against the argument lists of the issue, plus agreement with the registry
+ * flags, options) against the argument lists of the README's function reference, plus agreement with the registry
  * (descriptions, help URLs), which is the one source of truth.
  */
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -40,7 +40,7 @@ beforeAll(async () => {
   functions = errors.length === 0 ? (JSON.parse(result.metadataJson) as { functions: FunctionMeta[] }).functions : [];
 });
 
-/** The nine functions of the worksheet-function issue (other functions may follow them in the registry). */
+/** The nine one-input functions of the README (other functions may follow them in the registry). */
 const CORE_NINE = ['FIT', 'PREDICT', 'KNOTS', 'EVAL', 'INVERT', 'QKNOTS', 'CV', 'BESTK', 'STATS'];
 const nine = (): FunctionMeta[] => functions.filter((f) => CORE_NINE.includes(f.id));
 

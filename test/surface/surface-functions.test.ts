@@ -1,6 +1,6 @@
 /**
  * RATCHET.SURFACE, RATCHET.GRID and RATCHET.CVGRID as a host calls them (through the registry,
- * errors through the one mapping). Literal results are the 3 × 3 example of issue 7 (computed with
+ * errors through the one mapping). Literal results are the 3 × 3 example of docs/methods.md (computed with
  * Iso::biviso 0.0-18.1, see surface.reference.test.ts) and hand-computed bilinear values.
  */
 import { describe, expect, it } from 'vitest';

@@ -2,7 +2,7 @@
  * The pane's surface heat-map, without a browser: the cells it passes to RATCHET.GRID (through
  * the registry), the view it draws from GRID's table, the formula it offers, and the colour scale.
  *
- * Reference values: the 3 × 3 example of issue 7, Y = [[1,3,2],[0,2,5],[4,1,6]] with unit weights
+ * Reference values: the 3 × 3 example of docs/methods.md, Y = [[1,3,2],[0,2,5],[4,1,6]] with unit weights
  * → [[1/2,7/3,7/3],[1/2,7/3,5],[5/2,5/2,6]] (Iso::biviso 0.0-18.1, r-cran-iso; see
  * test/surface/surface.reference.test.ts), and the core's fitSurface called directly (a route that
  * does not pass through the worksheet functions' cell parsing). Contrast ratios and relative
