@@ -9,7 +9,7 @@ import { fitChecked, type KnotSpec } from './model.js';
 import { checkFolds, holdoutAssignment, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
 import { fail } from './errors.js';
-import { quantileKnotsSorted } from './knots.js';
+import { MAX_KNOTS, quantileKnotsSorted } from './knots.js';
 
 /** Where the knots of a candidate count K go inside each training set. */
 export type KnotPlacement = 'even' | 'quantile';
@@ -111,7 +111,7 @@ export function defaultCandidates(x: ArrayLike<number>): number[] {
   return out;
 }
 
-/** Validated candidate list: distinct entries, each 0 or a whole number 2 … 100000. */
+/** Validated candidate list: distinct entries, each 0 or a whole number 2 … MAX_KNOTS. */
 function checkCandidates(candidates: ArrayLike<number>): number[] {
   if (candidates === null || typeof candidates !== 'object' || typeof candidates.length !== 'number') {
     fail('BAD_OPTION', 'candidates', 'needs a list of knot counts');
@@ -121,8 +121,8 @@ function checkCandidates(candidates: ArrayLike<number>): number[] {
   const seen = new Set<number>();
   for (let i = 0; i < candidates.length; i++) {
     const k = candidates[i];
-    if (typeof k !== 'number' || !Number.isInteger(k) || k < 0 || k === 1 || k > 100000) {
-      fail('BAD_OPTION', 'candidates', `needs knot counts that are 0 (classic fit) or whole numbers from 2 to 100000; entry ${i + 1} is ${String(k)}`);
+    if (typeof k !== 'number' || !Number.isInteger(k) || k < 0 || k === 1 || k > MAX_KNOTS) {
+      fail('BAD_OPTION', 'candidates', `needs knot counts that are 0 (classic fit) or whole numbers from 2 to ${MAX_KNOTS}; entry ${i + 1} is ${String(k)}`);
     }
     if (seen.has(k)) fail('BAD_OPTION', 'candidates', `needs distinct knot counts; ${k} appears more than once`);
     seen.add(k);
