@@ -10,6 +10,7 @@ import { checkFolds, holdoutAssignment, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
 import { fail } from './errors.js';
 import { MAX_KNOTS, quantileKnotsSorted } from './knots.js';
+import { foldStandardError, holdoutStandardError, pooledR2, pooledRmse } from './scores.js';
 
 /** Where the knots of a candidate count K go inside each training set. */
 export type KnotPlacement = 'even' | 'quantile';
@@ -344,28 +345,9 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
 }
 
 function scoreOf(knots: number, a: Accumulator, sstTotal: number, fits: number, holdout: boolean): CandidateScore {
-  const cvRmse = Math.sqrt(a.sse / a.sw);
-  let cvSe: number;
-  if (!holdout) {
-    const k = a.foldRmse.length;
-    let mean = 0;
-    for (const r of a.foldRmse) mean += r;
-    mean /= k;
-    let ss = 0;
-    for (const r of a.foldRmse) ss += (r - mean) ** 2;
-    cvSe = Math.sqrt(ss / (k - 1)) / Math.sqrt(k);
-  } else {
-    // Delta method: se(MSE) from the spread of the weighted squared errors, se(RMSE) = se(MSE) / (2 RMSE).
-    const sq = a.sq!;
-    const w = a.sqw!;
-    const m = sq.length;
-    const mse = a.sse / a.sw;
-    let s = 0;
-    for (let i = 0; i < m; i++) s += (w[i]! * (sq[i]! - mse)) ** 2;
-    const seMse = m > 1 ? Math.sqrt((s * m) / (m - 1)) / a.sw : NaN;
-    cvSe = cvRmse > 0 ? seMse / (2 * cvRmse) : m > 1 ? 0 : NaN;
-  }
-  const cvR2 = sstTotal > 0 ? 1 - a.sse / sstTotal : a.sse === 0 ? 1 : 0;
+  const cvRmse = pooledRmse(a.sse, a.sw);
+  const cvSe = holdout ? holdoutStandardError(a.sq!, a.sqw!, a.sse, a.sw, cvRmse) : foldStandardError(a.foldRmse);
+  const cvR2 = pooledR2(a.sse, sstTotal);
   return { knots, cvRmse, cvSe, cvR2, cvMae: a.sae / a.sw, trainRmse: a.trainRmse / fits, foldRmse: a.foldRmse };
 }
 

@@ -19,7 +19,7 @@ export { fitMonotone, fitChecked, predict, checkKnotSpec, type ModelOptions, typ
 export { finiteArray, finiteView, weightArray, boundsPair, sameLength, type NumericInput } from './validate.js';
 export { SplitMix64, checkSeed } from './prng.js';
 export { foldSizes, repeatState, seededPermutation, kFoldAssignment, checkFolds, holdoutSize, holdoutAssignment } from './folds.js';
-export { suggestKnots, type SuggestionRule, type Suggestion, type ScoreForSuggestion } from './suggest-knots.js';
+export { suggestKnots, type SuggestionRule, type Suggestion, type ScoreForSuggestion } from './scores.js';
 export { crossValidate, holdoutValidate, defaultCandidates, type CrossValidationOptions, type CrossValidationResult, type CandidateScore, type HoldoutOptions, type KnotPlacement } from './cross-validate.js';
 export { fitSurface, surfaceChecked, predictSurface, checkSurfaceKnots, checkAxisDirection, SURFACE_MAX_NODES, SURFACE_EXACT_NODES, SURFACE_ITERATIVE_NODES, type SurfaceOptions, type SurfaceModel, type SurfaceKnotSpec, type AxisDirection, type OptimalityCertificate } from './surface.js';
 export { latticeEdges, orderEnvelopeMean, admmLattice, inducedOrder, type LatticeEdges, type LatticeSolution } from './surface-solve.js';

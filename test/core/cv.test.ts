@@ -1,6 +1,6 @@
 /**
  * Cross-validation of knot counts as a specification (src/core/cross-validate.ts,
- * src/core/suggest-knots.ts): a worked example computed by hand, the one-SE rule, no leakage
+ * src/core/scores.ts): a worked example computed by hand, the one-SE rule, no leakage
  * from held-out rows, zero weights, agreement with a fold-by-fold computation through the public
  * fitting API, typed errors, cancellation and progress. The comparison with scikit-learn and
  * SciPy on R datasets is in cv-reference.test.ts.
