@@ -6,17 +6,9 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import {
-  RatchetError,
-  fitMonotone,
-  invertAt,
-  isotonicRegression,
-  knotRegression,
-  predict,
-  quantileKnots,
-  type ErrorCode,
-  type ModelOptions,
-} from '../../src/core/index.js';
+import { RatchetError, fitMonotone, invertAt, knotRegression, predict, quantileKnots, type ModelOptions } from '../../src/core/index.js';
+import { isotonicRegression } from '../../src/core/isotonic.js';
+import { type ErrorCode } from '../../src/core/errors.js';
 
 fc.configureGlobal({ seed: Number(process.env.FC_SEED ?? 20240602), numRuns: Number(process.env.FC_RUNS ?? 400) });
 

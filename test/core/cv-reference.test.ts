@@ -17,7 +17,8 @@
  * Tolerance: 1e-9 relative (absolute 1e-9 near zero), as docs/tolerances.md explains for cross-validation scores.
  */
 import { describe, expect, it } from 'vitest';
-import { crossValidate, holdoutValidate, type CrossValidationResult, type DirectionOption } from '../../src/core/index.js';
+import { crossValidate, type CrossValidationResult, type DirectionOption } from '../../src/core/index.js';
+import { holdoutValidate } from '../../src/core/cross-validate.js';
 import fixture from '../reference/fixtures/cv_datasets.json' with { type: 'json' };
 
 const REL = 1e-9;

@@ -7,21 +7,10 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import {
-  crossValidate,
-  defaultCandidates,
-  evenKnots,
-  fitMonotone,
-  holdoutValidate,
-  kFoldAssignment,
-  predict,
-  quantileKnots,
-  spearman,
-  suggestKnots,
-  RatchetError,
-  type CrossValidationOptions,
-  type DirectionOption,
-} from '../../src/core/index.js';
+import { crossValidate, defaultCandidates, fitMonotone, kFoldAssignment, predict, quantileKnots, suggestKnots, RatchetError, type CrossValidationOptions, type DirectionOption } from '../../src/core/index.js';
+import { evenKnots } from '../../src/core/knots.js';
+import { holdoutValidate } from '../../src/core/cross-validate.js';
+import { spearman } from '../../src/core/direction.js';
 
 /** Runs `fn` and returns the RatchetError it throws (fails the test if it does not throw one). */
 function caught(fn: () => unknown): RatchetError {

@@ -9,7 +9,8 @@
  * Tolerance: 1e-9 relative (absolute 1e-9 near zero), as docs/tolerances.md explains for classic fits.
  */
 import { describe, expect, it } from 'vitest';
-import { fitMonotone, isotonicRegression, predict, type DirectionOption } from '../../src/core/index.js';
+import { fitMonotone, predict, type DirectionOption } from '../../src/core/index.js';
+import { isotonicRegression } from '../../src/core/isotonic.js';
 import { inputCase, rRefs, skRefs } from './fixtures.js';
 
 const REL = 1e-9;

@@ -12,7 +12,8 @@
  * Tolerance 1e-7 relative (absolute 1e-7 near zero), as docs/tolerances.md explains for knot fits.
  */
 import { describe, expect, it } from 'vitest';
-import { evenKnots, fitMonotone, knotRegression, quantileKnots } from '../../src/core/index.js';
+import { fitMonotone, knotRegression, quantileKnots } from '../../src/core/index.js';
+import { evenKnots } from '../../src/core/knots.js';
 import { bvlsRefs, inputCase, rRefs, skRefs, type RKnotCase } from './fixtures.js';
 
 const REL = 1e-7;

@@ -17,19 +17,13 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import {
-  evenKnots,
-  fitMonotone,
-  interpolate,
-  invertAt,
-  isotonicRegression,
-  knotRegression,
-  poolTies,
-  predict,
-  solveMonotoneTridiagonal,
-  sortOrder,
-  type Direction,
-} from '../../src/core/index.js';
+import { fitMonotone, interpolate, invertAt, knotRegression, predict } from '../../src/core/index.js';
+import { evenKnots } from '../../src/core/knots.js';
+import { isotonicRegression } from '../../src/core/isotonic.js';
+import { poolTies } from '../../src/core/pool-ties.js';
+import { solveMonotoneTridiagonal } from '../../src/core/monotone-qp.js';
+import { sortOrder } from '../../src/core/sort-order.js';
+import { type Direction } from '../../src/core/types.js';
 import { hatRow } from './fixtures.js';
 
 // Fixed seed for reproducible CI runs; FC_SEED / FC_RUNS explore further (e.g. FC_RUNS=20000).

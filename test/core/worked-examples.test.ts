@@ -3,7 +3,9 @@
  * computed by a library, the test checks both the literal numbers and the library's output.
  */
 import { describe, expect, it } from 'vitest';
-import { fitMonotone, isotonicRegression, knotRegression, pavaSorted, predict } from '../../src/core/index.js';
+import { fitMonotone, knotRegression, predict } from '../../src/core/index.js';
+import { isotonicRegression } from '../../src/core/isotonic.js';
+import { pavaSorted } from '../../src/core/pava.js';
 import { rRefs, skRefs } from './fixtures.js';
 
 describe('pituitary-fissure sizes (Potthoff & Roy 1964, Biometrika 51:313–326; Robertson, Wright & Dykstra 1988, Order Restricted Statistical Inference)', () => {
