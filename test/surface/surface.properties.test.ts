@@ -10,7 +10,8 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { fitSurface, predictSurface } from '../../src/core/index.js';
-import { admmLattice, latticeEdges } from '../../src/core/surface-solve.js';
+import { latticeEdges } from '../../src/core/surface-solve.js';
+import { admmLattice } from '../../src/core/surface-admm.js';
 import { assembleLattice, evaluateLattice, locate } from '../../src/core/surface-lattice.js';
 import { SURFACE_EXACT_NODES } from '../../src/core/surface.js';
 import { coneConditions, dataGradient, orderPairs, uniform, upperSet, worstViolation, type Dir } from './helpers.js';
