@@ -14,7 +14,7 @@
 import { RatchetError, fail, isRatchetError } from '../core/index.js';
 import { nonBlank, readChoice, readKnots, readScalar, readVector, toGrid, type Vector } from '../adapter/cells.js';
 import { pairRows, type Column, type PairedRows } from '../adapter/rows.js';
-import type { CellArg, CellOut, CellResult } from '../adapter/cell-types.js';
+import type { CellArg, CellResult } from '../adapter/cell-types.js';
 import type { InvokeContext, ParamKind, ParamSpec, SheetFunction } from './types.js';
 
 /** Namespace users type before each function name (`RATCHET.FIT`). Defined here only. */
@@ -168,12 +168,18 @@ export class Args<N extends string = string> {
   }
 }
 
-/** Every number of a result must be finite: anything else is a numerical failure (#NUM!). */
+/** Every number of a result must be finite: anything else is a numerical failure (#NUM!). O(cells). */
 function finite(name: string, result: CellResult): CellResult {
-  const bad = (v: CellOut): boolean => typeof v === 'number' && !Number.isFinite(v);
+  // Indexed loops and no closure: this runs on every call, also on the one-cell fast paths.
   if (Array.isArray(result)) {
-    for (const row of result) for (const v of row) if (bad(v)) fail('NUMERICAL', name, 'produced a non-finite number (a numerical failure)');
-  } else if (bad(result)) fail('NUMERICAL', name, 'produced a non-finite number (a numerical failure)');
+    for (let r = 0; r < result.length; r++) {
+      const row = result[r]!;
+      for (let c = 0; c < row.length; c++) {
+        const v = row[c];
+        if (typeof v === 'number' && v - v !== 0) fail('NUMERICAL', name, 'produced a non-finite number (a numerical failure)');
+      }
+    }
+  } else if (typeof result === 'number' && result - result !== 0) fail('NUMERICAL', name, 'produced a non-finite number (a numerical failure)');
   return result;
 }
 
