@@ -5,7 +5,9 @@ import type { Direction, DirectionOption } from './types.js';
 import { boundsPair, finiteArray, sameLength, weightArray } from './validate.js';
 import { resolveDirection } from './direction.js';
 import { sortOrder } from './sort-order.js';
-import { fitChecked, type KnotSpec } from './model.js';
+import { checkShapeSpec, fitChecked, type KnotSpec, type ShapeSpec } from './model.js';
+import { smoothTableAt } from './smooth-table.js';
+import type { Curvature, Degree } from './shape-fit.js';
 import { checkFolds, holdoutAssignment, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
 import { fail } from './errors.js';
@@ -40,6 +42,13 @@ export interface CrossValidationOptions {
    * range; `'quantile'` — at the training x quantiles (the rule of quantileKnots).
    */
   placement?: KnotPlacement;
+  /**
+   * Shape of every candidate knot fit, as in fitMonotone: curvature −1 concave, 0 any (default),
+   * 1 convex; degree 1 piecewise linear (default), 2 smooth. With a shape, candidate 0 (the
+   * classic fit, which has no shape) is RatchetError BAD_OPTION.
+   */
+  curvature?: Curvature;
+  degree?: Degree;
   /** Cancellation: checked before every fit; when aborted, RatchetError CANCELLED. */
   signal?: AbortSignal;
   /** Called after every fit with the fraction of fits done, in (0, 1]; the last call is 1. */
@@ -113,7 +122,7 @@ export function defaultCandidates(x: ArrayLike<number>): number[] {
 }
 
 /** Validated candidate list: distinct entries, each 0 or a whole number 2 … MAX_KNOTS. */
-function checkCandidates(candidates: ArrayLike<number>): number[] {
+function checkCandidates(candidates: ArrayLike<number>, shape: ShapeSpec): number[] {
   if (candidates === null || typeof candidates !== 'object' || typeof candidates.length !== 'number') {
     fail('BAD_OPTION', 'candidates', 'needs a list of knot counts');
   }
@@ -124,6 +133,9 @@ function checkCandidates(candidates: ArrayLike<number>): number[] {
     const k = candidates[i];
     if (typeof k !== 'number' || !Number.isInteger(k) || k < 0 || k === 1 || k > MAX_KNOTS) {
       fail('BAD_OPTION', 'candidates', `needs knot counts that are 0 (classic fit) or whole numbers from 2 to ${MAX_KNOTS}; entry ${i + 1} is ${String(k)}`);
+    }
+    if (k === 0 && (shape.curvature !== 0 || shape.degree !== 1)) {
+      fail('BAD_OPTION', 'candidates', `needs knot counts ≥ 2 with a curvature or degree option (the classic fit has no shape); entry ${i + 1} is 0`);
     }
     if (seen.has(k)) fail('BAD_OPTION', 'candidates', `needs distinct knot counts; ${k} appears more than once`);
     seen.add(k);
@@ -158,6 +170,7 @@ interface Prepared {
   lower: number;
   upper: number;
   placement: KnotPlacement;
+  shape: ShapeSpec;
   /** Σ w (y − ȳ_w)² over all used rows. */
   sst: number;
 }
@@ -173,6 +186,7 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
     fail('BAD_OPTION', 'direction', `needs 'up', 'down' or 'auto'; got ${String(direction)}`);
   }
   const placement = checkPlacement(options.placement);
+  const shape = checkShapeSpec(options.curvature, options.degree, 2);
   // Zero-weight rows neither train nor score: drop them before the split.
   let n = 0;
   for (let i = 0; i < xs.length; i++) if (ws[i]! > 0) n++;
@@ -207,7 +221,7 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
   const mean = sumWY / sumW;
   let sst = 0;
   for (let k = 0; k < n; k++) sst += sw[k]! * (sy[k]! - mean) ** 2;
-  return { n, sx, sy, sw, rowOf: order, direction, lower, upper, placement, sst };
+  return { n, sx, sy, sw, rowOf: order, direction, lower, upper, placement, shape, sst };
 }
 
 /**
@@ -314,8 +328,10 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
       if (signal?.aborted) cancelled(done, total);
       const K = candidates[c]!;
       const spec: KnotSpec = K === 0 ? 0 : p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
-      const model = fitChecked(tx, ty, tw, spec, direction, p.lower, p.upper);
-      interpolateAscending(model.knotX, model.knotY, ex, pred);
+      const model = fitChecked(tx, ty, tw, spec, direction, p.lower, p.upper, p.shape);
+      if (model.interpolation === 'quadratic') {
+        for (let i = 0; i < m; i++) pred[i] = smoothTableAt(model.knotX, model.knotY, 'quadratic', ex[i]!);
+      } else interpolateAscending(model.knotX, model.knotY, ex, pred);
       let sse = 0;
       let sae = 0;
       let sumW = 0;
@@ -387,7 +403,7 @@ function scoreOf(knots: number, a: Accumulator, sstTotal: number, fits: number, 
  * @param y responses, finite, same length.
  * @param options see {@link CrossValidationOptions}.
  * @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_BOUNDS,
- *   BAD_OPTION (candidates, folds, repeats, seed, direction, placement), TOO_FEW_POINTS (fewer
+ *   BAD_OPTION (candidates, folds, repeats, seed, direction, placement, curvature, degree), TOO_FEW_POINTS (fewer
  *   than 2 distinct x, or a training set with fewer than 2 distinct x), CANCELLED.
  * @example crossValidate([1, 2, 3, 4, 5, 6], [1, 3, 2, 4, 6, 5], { candidates: [0], folds: 3, seed: 0 })
  *   .scores[0].cvRmse // → 1.3420… = √(389/216)
@@ -395,7 +411,7 @@ function scoreOf(knots: number, a: Accumulator, sstTotal: number, fits: number, 
  */
 export function crossValidate(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValidationOptions = {}): CrossValidationResult {
   const p = prepare(x, y, options);
-  const candidates = options.candidates === undefined ? defaultCandidates(p.sx) : checkCandidates(options.candidates);
+  const candidates = options.candidates === undefined ? defaultCandidates(p.sx) : checkCandidates(options.candidates, p.shape);
   const folds = checkFolds(options.folds ?? 5, p.n);
   const repeats = checkRepeats(options.repeats ?? 1);
   const seed = checkSeed(options.seed ?? 1);
@@ -441,7 +457,7 @@ export function crossValidate(x: ArrayLike<number>, y: ArrayLike<number>, option
  */
 export function holdoutValidate(x: ArrayLike<number>, y: ArrayLike<number>, options: HoldoutOptions = {}): CrossValidationResult {
   const p = prepare(x, y, options);
-  const candidates = options.candidates === undefined ? defaultCandidates(p.sx) : checkCandidates(options.candidates);
+  const candidates = options.candidates === undefined ? defaultCandidates(p.sx) : checkCandidates(options.candidates, p.shape);
   const seed = checkSeed(options.seed ?? 1);
   const testFraction = options.testFraction ?? 0.25;
   const label = holdoutAssignment(p.n, testFraction, seed);

@@ -2,6 +2,8 @@
  * Goodness-of-fit statistics of a fitted curve.
  */
 
+import { spearman } from './direction.js';
+
 /** Result of {@link fitStatistics}. */
 export interface FitStatistics {
   /** Rows with positive weight. */
@@ -167,4 +169,63 @@ function scaledStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w: Ar
 /** The exponent k (clamped to the normal range) of the smallest power of two 2^k ≥ v; 0 for v = 0. */
 function powerOfTwoExponent(v: number): number {
   return v > 0 ? Math.min(1023, Math.max(-1022, Math.ceil(Math.log2(v)))) : 0;
+}
+
+/** Result of {@link spreadStatistics}: the rows STATS shows after those of {@link FitStatistics}. */
+export interface SpreadStatistics {
+  /**
+   * Residual standard deviation σ̂ = √(Σ w r² / (n_used − p)), p = the fit's `levels`; null when
+   * n_used ≤ p (no degrees of freedom left to estimate the scatter).
+   */
+  sigma: number | null;
+  /** Residual degrees of freedom n_used − p (may be 0 or negative: then `sigma` is null). */
+  dfResid: number;
+  /**
+   * Spearman's rank correlation of x and y over the rows with positive weight (average ranks for
+   * ties; the weights do not weight the ranks); null when x or y is constant on those rows.
+   */
+  spearman: number | null;
+}
+
+/**
+ * The scatter and association rows of STATS: σ̂, its degrees of freedom, and Spearman's ρ.
+ *
+ * σ̂² = SSE / (n_used − p) with SSE = Σ wᵢ (yᵢ − ŷᵢ)² over rows with positive weight, n_used their
+ * count, and p = `levels` (the distinct fitted levels: PAVA blocks for the classic fit, groups of
+ * equal knot values for the knot model — for the classic fit an estimate of its degrees of
+ * freedom, Meyer & Woodroofe 2000). SSE comes from {@link fitStatistics}, so huge or tiny data keep
+ * their accuracy.
+ *
+ * Cost: O(n) for σ̂, O(n) for ρ (radix-sorted ranks). Inputs are not modified; preconditions as
+ * for {@link fitStatistics} (same lengths, finite values, weights ≥ 0 with a positive total).
+ *
+ * @param x predictor values.
+ * @param y observed values, same length.
+ * @param fitted fitted values, same length.
+ * @param levels the fit's number of distinct fitted levels p, a whole number ≥ 1.
+ * @param w weights (default all 1).
+ * @example spreadStatistics([1, 2, 3, 4], [1, 3, 2, 4], [1, 2.5, 2.5, 4], 3) // → { sigma: 0.7071067811865476, dfResid: 1, spearman: 0.8 }
+ * @see R `summary(lm(...))$sigma` and `cor(x, y, method = "spearman")`, which these equal for a
+ *   straight-line fit (test/core/statistics-spread.test.ts).
+ */
+export function spreadStatistics(
+  x: ArrayLike<number>,
+  y: ArrayLike<number>,
+  fitted: ArrayLike<number>,
+  levels: number,
+  w?: ArrayLike<number>,
+): SpreadStatistics {
+  const base = fitStatistics(y, fitted, w);
+  const dfResid = base.n - levels;
+  const sigma = dfResid >= 1 ? Math.sqrt(base.sse / dfResid) : null;
+  const xs: number[] = [];
+  const ys: number[] = [];
+  for (let i = 0; i < x.length; i++) {
+    if (w === undefined || w[i]! > 0) {
+      xs.push(x[i]!);
+      ys.push(y[i]!);
+    }
+  }
+  const rho = spearman(xs, ys);
+  return { sigma, dfResid, spearman: Number.isNaN(rho) ? null : rho };
 }

@@ -6,6 +6,7 @@
  * first. The input file is never modified.
  */
 import { resolve } from 'node:path';
+import { writeFrozenCopy } from './freeze.js';
 import { parseInputValue, EvaluatedWorkbook, WorkbookReadError, type InputValue, type JsonCell, type FormulaResult } from './workbook.js';
 
 /** Parsed command line. */
@@ -14,14 +15,18 @@ export interface SheetArgs {
   readonly json: boolean;
   readonly out: string | undefined;
   readonly set: Readonly<Record<string, InputValue>>;
+  /** --freeze: where to write a copy with every RATCHET formula replaced by its values (freeze.ts). */
+  readonly freeze?: string | undefined;
 }
 
 /** Usage text printed on --help or a bad command line. */
-export const USAGE = `usage: npm run sheet -- <workbook.xlsx> [--json] [--out <copy.xlsx>] [--set Sheet!A1=value ...]
+export const USAGE = `usage: npm run sheet -- <workbook.xlsx> [--json] [--out <copy.xlsx>] [--freeze <frozen.xlsx>] [--set Sheet!A1=value ...]
 
   --json            print one JSON object: "Sheet!A1" -> value of every formula cell and of every
                     cell its result spills into, plus "messages" with each error's message
   --out <file>      write a copy with the computed values cached (formulas kept)
+  --freeze <file>   write a copy for colleagues without the add-in: every RATCHET formula
+                    replaced by its values, and a sheet listing what was replaced
   --set S!A1=value  change an input cell before evaluating; repeat --set, or list several
                     changes after one --set; a value starting with "=" is a formula, TRUE/FALSE
                     are logicals, an empty value makes the cell blank
@@ -38,6 +43,7 @@ export function parseSheetArgs(argv: readonly string[]): SheetArgs {
   let file: string | undefined;
   let json = false;
   let out: string | undefined;
+  let freeze: string | undefined;
   const set: Record<string, InputValue> = {};
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i]!;
@@ -45,6 +51,9 @@ export function parseSheetArgs(argv: readonly string[]): SheetArgs {
     else if (a === '--out') {
       out = argv[++i];
       if (out === undefined || out.startsWith('--')) throw new UsageError('--out needs a file name');
+    } else if (a === '--freeze') {
+      freeze = argv[++i];
+      if (freeze === undefined || freeze.startsWith('--')) throw new UsageError('--freeze needs a file name');
     } else if (a === '--set' || a.startsWith('--set=')) {
       const spec = a === '--set' ? argv[++i] : a.slice('--set='.length);
       const eq = spec?.indexOf('=') ?? -1;
@@ -62,7 +71,8 @@ export function parseSheetArgs(argv: readonly string[]): SheetArgs {
   }
   if (file === undefined) throw new UsageError('name the workbook to evaluate');
   if (out !== undefined && resolve(out) === resolve(file)) throw new UsageError('--out must name a new file; the input workbook is never modified');
-  return { file, json, out, set };
+  if (freeze !== undefined && [file, out].some((f) => f !== undefined && resolve(f) === resolve(freeze))) throw new UsageError('--freeze must name a new file of its own');
+  return { file, json, out, set, freeze };
 }
 
 function show(v: JsonCell): string {
@@ -118,6 +128,11 @@ export async function runSheet(
     if (args.out !== undefined) {
       await book.writeCopy(args.out);
       io.err(`sheet: wrote ${args.out}\n`);
+    }
+    if (args.freeze !== undefined) {
+      const f = await writeFrozenCopy(book, args.freeze);
+      io.err(`sheet: wrote ${args.freeze} (${f.replaced} RATCHET formulas replaced by values; see its sheet "${f.noteSheet}")\n`);
+      if (f.unresolved.length > 0) io.err(`sheet: warning: frozen as errors that are not answers: ${f.unresolved.join(', ')}\n`);
     }
     return 0;
   } catch (e) {

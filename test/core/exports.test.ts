@@ -21,10 +21,10 @@ function tsFiles(dir: string): string[] {
 describe('src/core/index.ts', () => {
   it('exports exactly the runtime names the outer layers import', () => {
     expect(Object.keys(core).sort()).toEqual([
-      'RatchetError', 'SplitMix64', 'checkKnotTable', 'crossValidate', 'crossValidateSurface', 'defaultCandidates',
-      'fail', 'fitMonotone', 'fitSurface', 'interpolate', 'interpolateAt', 'invertAt', 'invertChecked',
-      'isRatchetError', 'kFoldAssignment', 'knotRegression', 'predict', 'predictSurface', 'quantileKnots',
-      'suggestKnots', 'suggestSurfaceKnots',
+      'RatchetError', 'SplitMix64', 'bandAt', 'checkKnotTable', 'crossValidate', 'crossValidateSurface',
+      'defaultCandidates', 'fail', 'fitBandModel', 'fitMonotone', 'fitSurface', 'interpolate', 'interpolateAt',
+      'invertAt', 'invertChecked', 'isRatchetError', 'kFoldAssignment', 'knotRegression', 'predict',
+      'predictSurface', 'quantileKnots', 'suggestKnots', 'suggestSurfaceKnots',
     ]);
   });
 
