@@ -109,6 +109,14 @@ export class Args<N extends string = string> {
     return s;
   }
 
+  /**
+   * All arguments as the host passed them, in parameter order: for identity memos on hot paths,
+   * indexed with {@link positionsOf} (so they are still addressed by name).
+   */
+  get raw(): readonly CellArg[] {
+    return this.values;
+  }
+
   /** The argument as the host passed it (undefined when omitted): for identity memos only. */
   cell(name: N): CellArg {
     const s = this.slots.get(name);
@@ -166,6 +174,16 @@ export class Args<N extends string = string> {
     const w = weights === undefined ? undefined : this.optionalData(weights);
     return { columns: cols, weights: w === undefined ? undefined : { name: weights!, vector: w } };
   }
+}
+
+/**
+ * Position of each parameter by name, for {@link Args.raw} on hot paths. O(params), once per function.
+ * @example positionsOf([P.newXs, P.knownYs]).known_ys // → 1
+ */
+export function positionsOf<const N extends string>(params: readonly ParamSpec<N>[]): Readonly<Record<N, number>> {
+  const out = {} as Record<N, number>;
+  params.forEach((p, i) => (out[p.name] = i));
+  return out;
 }
 
 /** Every number of a result must be finite: anything else is a numerical failure (#NUM!). O(cells). */

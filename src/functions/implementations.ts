@@ -21,7 +21,7 @@ import {
 } from '../core/index.js';
 import { MAX_MAGNITUDE, MIN_MAGNITUDE, nonBlank, type Vector } from '../adapter/cells.js';
 import type { CellArg, CellOut, InvokeContext } from './types.js';
-import { defineFunction, type Args } from './define.js';
+import { defineFunction, positionsOf, type Args } from './define.js';
 import { cacheGeneration, cachedCrossValidation, cachedFit, type FitEntry } from './engine.js';
 import { PARAMS as P } from './params.js';
 
@@ -96,25 +96,30 @@ function singleNumber(arg: CellArg): number {
  * previous call — a host reusing one value array per range — the model is reused without reading
  * them again (arguments are never mutated after they are passed; see SheetFunction.invoke).
  */
+const PREDICT_PARAMS = [P.newXs, ...FIT_PARAMS] as const;
+/** Parameter positions of PREDICT, for its per-call identity check (one lookup per argument). */
+const AT = positionsOf(PREDICT_PARAMS);
+
 export const PREDICT = defineFunction({
   name: 'PREDICT',
   description: 'Value of the monotone curve fitted to known_ys and known_xs at each new x (flat beyond the data).',
-  params: [P.newXs, ...FIT_PARAMS],
+  params: PREDICT_PARAMS,
   returnsArray: true,
   run(a) {
     let knotX: Float64Array;
     let knotY: Float64Array;
     const m = lastPredict;
-    const ys = a.cell('known_ys');
-    const xs = a.cell('known_xs');
-    const single = singleNumber(a.cell('new_xs'));
+    const raw = a.raw;
+    const ys = raw[AT.known_ys];
+    const xs = raw[AT.known_xs];
+    const single = singleNumber(raw[AT.new_xs]);
     if (
       m !== undefined &&
       ys === m.ys &&
       xs === m.xs &&
-      a.cell('knots') === m.knots &&
-      a.cell('direction') === m.direction &&
-      a.cell('weights') === m.weights &&
+      raw[AT.knots] === m.knots &&
+      raw[AT.direction] === m.direction &&
+      raw[AT.weights] === m.weights &&
       m.generation === cacheGeneration()
     ) {
       knotX = m.knotX;
