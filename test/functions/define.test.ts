@@ -5,7 +5,7 @@
  * shape of DEVELOPERS.md, "Conventions" (common practice: the argument named, then what it needs).
  */
 import { describe, expect, it } from 'vitest';
-import { defineFunction, signatureOf } from '../../src/functions/define.js';
+import { defineFunction, positionsOf, signatureOf } from '../../src/functions/define.js';
 import { PARAMS as P } from '../../src/functions/params.js';
 import { SHEET_FUNCTIONS } from '../../src/functions/registry.js';
 import { fail } from '../../src/core/index.js';
@@ -75,6 +75,14 @@ describe('defineFunction', () => {
   it('a reader of another kind than the parameter declares is a programming error', () => {
     const f = defineFunction({ name: 'WRONG', description: 'Reads a number as knots (a test function).', params: [P.count], returnsArray: false, run: (a) => Number(a.knots('count')) });
     expect(() => f.invoke([2])).toThrow('no knots parameter count');
+  });
+
+  it('positionsOf gives each parameter its position, so Args.raw is read by name', () => {
+    const params = [P.newXs, P.knownYs, P.knownXs, P.knots] as const;
+    const at = positionsOf(params);
+    expect(at).toEqual({ new_xs: 0, known_ys: 1, known_xs: 2, knots: 3 });
+    const f = defineFunction({ name: 'RAW', description: 'Returns its knots argument (a test function).', params, returnsArray: false, run: (a) => a.raw[at.knots] as number });
+    expect(f.invoke([1, col(1), col(1), 7])).toBe(7);
   });
 
   it('signatureOf writes optional parameters in brackets', () => {
