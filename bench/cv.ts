@@ -1,5 +1,5 @@
 /**
- * Cross-validation benchmark (issue 3): a scan over candidates 2…40 with 10 folds (seed 1, one
+ * Cross-validation benchmark: a scan over candidates 2…40 with 10 folds (seed 1, one
  * repeat) on the standard rising data, against the sum of the individual fits it performs — the
  * 390 calls fitMonotone(training x, training y, { knots: K }) on the same training sets, as a user
  * would make them one by one (training rows in row order, each call validating its input).

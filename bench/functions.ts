@@ -1,5 +1,5 @@
 /**
- * Worksheet-function benchmark (issue 4): 10,000 RATCHET.PREDICT calls over one 10,000-row data set
+ * Worksheet-function benchmark: 10,000 RATCHET.PREDICT calls over one 10,000-row data set
  * against the floor — one fit plus 10,000 interpolations with the core directly. Goal: ≤ 2×.
  *
  * Cases (each PREDICT run starts from an empty cache, so it includes its one fit):

@@ -1,6 +1,6 @@
 /**
  * Surface benchmark: the monotone surface on random data rising in both inputs — a 30 × 30 lattice
- * over 10⁴ rows and a 10 × 10 lattice over 10⁵ rows (issue 7 asks for under 1 s each), plus the
+ * over 10⁴ rows and a 10 × 10 lattice over 10⁵ rows (target: under 1 s each), plus the
  * classic grid of distinct levels and the cross-validation of a few (K1, K2) pairs. Each record
  * reports which solver finished and the optimality certificate of the answer.
  */

@@ -5,7 +5,7 @@
  */
 import { join } from 'node:path';
 import '../src/runner/ratchet.js';
-import { runDemo } from '../src/runner/demo.js';
+import { runDemo } from './samples/demo.js';
 
 const root = join(import.meta.dirname, '..');
 console.log('Ratchet demo: the sample workbooks evaluated headlessly (all scenarios and data are invented).\n');

@@ -1,12 +1,12 @@
 /**
  * `npm run samples`: writes the sample workbooks to samples/ and their expected values to
  * samples/expected.json. The data are invented and seeded; the expected values come from the
- * core directly (src/runner/samples.ts), never from the runner.
+ * core directly (scripts/samples/samples.ts), never from the runner.
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { buildSamples } from '../src/runner/samples.js';
-import { writeSampleWorkbook } from '../src/runner/sample-workbook.js';
+import { buildSamples } from './samples/samples.js';
+import { writeSampleWorkbook } from './samples/sample-workbook.js';
 
 const dir = join(import.meta.dirname, '..', 'samples');
 mkdirSync(dir, { recursive: true });

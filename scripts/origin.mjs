@@ -1,5 +1,5 @@
 // The add-in's origin: where dist/ is served from. Source files (manifest.xml, the help links in
-// src/functions/registry.ts and the @helpurl tags of src/functions/functions.ts) use the dev
+// src/functions/define.ts (HELP_BASE) and the @helpurl tags of src/functions/functions.ts) use the dev
 // origin https://localhost:3000; a build for a team sets its own origin once,
 //   npm run build -- --env origin=https://addins.example.org
 // or with the environment variable RATCHET_ORIGIN, and webpack.config.js then writes that origin

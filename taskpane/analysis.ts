@@ -130,11 +130,6 @@ export function candidateCount(view: FitView, cv: CvSettings): number {
   return defaultCandidates(view.points.map((p) => p.x)).length;
 }
 
-/** Number of usable rows for a quick "too few points" caution. */
-export function usedRows(view: FitView): number {
-  return view.points.length;
-}
-
 /** The knot table as RFC 4180 CSV with a header line: `knot_x,fitted_value`, full precision. */
 export function knotTableCsv(knots: readonly (readonly [number, number])[]): string {
   const lines = ['knot_x,fitted_value'];

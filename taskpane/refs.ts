@@ -118,11 +118,6 @@ export function intersects(a: Area, b: Area): boolean {
   return a.r1 <= b.r2 && b.r1 <= a.r2 && a.c1 <= b.c2 && b.c1 <= a.c2;
 }
 
-/** True when the areas are the same cells. */
-export function sameArea(a: Area, b: Area): boolean {
-  return intersects(a, b) && a.r1 === b.r1 && a.r2 === b.r2 && a.c1 === b.c1 && a.c2 === b.c2;
-}
-
 /**
  * A structured reference to a table column's data, e.g. `Trials[Temp]`. A column name with
  * anything but letters, digits and underscores gets the bracketed column-specifier form

@@ -9,7 +9,7 @@ import type { CellArg, CellValueIn } from '../src/functions/types.js';
 import { columnArg, run } from './analysis.js';
 import type { DataColumns } from './analysis.js';
 import type { DataRefs, DirectionCode } from './formulas.js';
-import { heatColour, heatmapFromGrid, hex, type HeatmapView } from './heat-scale.js';
+import { heatColour, heatmapFromGrid, hex, type HeatmapView } from '../src/view/heat-scale.js';
 
 /** The second input as the pane holds it. */
 export interface SecondInput {

@@ -14,13 +14,10 @@
  * - `'values'`: null and "" are blanks, 0 is the number 0 (runner, task pane, tests);
  * - `'types'` (Excel): as `'values'`, plus every 0 whose cell type is Empty is a blank.
  */
-import type { CellArg, CellValueIn } from '../functions/types.js';
+import type { CellArg, CellValueIn } from './cell-types.js';
 
 /** Excel's per-cell value type names (the subset the policy needs). */
 export type ValueTypeName = 'Empty' | 'String' | 'Double' | 'Integer' | 'Boolean' | 'Error' | 'Unknown' | 'RichValue' | string;
-
-/** Which blank policy a host uses. */
-export type BlankPolicy = 'values' | 'types';
 
 /**
  * True when `arg` holds a number 0 somewhere — the only value the `'types'` policy has to check.

@@ -1,9 +1,9 @@
 /**
  * Conversions between the values Excel's custom-function runtime passes and returns and the
- * host-neutral cell shapes of src/functions/types.ts. Pure: no host APIs (the Excel entry passes
+ * host-neutral cell shapes of src/adapter/cell-types.ts. Pure: no host APIs (the Excel entry passes
  * the constructors it needs).
  */
-import type { CellArg, CellResult, CellValueIn } from '../functions/types.js';
+import type { CellArg, CellResult, CellValueIn } from './cell-types.js';
 import { mapError, type MappedError } from './errors.js';
 
 /** One Excel cell value as the runtime delivers it: number, string, boolean, null, or an error object. */

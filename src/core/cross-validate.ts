@@ -11,8 +11,9 @@ import type { Curvature, Degree } from './shape-fit.js';
 import { checkFolds, holdoutAssignment, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
 import { fail } from './errors.js';
-import { quantileKnotsSorted } from './knots.js';
+import { MAX_KNOTS, quantileKnotsSorted } from './knots.js';
 import { scaleExponents, timesPowerOfTwo } from './scale.js';
+import { foldStandardError, holdoutStandardError, pooledR2, pooledRmse } from './scores.js';
 
 /** Where the knots of a candidate count K go inside each training set. */
 export type KnotPlacement = 'even' | 'quantile';
@@ -121,7 +122,7 @@ export function defaultCandidates(x: ArrayLike<number>): number[] {
   return out;
 }
 
-/** Validated candidate list: distinct entries, each 0 or a whole number 2 … 100000. */
+/** Validated candidate list: distinct entries, each 0 or a whole number 2 … MAX_KNOTS. */
 function checkCandidates(candidates: ArrayLike<number>, shape: ShapeSpec): number[] {
   if (candidates === null || typeof candidates !== 'object' || typeof candidates.length !== 'number') {
     fail('BAD_OPTION', 'candidates', 'needs a list of knot counts');
@@ -131,8 +132,8 @@ function checkCandidates(candidates: ArrayLike<number>, shape: ShapeSpec): numbe
   const seen = new Set<number>();
   for (let i = 0; i < candidates.length; i++) {
     const k = candidates[i];
-    if (typeof k !== 'number' || !Number.isInteger(k) || k < 0 || k === 1 || k > 100000) {
-      fail('BAD_OPTION', 'candidates', `needs knot counts that are 0 (classic fit) or whole numbers from 2 to 100000; entry ${i + 1} is ${String(k)}`);
+    if (typeof k !== 'number' || !Number.isInteger(k) || k < 0 || k === 1 || k > MAX_KNOTS) {
+      fail('BAD_OPTION', 'candidates', `needs knot counts that are 0 (classic fit) or whole numbers from 2 to ${MAX_KNOTS}; entry ${i + 1} is ${String(k)}`);
     }
     if (k === 0 && (shape.curvature !== 0 || shape.degree !== 1)) {
       fail('BAD_OPTION', 'candidates', `needs knot counts ≥ 2 with a curvature or degree option (the classic fit has no shape); entry ${i + 1} is 0`);
@@ -393,28 +394,9 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
 }
 
 function scoreOf(knots: number, a: Accumulator, sstTotal: number, fits: number, holdout: boolean): CandidateScore {
-  const cvRmse = Math.sqrt(a.sse / a.sw);
-  let cvSe: number;
-  if (!holdout) {
-    const k = a.foldRmse.length;
-    let mean = 0;
-    for (const r of a.foldRmse) mean += r;
-    mean /= k;
-    let ss = 0;
-    for (const r of a.foldRmse) ss += (r - mean) ** 2;
-    cvSe = Math.sqrt(ss / (k - 1)) / Math.sqrt(k);
-  } else {
-    // Delta method: se(MSE) from the spread of the weighted squared errors, se(RMSE) = se(MSE) / (2 RMSE).
-    const sq = a.sq!;
-    const w = a.sqw!;
-    const m = sq.length;
-    const mse = a.sse / a.sw;
-    let s = 0;
-    for (let i = 0; i < m; i++) s += (w[i]! * (sq[i]! - mse)) ** 2;
-    const seMse = m > 1 ? Math.sqrt((s * m) / (m - 1)) / a.sw : NaN;
-    cvSe = cvRmse > 0 ? seMse / (2 * cvRmse) : m > 1 ? 0 : NaN;
-  }
-  const cvR2 = sstTotal > 0 ? 1 - a.sse / sstTotal : a.sse === 0 ? 1 : 0;
+  const cvRmse = pooledRmse(a.sse, a.sw);
+  const cvSe = holdout ? holdoutStandardError(a.sq!, a.sqw!, a.sse, a.sw, cvRmse) : foldStandardError(a.foldRmse);
+  const cvR2 = pooledR2(a.sse, sstTotal);
   return { knots, cvRmse, cvSe, cvR2, cvMae: a.sae / a.sw, trainRmse: a.trainRmse / fits, foldRmse: a.foldRmse };
 }
 

@@ -4,8 +4,16 @@
 import { fail } from './errors.js';
 import { finiteArray } from './validate.js';
 
-/** Throws BAD_KNOTS unless `count` is a whole number ≥ 2 (and ≤ `max` when given). */
-export function checkKnotCount(count: number, name = 'knots', max = 100000): number {
+/** Largest knot count of a one-input fit (and of a cross-validation candidate). */
+export const MAX_KNOTS = 100000;
+
+/**
+ * The one check of a knot count: throws BAD_KNOTS unless `count` is a whole number from 2 to `max`
+ * (default {@link MAX_KNOTS}; surfaces pass their own limit). O(1). Public entry points call it once;
+ * functions behind them (`evenKnots`, `knotChecked`) trust the count.
+ * @example checkKnotCount(5) // → 5
+ */
+export function checkKnotCount(count: number, name = 'knots', max = MAX_KNOTS): number {
   if (typeof count !== 'number' || !Number.isFinite(count) || !Number.isInteger(count) || count < 2) {
     fail('BAD_KNOTS', name, `needs a whole number of knots ≥ 2; got ${String(count)}`);
   }
@@ -15,14 +23,14 @@ export function checkKnotCount(count: number, name = 'knots', max = 100000): num
 
 /**
  * `count` evenly spaced knots from `min` to `max` inclusive: t_j = min + j·(max − min)/(count − 1),
- * with the last set to `max` exactly. Cost O(count).
+ * with the last set to `max` exactly. Cost O(count). `count` must already be checked
+ * ({@link checkKnotCount}: a whole number ≥ 2); the callers are the fits, which check it once.
  *
- * @throws RatchetError BAD_KNOTS (count not a whole number ≥ 2, min ≥ max, or a range so narrow
- *   — a few ulps — that `count` distinct doubles do not fit in it).
+ * @throws RatchetError BAD_KNOTS (min ≥ max, or a range so narrow — a few ulps — that `count`
+ *   distinct doubles do not fit in it).
  * @example evenKnots(0, 3, 4) // → Float64Array [0, 1, 2, 3]
  */
 export function evenKnots(min: number, max: number, count: number): Float64Array {
-  checkKnotCount(count);
   if (!(min < max)) fail('BAD_KNOTS', 'x', `needs at least 2 distinct values to place knots; got range [${min}, ${max}]`);
   const t = new Float64Array(count);
   const step = (max - min) / (count - 1);

@@ -1,10 +1,10 @@
 /**
  * Cross-validated scores of (K1, K2) knot pairs for the monotone surface, with the folds, seeds and
- * rules of the one-predictor cross-validation (src/core/cross-validate.ts, folds.ts, suggest-knots.ts).
+ * rules of the one-predictor cross-validation (src/core/cross-validate.ts, folds.ts, scores.ts).
  */
 import { checkFolds, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
-import { suggestKnots, type SuggestionRule } from './suggest-knots.js';
+import { foldStandardError, pooledR2, pooledRmse, suggestKnots, type SuggestionRule } from './scores.js';
 import { fail } from './errors.js';
 import type { CandidateScore } from './cross-validate.js';
 import { checkSurfaceInputs, surfaceChecked, type AxisDirection } from './surface.js';
@@ -222,15 +222,12 @@ export function crossValidateSurface(
   const scores = pairs.map(([k1, k2], c): SurfaceCandidateScore => {
     const a = acc[c]!;
     const k = a.foldRmse.length;
-    const m = a.foldRmse.reduce((s, v) => s + v, 0) / k;
-    const ss = a.foldRmse.reduce((s, v) => s + (v - m) ** 2, 0);
-    const sstAll = repeats * sst;
     return {
       knots1: k1,
       knots2: k2,
-      cvRmse: up(Math.sqrt(a.sse / a.sw)),
-      cvSe: up(Math.sqrt(ss / (k - 1)) / Math.sqrt(k)),
-      cvR2: sstAll > 0 ? 1 - a.sse / sstAll : a.sse === 0 ? 1 : 0,
+      cvRmse: up(pooledRmse(a.sse, a.sw)),
+      cvSe: up(foldStandardError(a.foldRmse)),
+      cvR2: pooledR2(a.sse, repeats * sst),
       cvMae: up(a.sae / a.sw),
       trainRmse: up(a.train / k),
       foldRmse: a.foldRmse.map(up),

@@ -7,18 +7,10 @@ import { checkKnotCount, checkKnotPositions, evenKnots } from './knots.js';
 import { fitStatistics, type FitStatistics } from './statistics.js';
 import { fail } from './errors.js';
 import { addTieBreak, assembleLattice, evaluateLattice, locate } from './surface-lattice.js';
-import {
-  activeSetSparse,
-  admmLattice,
-  inducedOrder,
-  sparsePositiveDefinite,
-  stencilToSparse,
-  latticeEdges,
-  orderEnvelopeMean,
-  type AxisDirection,
-  type LatticeSolution,
-  type OptimalityCertificate,
-} from './surface-solve.js';
+import { inducedOrder, latticeEdges, orderEnvelopeMean, type AxisDirection, type LatticeSolution, type OptimalityCertificate } from './surface-solve.js';
+import { sparsePositiveDefinite, stencilToSparse } from './surface-sparse.js';
+import { activeSetSparse } from './surface-active-set.js';
+import { admmLattice } from './surface-admm.js';
 
 export type { AxisDirection, OptimalityCertificate } from './surface-solve.js';
 

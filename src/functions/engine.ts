@@ -1,294 +1,227 @@
 /**
- * Shared machinery of the worksheet functions: the solver hook, pairing of data rows, and the
- * cached model / cross-validation lookups that make many cells over the same data cost one fit.
+ * The one result cache of the worksheet functions and the cached computations built on it: a
+ * one-input fit, a one-input cross-validation, a surface fit and a surface cross-validation. Many
+ * cells over the same data cost one computation; `clearCaches()` empties everything.
  *
- * Cache keys are content hashes of the parsed inputs (bit patterns, blanks included) and the
- * options; entries keep their input vectors and are compared with the request on every hit, so a
- * hit always returns the result of exactly these inputs.
+ * Keys are content hashes of the parsed inputs (bit patterns, blanks included) and the options;
+ * every entry keeps the inputs it was computed from, compared part by part on every hit, so a hit
+ * always returns the result of exactly these inputs (a hash collision can only cost a
+ * recomputation). Core errors are renamed to worksheet names by the machinery (define.ts).
  */
 import {
-  RatchetError,
   crossValidate,
+  crossValidateSurface,
   fitMonotone,
-  isRatchetError,
+  fitSurface,
+  type AxisDirection,
   type CrossValidationOptions,
   type CrossValidationResult,
   type DirectionOption,
-  type ModelOptions,
   type MonotoneModel,
+  type SurfaceCrossValidationOptions,
+  type SurfaceCrossValidationResult,
+  type SurfaceModel,
 } from '../core/index.js';
 import { LruCache } from '../adapter/cache.js';
-import { sameBits } from '../adapter/hash.js';
-import { hashFloat64 } from '../adapter/hash.js';
-import type { Vector } from '../adapter/cells.js';
-import { fail } from '../core/index.js';
-
-/** The solvers the functions call; replaceable so tests can count calls ({@link setSolvers}). */
-export interface Solvers {
-  fit(x: Float64Array, y: Float64Array, options: ModelOptions): MonotoneModel;
-  crossValidate(x: Float64Array, y: Float64Array, options: CrossValidationOptions): CrossValidationResult;
-}
-
-const defaultSolvers: Solvers = {
-  fit: (x, y, o) => fitMonotone(x, y, o),
-  crossValidate: (x, y, o) => crossValidate(x, y, o),
-};
-
-let solvers: Solvers = defaultSolvers;
-
-/** Replaces some solvers (tests: counting wrappers). Returns the previous set. Clears the caches. */
-export function setSolvers(replacement: Partial<Solvers>): Solvers {
-  const previous = solvers;
-  solvers = { ...solvers, ...replacement };
-  clearCaches();
-  return previous;
-}
-
-/** Restores the core solvers and clears the caches. */
-export function resetSolvers(): void {
-  solvers = defaultSolvers;
-  clearCaches();
-}
+import { hashFloat64, sameBits } from '../adapter/hash.js';
+import { Vector, sameVector } from '../adapter/cells.js';
+import { pairData, type DataArgs } from './define.js';
+import type { InvokeContext } from './types.js';
 
 /** Default bounds of the result cache: entries and bytes. */
 export const CACHE_LIMITS = { entries: 512, bytes: 64 * 1024 * 1024 };
 
-const cache = new LruCache<FitEntry | CvEntry>(CACHE_LIMITS.entries, CACHE_LIMITS.bytes);
+/**
+ * The result cache of every worksheet function (LRU by entries and bytes). Exported so that tests
+ * and the benchmark can read its counters (`stats`) and bounds (`resize`); product code uses
+ * {@link memo} and {@link clearCaches} only.
+ */
+export const resultCache = new LruCache<Entry>(CACHE_LIMITS.entries, CACHE_LIMITS.bytes);
 
-/** Cache counters (hits, misses, evictions, entries, bytes). */
-export function cacheStats(): Readonly<typeof cache.stats> {
-  return cache.stats;
+/** One input or option of a cached computation: a parsed argument, an array of numbers, a number or text. */
+type Part = Vector | Float64Array | number | string | undefined;
+
+interface Entry {
+  readonly kind: string;
+  readonly parts: readonly Part[];
+  readonly value: unknown;
 }
 
-/** The previous fit request and its entry (the fast path of {@link cachedFit}). */
-let lastFit: (FitEntry & { generation: number }) | undefined;
-/** Bumped whenever the cache is cleared or resized, which invalidates {@link lastFit}. */
+/** The previous request and its value (the fast path when a host passes the same objects again). */
+let last: (Entry & { generation: number }) | undefined;
+/** Bumped whenever the cache is cleared, which invalidates {@link last} and callers' memos. */
 let generation = 0;
 
-/** Changes whenever the caches are cleared or reconfigured (memos of earlier calls are then void). */
+/** Changes whenever the cache is cleared (memos of earlier calls are then void). */
 export function cacheGeneration(): number {
   return generation;
 }
 
-/** Empties the result cache. */
+/** Empties the one result cache (and every memo that depends on it). O(entries). */
 export function clearCaches(): void {
-  cache.clear();
-  lastFit = undefined;
+  resultCache.clear();
+  last = undefined;
   generation++;
 }
 
-/** Changes the cache bounds. */
-export function configureCache(entries: number, bytes: number): void {
-  cache.resize(entries, bytes);
-  lastFit = undefined;
-  generation++;
+function partKey(p: Part): string {
+  if (p instanceof Vector) return p.hash;
+  if (p instanceof Float64Array) return `p${p.length}:${hashFloat64(p)}`;
+  return p === undefined ? '-' : String(p);
 }
 
-/** Paired data rows: the rows where y, x and (when given) the weight are all present. */
-export interface Paired {
-  readonly x: Float64Array;
-  readonly y: Float64Array;
-  readonly w: Float64Array | undefined;
-  /** For each used row, its position in the range (reading order). */
-  readonly used: Int32Array;
-  /** Rows in the ranges. */
-  readonly rows: number;
+function samePart(a: Part, b: Part): boolean {
+  if (a === b) return true;
+  if (a instanceof Vector || b instanceof Vector) return a instanceof Vector && b instanceof Vector && sameVector(a, b);
+  if (a instanceof Float64Array && b instanceof Float64Array) return sameBits(a, b);
+  return false;
 }
 
-/** The data vectors of a fitting call, as parsed from the cells. */
-export interface DataArgs {
-  readonly y: Vector;
-  readonly x: Vector;
-  readonly w: Vector | undefined;
+function sameParts(a: readonly Part[], b: readonly Part[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (!samePart(a[i], b[i])) return false;
+  return true;
+}
+
+/** Same objects (or equal scalars and equal number arrays): the fast path, no hashing. */
+function sameObjects(a: readonly Part[], b: readonly Part[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i];
+    const y = b[i];
+    if (x === y) continue;
+    if (x instanceof Float64Array && y instanceof Float64Array && sameBits(x, y)) continue;
+    return false;
+  }
+  return true;
 }
 
 /**
- * Pairs rows of y, x and weights; a row with any blank is left out. O(n).
- * @throws RatchetError LENGTH_MISMATCH (different cell counts), TOO_FEW_POINTS (< 2 usable rows).
+ * The value of `compute()` for these inputs: from the cache, or computed once and stored. Cost on a
+ * hit O(1) when the parts are the previous call's objects, else O(parts' cells) to hash (once per
+ * argument object) and verify; on a miss the computation.
+ *
+ * @param kind names the computation ("fit", "cv", …); values of different kinds never mix.
+ * @param parts every input and option the result depends on.
+ * @param compute the computation; returns the value and its size in bytes (for the byte bound).
+ * @throws whatever `compute` throws (nothing is stored then).
  */
-export function pairRows(d: DataArgs, names = { y: 'known_ys', x: 'known_xs', w: 'weights' }): Paired {
-  const n = d.y.values.length;
-  if (d.x.values.length !== n) fail('LENGTH_MISMATCH', names.x, `needs one cell per cell of ${names.y} (${n}); got ${d.x.values.length}`);
-  if (d.w && d.w.values.length !== n) fail('LENGTH_MISMATCH', names.w, `needs one cell per cell of ${names.y} (${n}); got ${d.w.values.length}`);
-  const yv = d.y.values;
-  const xv = d.x.values;
-  const wv = d.w?.values;
-  if (wv !== undefined) {
-    for (let i = 0; i < n; i++) {
-      if (wv[i]! < 0) fail('BAD_WEIGHT', names.w, `needs numbers ≥ 0; cell ${i + 1} is ${wv[i]}`);
-    }
+export function memo<T>(kind: string, parts: readonly Part[], compute: () => { value: T; bytes: number }): T {
+  const l = last;
+  if (l !== undefined && l.kind === kind && l.generation === generation && sameObjects(l.parts, parts)) {
+    resultCache.stats.hits++;
+    return l.value as T;
   }
-  let m = 0;
-  const used = new Int32Array(n);
-  for (let i = 0; i < n; i++) {
-    const a = yv[i]!;
-    const b = xv[i]!;
-    if (a !== a || b !== b) continue;
-    if (wv !== undefined) {
-      const c = wv[i]!;
-      if (c !== c) continue;
-    }
-    used[m++] = i;
+  const key = `${kind}|${parts.map(partKey).join('|')}`;
+  const hit = resultCache.get(key);
+  if (hit !== undefined && hit.kind === kind && sameParts(hit.parts, parts)) {
+    last = { kind, parts, value: hit.value, generation };
+    return hit.value as T;
   }
-  if (m < 2) {
-    fail('TOO_FEW_POINTS', names.y, `needs at least 2 rows where ${wv ? `${names.y}, ${names.x} and ${names.w} all` : `${names.y} and ${names.x} both`} hold numbers; got ${m}`);
-  }
-  const x = new Float64Array(m);
-  const y = new Float64Array(m);
-  const w = wv ? new Float64Array(m) : undefined;
-  for (let k = 0; k < m; k++) {
-    const i = used[k]!;
-    x[k] = xv[i]!;
-    y[k] = yv[i]!;
-    if (w) w[k] = wv![i]!;
-  }
-  return { x, y, w, used: used.slice(0, m), rows: n };
+  const { value, bytes } = compute();
+  const bytesOfParts = parts.reduce((s: number, p) => s + (p instanceof Vector ? p.values.byteLength : p instanceof Float64Array ? p.byteLength : 8), 256);
+  resultCache.set(key, { kind, parts, value }, bytes + bytesOfParts);
+  last = { kind, parts, value, generation };
+  return value;
 }
 
-/** A cached fit: the model, the used rows, and the inputs it was computed from. */
+function dataParts(d: DataArgs): Part[] {
+  return [...d.columns.map((c) => c.vector), d.weights?.vector];
+}
+
+/** A cached one-input fit: the model, the used rows and the number of cells. */
 export interface FitEntry {
-  readonly kind: 'fit';
-  readonly data: DataArgs;
-  readonly knots: number | Float64Array;
-  readonly direction: DirectionOption;
   readonly model: MonotoneModel;
   readonly used: Int32Array;
   readonly rows: number;
 }
 
-/** A cached cross-validation. */
-export interface CvEntry {
-  readonly kind: 'cv';
-  readonly data: DataArgs;
-  readonly candidates: Float64Array | undefined;
-  readonly options: string;
-  readonly result: CrossValidationResult;
-  readonly used: number;
-}
-
-function sameVector(a: Vector | undefined, b: Vector | undefined): boolean {
-  if (a === b) return true;
-  if (a === undefined || b === undefined) return false;
-  return a.rows === b.rows && a.cols === b.cols && sameBits(a.values, b.values);
-}
-
-function sameData(a: DataArgs, b: DataArgs): boolean {
-  return sameVector(a.y, b.y) && sameVector(a.x, b.x) && sameVector(a.w, b.w);
-}
-
-function knotsKey(k: number | Float64Array): string {
-  return typeof k === 'number' ? String(k) : `p${k.length}:${hashFloat64(k)}`;
-}
-
-function sameKnots(a: number | Float64Array, b: number | Float64Array): boolean {
-  if (typeof a === 'number' || typeof b === 'number') return a === b;
-  return sameBits(a, b);
-}
-
-function dataKey(d: DataArgs): string {
-  return `${d.y.hash}|${d.x.hash}|${d.w?.hash ?? '-'}`;
-}
-
-function vectorBytes(d: DataArgs): number {
-  return d.y.values.byteLength + d.x.values.byteLength + (d.w?.values.byteLength ?? 0) + 256;
-}
-
-/** Renames a core error's argument (e.g. "x" → "known_xs") keeping code and requirement text. */
-export function renamed(e: unknown, names: Readonly<Record<string, string>>): unknown {
-  if (!isRatchetError(e)) return e;
-  const to = names[e.argument];
-  if (to === undefined) return e;
-  const requirement = e.message.startsWith(`${e.argument}: `) ? e.message.slice(e.argument.length + 2) : e.message;
-  return new RatchetError(e.code, to, requirement);
-}
-
-/** Core argument names → worksheet parameter names for the fitting functions. */
-export const FIT_NAMES: Readonly<Record<string, string>> = { x: 'known_xs', y: 'known_ys', weights: 'weights', knots: 'knots' };
-
 /**
- * The fit of (y, x, w) with these options: from the cache, or computed once with
- * {@link Solvers.fit} and stored. Cost: O(1) + O(n) verification on a hit (nothing when the host
- * passed the same argument objects), O(n) pairing plus the fit on a miss.
+ * The monotone fit of the data (known_ys, known_xs, optional weights) with these options, cached.
+ * @param data the parsed data arguments, known_ys first, then known_xs.
+ * @param knots 0 (classic fit), a knot count or knot positions, as the adapter parsed them.
+ * @param direction 'up', 'down' or 'auto'.
+ * @throws RatchetError from the pairing and the core (core argument names).
  */
 export function cachedFit(data: DataArgs, knots: number | Float64Array, direction: DirectionOption): FitEntry {
-  // Fast path: the same argument objects as the previous call (no key to build or hash).
-  const last = lastFit;
-  if (
-    last !== undefined &&
-    last.data.y === data.y &&
-    last.data.x === data.x &&
-    last.data.w === data.w &&
-    last.direction === direction &&
-    sameKnots(last.knots, knots) &&
-    last.generation === generation
-  ) {
-    cache.stats.hits++;
-    return last;
-  }
-  const key = `fit|${dataKey(data)}|${knotsKey(knots)}|${direction}`;
-  const hit = cache.get(key);
-  if (hit !== undefined && hit.kind === 'fit' && sameData(hit.data, data) && sameKnots(hit.knots, knots) && hit.direction === direction) {
-    lastFit = { ...hit, data, generation };
-    return hit;
-  }
-  const p = pairRows(data);
-  let model: MonotoneModel;
-  try {
-    model = solvers.fit(p.x, p.y, { knots, direction, weights: p.w });
-  } catch (e) {
-    throw renamed(e, FIT_NAMES);
-  }
-  const entry: FitEntry = { kind: 'fit', data, knots, direction, model, used: p.used, rows: p.rows };
-  const bytes = vectorBytes(data) + model.fitted.byteLength + model.knotX.byteLength * 2 + p.used.byteLength;
-  cache.set(key, entry, bytes);
-  lastFit = { ...entry, generation };
-  return entry;
+  return memo('fit', [...dataParts(data), knots, direction], () => {
+    const p = pairData(data);
+    const model = fitMonotone(p.columns[1]!, p.columns[0]!, { knots, direction, weights: p.weights });
+    const value: FitEntry = { model, used: p.used, rows: p.rows };
+    return { value, bytes: model.fitted.byteLength + model.knotX.byteLength * 2 + p.used.byteLength };
+  });
 }
 
-/** Options of {@link cachedCrossValidation} (numbers as the user gave them; the core validates). */
+/** Options of a cross-validation as the user gave them (undefined: the core's default). */
 export interface CvRequest {
-  candidates: Float64Array | undefined;
-  folds: number | undefined;
-  repeats: number | undefined;
-  seed: number | undefined;
-  direction: DirectionOption;
-  signal?: AbortSignal | undefined;
-  onProgress?: ((fraction: number) => void) | undefined;
+  readonly candidates: Float64Array | undefined;
+  readonly folds: number | undefined;
+  readonly repeats: number | undefined;
+  readonly seed: number | undefined;
 }
 
-/** Core argument names → worksheet parameter names for CV and BESTK. */
-export const CV_NAMES: Readonly<Record<string, string>> = { ...FIT_NAMES, candidates: 'candidates', folds: 'folds', repeats: 'repeats', seed: 'seed' };
+/** The context's signal and progress callback, as core options. */
+function progressOptions(ctx: InvokeContext | undefined): { signal?: AbortSignal; onProgress?: (fraction: number) => void } {
+  const o: { signal?: AbortSignal; onProgress?: (fraction: number) => void } = {};
+  if (ctx?.signal !== undefined) o.signal = ctx.signal;
+  if (ctx?.onProgress !== undefined) o.onProgress = ctx.onProgress;
+  return o;
+}
 
-/** Cross-validation of (y, x, w) with these options, cached like {@link cachedFit}. */
-export function cachedCrossValidation(data: DataArgs, req: CvRequest): CrossValidationResult {
-  const options = `${req.folds ?? '-'}|${req.repeats ?? '-'}|${req.seed ?? '-'}|${req.direction}`;
-  const key = `cv|${dataKey(data)}|${req.candidates ? knotsKey(req.candidates) : '-'}|${options}`;
-  const hit = cache.get(key);
-  if (
-    hit !== undefined &&
-    hit.kind === 'cv' &&
-    hit.options === options &&
-    sameData(hit.data, data) &&
-    (hit.candidates === req.candidates || (hit.candidates !== undefined && req.candidates !== undefined && sameBits(hit.candidates, req.candidates)))
-  ) {
-    return hit.result;
-  }
-  const p = pairRows(data);
-  let result: CrossValidationResult;
-  try {
-    const o: CrossValidationOptions = { direction: req.direction };
+/** The numeric options that were given, as core options. */
+function givenOptions(req: CvRequest): { folds?: number; repeats?: number; seed?: number } {
+  const o: { folds?: number; repeats?: number; seed?: number } = {};
+  if (req.folds !== undefined) o.folds = req.folds;
+  if (req.repeats !== undefined) o.repeats = req.repeats;
+  if (req.seed !== undefined) o.seed = req.seed;
+  return o;
+}
+
+/** Cross-validation of one-input data (known_ys, known_xs, weights), cached like {@link cachedFit}. */
+export function cachedCrossValidation(data: DataArgs, req: CvRequest, direction: DirectionOption, ctx?: InvokeContext): CrossValidationResult {
+  return memo('cv', [...dataParts(data), req.candidates, req.folds, req.repeats, req.seed, direction], () => {
+    const p = pairData(data);
+    const o: CrossValidationOptions = { direction, ...givenOptions(req), ...progressOptions(ctx) };
     if (req.candidates !== undefined) o.candidates = req.candidates;
-    if (req.folds !== undefined) o.folds = req.folds;
-    if (req.repeats !== undefined) o.repeats = req.repeats;
-    if (req.seed !== undefined) o.seed = req.seed;
-    if (p.w !== undefined) o.weights = p.w;
-    if (req.signal !== undefined) o.signal = req.signal;
-    if (req.onProgress !== undefined) o.onProgress = req.onProgress;
-    result = solvers.crossValidate(p.x, p.y, o);
-  } catch (e) {
-    throw renamed(e, CV_NAMES);
-  }
-  const entry: CvEntry = { kind: 'cv', data, candidates: req.candidates, options, result, used: p.used.length };
-  cache.set(key, entry, vectorBytes(data) + result.scores.length * (64 + 8 * (result.folds * result.repeats)));
-  return result;
+    if (p.weights !== undefined) o.weights = p.weights;
+    const result = crossValidate(p.columns[1]!, p.columns[0]!, o);
+    return { value: result, bytes: result.scores.length * (64 + 8 * (result.folds * result.repeats)) };
+  });
+}
+
+/** Knots and directions of a surface, as parsed. */
+export interface SurfaceRequest {
+  readonly knots1: number | Float64Array;
+  readonly knots2: number | Float64Array;
+  readonly direction1: AxisDirection;
+  readonly direction2: AxisDirection;
+}
+
+/** The surface fit of (known_ys, known_x1s, known_x2s, weights), cached. */
+export function cachedSurface(data: DataArgs, req: SurfaceRequest): SurfaceModel {
+  return memo('surface', [...dataParts(data), req.knots1, req.knots2, req.direction1, req.direction2], () => {
+    const p = pairData(data);
+    const model = fitSurface(p.columns[1]!, p.columns[2]!, p.columns[0]!, { ...req, weights: p.weights });
+    return { value: model, bytes: model.fitted.byteLength * 2 + model.values.byteLength * 2 };
+  });
+}
+
+/** Candidate knot counts of a surface cross-validation, as parsed. */
+export interface SurfaceCvRequest extends CvRequest {
+  readonly candidates2: Float64Array | undefined;
+  readonly direction1: AxisDirection;
+  readonly direction2: AxisDirection;
+}
+
+/** Cross-validation of surface knot pairs, cached. */
+export function cachedSurfaceCrossValidation(data: DataArgs, req: SurfaceCvRequest, ctx?: InvokeContext): SurfaceCrossValidationResult {
+  return memo('cvgrid', [...dataParts(data), req.candidates, req.candidates2, req.folds, req.repeats, req.seed, req.direction1, req.direction2], () => {
+    const p = pairData(data);
+    const o: SurfaceCrossValidationOptions = { direction1: req.direction1, direction2: req.direction2, ...givenOptions(req), ...progressOptions(ctx) };
+    if (req.candidates !== undefined) o.candidates1 = req.candidates;
+    if (req.candidates2 !== undefined) o.candidates2 = req.candidates2;
+    if (p.weights !== undefined) o.weights = p.weights;
+    const result = crossValidateSurface(p.columns[1]!, p.columns[2]!, p.columns[0]!, o);
+    return { value: result, bytes: result.scores.length * 128 };
+  });
 }

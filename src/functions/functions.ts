@@ -48,17 +48,11 @@ function createWorker(): WorkerLike {
 
 let client: WorkerClient | undefined;
 
-/** The worker client (created on first use). */
+/** The worker client (created on first use; without a Worker global it runs in this thread). */
 export function workerClient(): WorkerClient {
   // If a worker cannot start or load (a host's content policy), the call runs in this thread instead.
   client ??= new WorkerClient(createWorker, () => inProcessWorker());
   return client;
-}
-
-/** Replaces the worker client (tests). */
-export function setWorkerClient(c: WorkerClient | undefined): void {
-  client?.dispose();
-  client = c;
 }
 
 /**

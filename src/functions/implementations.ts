@@ -1,8 +1,8 @@
 /**
- * The nine RATCHET worksheet functions, host-neutral: each takes the cell arguments in the order
- * users type them and returns a cell result, or throws (a RatchetError for argument problems, an
- * InputCellError for an error cell in a data range). Hosts map what is thrown with
- * src/adapter/errors.ts `mapError` — the Excel entry, the worker and the headless runner alike.
+ * The one-input RATCHET worksheet functions, host-neutral: each is one spec (name, description,
+ * named parameters from src/functions/params.ts) and one implementation that reads its arguments
+ * by name (src/functions/define.ts). Hosts call them through the registry and map what they throw
+ * with src/adapter/errors.ts `mapError` — the Excel entry, the worker and the headless runner alike.
  *
  * Argument order follows Excel's trend functions: known y's, then known x's. Optional arguments
  * may be omitted (undefined) or null. Cost per call: O(cells) to read the arguments (nothing for
@@ -15,52 +15,25 @@ import {
   checkKnotTable,
   quantileKnots,
   suggestKnots,
+  type CrossValidationResult,
   type DirectionOption,
   type TieRule,
-  type CrossValidationResult,
 } from '../core/index.js';
-import { MAX_MAGNITUDE, MIN_MAGNITUDE, nonBlank, readChoice, readKnots, readScalar, readVector, toGrid, type Vector } from '../adapter/cells.js';
-import type { CellArg, CellOut, CellResult, InvokeContext } from './types.js';
-import { cacheGeneration, cachedCrossValidation, cachedFit, renamed, type DataArgs, type FitEntry } from './engine.js';
+import { MAX_MAGNITUDE, MIN_MAGNITUDE, nonBlank, type Vector } from '../adapter/cells.js';
+import type { CellArg, CellOut, InvokeContext } from './types.js';
+import { defineFunction, positionsOf, type Args } from './define.js';
+import { cacheGeneration, cachedCrossValidation, cachedFit, type FitEntry } from './engine.js';
+import { PARAMS as P } from './params.js';
 
+/** Parameters of the fitting functions after their leading ones: knots, direction, weights. */
+const FIT_PARAMS = [P.knownYs, P.knownXs, P.knots, P.direction, P.weights] as const;
+type FitName = (typeof FIT_PARAMS)[number]['name'];
 
-const DIRECTIONS: ReadonlyMap<number, DirectionOption> = new Map<number, DirectionOption>([
-  [1, 'up'],
-  [-1, 'down'],
-  [0, 'auto'],
-]);
-const TIES: ReadonlyMap<number, TieRule> = new Map<number, TieRule>([
-  [-1, 'lowest'],
-  [0, 'middle'],
-  [1, 'highest'],
-]);
-const RULES: ReadonlyMap<number, 'one-se' | 'min'> = new Map<number, 'one-se' | 'min'>([
-  [1, 'one-se'],
-  [0, 'min'],
-]);
-
-function direction(arg: CellArg): DirectionOption {
-  return readChoice('direction', arg, DIRECTIONS, 'up', '1 (rising), -1 (falling) or 0 (pick from the data)');
-}
-
-/** Weights: omitted, null, or a range that is entirely blank count as "no weights". */
-function weights(arg: CellArg): Vector | undefined {
-  if (arg === undefined || arg === null || arg === '') return undefined;
-  return readVector('weights', arg, 'line');
-}
-
-function dataArgs(ys: CellArg, xs: CellArg, ws: CellArg): DataArgs {
-  const y = readVector('known_ys', ys, 'line');
-  const x = readVector('known_xs', xs, 'line');
-  const w = weights(ws);
-  return { y, x, w };
-}
-
-function fitOf(args: readonly CellArg[], offset: number): { data: DataArgs; entry: FitEntry } {
-  const data = dataArgs(args[offset], args[offset + 1], args[offset + 4]);
-  const knots = readKnots('knots', args[offset + 2]);
-  const dir = direction(args[offset + 3]);
-  return { data, entry: cachedFit(data, knots, dir) };
+/** The cached fit of known_ys, known_xs, knots, direction and weights. */
+function fitOf(a: Args<FitName>): { ys: Vector; entry: FitEntry } {
+  const data = a.rows(['known_ys', 'known_xs'], 'weights');
+  const knots = a.knots('knots');
+  return { ys: data.columns[0]!.vector, entry: cachedFit(data, knots, a.choice<DirectionOption>('direction')) };
 }
 
 /** A result grid of `v`'s shape filled by `cell(i)` in reading order. */
@@ -75,23 +48,20 @@ function shaped(v: Vector, cell: (i: number) => CellOut): CellOut[][] {
   return out;
 }
 
-/** Every number of a result must be finite: anything else would be a numerical failure (#NUM!). */
-function finite(name: string, result: CellResult): CellResult {
-  const bad = (v: CellOut): boolean => typeof v === 'number' && !Number.isFinite(v);
-  if (Array.isArray(result)) {
-    for (const row of result) for (const v of row) if (bad(v)) fail('NUMERICAL', name, 'produced a non-finite number (a numerical failure)');
-  } else if (bad(result)) fail('NUMERICAL', name, 'produced a non-finite number (a numerical failure)');
-  return result;
-}
-
 /** RATCHET.FIT(known_ys, known_xs, [knots], [direction], [weights]). */
-export function FIT(args: readonly CellArg[]): CellResult {
-  const { data, entry } = fitOf(args, 0);
-  const fitted = entry.model.fitted;
-  const at = new Int32Array(data.y.values.length).fill(-1);
-  for (let k = 0; k < entry.used.length; k++) at[entry.used[k]!] = k;
-  return finite('FIT', shaped(data.y, (i) => (at[i]! >= 0 ? fitted[at[i]!]! : '')));
-}
+export const FIT = defineFunction({
+  name: 'FIT',
+  description: 'Monotone fitted value for every row of known_ys, same shape; rows left out (blank x, y or weight) stay empty.',
+  params: FIT_PARAMS,
+  returnsArray: true,
+  run(a) {
+    const { ys, entry } = fitOf(a);
+    const fitted = entry.model.fitted;
+    const at = new Int32Array(ys.values.length).fill(-1);
+    for (let k = 0; k < entry.used.length; k++) at[entry.used[k]!] = k;
+    return shaped(ys, (i) => (at[i]! >= 0 ? fitted[at[i]!]! : ''));
+  },
+});
 
 /** The model behind the previous PREDICT call and the argument objects it came from. */
 interface PredictMemo {
@@ -126,52 +96,68 @@ function singleNumber(arg: CellArg): number {
  * previous call — a host reusing one value array per range — the model is reused without reading
  * them again (arguments are never mutated after they are passed; see SheetFunction.invoke).
  */
-export function PREDICT(args: readonly CellArg[]): CellResult {
-  let knotX: Float64Array;
-  let knotY: Float64Array;
-  const m = lastPredict;
-  const single = singleNumber(args[0]);
-  if (
-    m !== undefined &&
-    args[1] === m.ys &&
-    args[2] === m.xs &&
-    args[3] === m.knots &&
-    args[4] === m.direction &&
-    args[5] === m.weights &&
-    m.generation === cacheGeneration()
-  ) {
-    knotX = m.knotX;
-    knotY = m.knotY;
-  } else {
-    // Read new_xs first so its errors come first, as on the general path.
-    if (single !== single) readVector('new_xs', args[0], 'any');
-    const { entry } = fitOf(args, 1);
-    knotX = entry.model.knotX;
-    knotY = entry.model.knotY;
-    lastPredict =
-      Array.isArray(args[1]) && Array.isArray(args[2])
-        ? { ys: args[1], xs: args[2], knots: args[3], direction: args[4], weights: args[5], generation: cacheGeneration(), knotX, knotY }
-        : undefined;
-  }
-  if (single === single) return [[interpolateAt(knotX, knotY, single)]];
-  const nx = readVector('new_xs', args[0], 'any');
-  const v = nx.values;
-  return finite(
-    'PREDICT',
-    shaped(nx, (i) => {
+const PREDICT_PARAMS = [P.newXs, ...FIT_PARAMS] as const;
+/** Parameter positions of PREDICT, for its per-call identity check (one lookup per argument). */
+const AT = positionsOf(PREDICT_PARAMS);
+
+export const PREDICT = defineFunction({
+  name: 'PREDICT',
+  description: 'Value of the monotone curve fitted to known_ys and known_xs at each new x (flat beyond the data).',
+  params: PREDICT_PARAMS,
+  returnsArray: true,
+  run(a) {
+    let knotX: Float64Array;
+    let knotY: Float64Array;
+    const m = lastPredict;
+    const raw = a.raw;
+    const ys = raw[AT.known_ys];
+    const xs = raw[AT.known_xs];
+    const single = singleNumber(raw[AT.new_xs]);
+    if (
+      m !== undefined &&
+      ys === m.ys &&
+      xs === m.xs &&
+      raw[AT.knots] === m.knots &&
+      raw[AT.direction] === m.direction &&
+      raw[AT.weights] === m.weights &&
+      m.generation === cacheGeneration()
+    ) {
+      knotX = m.knotX;
+      knotY = m.knotY;
+    } else {
+      // Read new_xs first so its errors come first, as on the general path.
+      if (single !== single) a.cells('new_xs');
+      const { entry } = fitOf(a);
+      knotX = entry.model.knotX;
+      knotY = entry.model.knotY;
+      lastPredict =
+        Array.isArray(ys) && Array.isArray(xs)
+          ? { ys, xs, knots: a.cell('knots'), direction: a.cell('direction'), weights: a.cell('weights'), generation: cacheGeneration(), knotX, knotY }
+          : undefined;
+    }
+    if (single === single) return [[interpolateAt(knotX, knotY, single)]];
+    const nx = a.cells('new_xs');
+    const v = nx.values;
+    return shaped(nx, (i) => {
       const x = v[i]!;
       return x === x ? interpolateAt(knotX, knotY, x) : '';
-    }),
-  );
-}
+    });
+  },
+});
 
 /** RATCHET.KNOTS(known_ys, known_xs, [knots], [direction], [weights]). */
-export function KNOTS(args: readonly CellArg[]): CellResult {
-  const { knotX, knotY } = fitOf(args, 0).entry.model;
-  const out: CellOut[][] = new Array(knotX.length);
-  for (let j = 0; j < knotX.length; j++) out[j] = [knotX[j]!, knotY[j]!];
-  return finite('KNOTS', out);
-}
+export const KNOTS = defineFunction({
+  name: 'KNOTS',
+  description: 'The fitted model as a table: one row per knot, two columns (knot x, fitted value).',
+  params: FIT_PARAMS,
+  returnsArray: true,
+  run(a) {
+    const { knotX, knotY } = fitOf(a).entry.model;
+    const out: CellOut[][] = new Array(knotX.length);
+    for (let j = 0; j < knotX.length; j++) out[j] = [knotX[j]!, knotY[j]!];
+    return out;
+  },
+});
 
 const tables = new WeakMap<Vector, [Float64Array, Float64Array]>();
 
@@ -179,8 +165,7 @@ const tables = new WeakMap<Vector, [Float64Array, Float64Array]>();
  * Reads a two-column knot table (position, value); rows that are entirely blank are skipped
  * (so a range larger than a spilled KNOTS table works), a half-blank row is an error.
  */
-function knotTable(arg: CellArg, minimum: number): [Float64Array, Float64Array] {
-  const v = readVector('knot_table', arg, 'any');
+function knotTable(v: Vector, minimum: number): [Float64Array, Float64Array] {
   const hit = tables.get(v);
   if (hit) return hit;
   if (v.cols !== 2) fail('BAD_KNOTS', 'knot_table', `needs exactly two columns (knot x, value); got ${v.cols}`);
@@ -201,106 +186,123 @@ function knotTable(arg: CellArg, minimum: number): [Float64Array, Float64Array] 
 }
 
 /** RATCHET.EVAL(new_xs, knot_table). */
-export function EVAL(args: readonly CellArg[]): CellResult {
-  const nx = readVector('new_xs', args[0], 'any');
-  const [tx, ty] = knotTable(args[1], 1);
-  const v = nx.values;
-  return finite(
-    'EVAL',
-    shaped(nx, (i) => {
+export const EVAL = defineFunction({
+  name: 'EVAL',
+  description: 'Reads a knot table at each new x: straight lines between knots, flat beyond the ends. No refit.',
+  params: [P.newXs, P.knotTable],
+  returnsArray: true,
+  run(a) {
+    const nx = a.cells('new_xs');
+    const [tx, ty] = knotTable(a.cells('knot_table'), 1);
+    const v = nx.values;
+    return shaped(nx, (i) => {
       const x = v[i]!;
       return x === x ? interpolateAt(tx, ty, x) : '';
-    }),
-  );
-}
+    });
+  },
+});
 
 /** RATCHET.INVERT(target_ys, knot_table, [tie]). */
-export function INVERT(args: readonly CellArg[]): CellResult {
-  const targets = readVector('target_ys', args[0], 'any');
-  const [tx, ty] = knotTable(args[1], 2);
-  const tie = readChoice('tie', args[2], TIES, 'middle', '-1 (lowest x), 0 (middle) or 1 (highest x)');
-  const v = targets.values;
-  try {
-    return finite(
-      'INVERT',
-      shaped(targets, (i) => {
-        const t = v[i]!;
-        return t === t ? invertChecked(tx, ty, t, tie) : '';
-      }),
-    );
-  } catch (e) {
-    throw renamed(e, { target: 'target_ys' });
-  }
-}
+export const INVERT = defineFunction({
+  name: 'INVERT',
+  description: 'The x at which the curve of a knot table reaches each target value.',
+  params: [P.targetYs, P.knotTable, P.tie],
+  returnsArray: true,
+  run(a) {
+    const targets = a.cells('target_ys');
+    const [tx, ty] = knotTable(a.cells('knot_table'), 2);
+    const tie = a.choice<TieRule>('tie');
+    const v = targets.values;
+    return shaped(targets, (i) => {
+      const t = v[i]!;
+      return t === t ? invertChecked(tx, ty, t, tie) : '';
+    });
+  },
+});
 
 /** RATCHET.QKNOTS(known_xs, count). */
-export function QKNOTS(args: readonly CellArg[]): CellResult {
-  const xs = nonBlank(readVector('known_xs', args[0], 'line'));
-  const count = readScalar('count', args[1]);
-  if (count === undefined) fail('BAD_KNOTS', 'count', 'needs a whole number of knots ≥ 2; got nothing');
-  if (xs.length === 0) fail('EMPTY_INPUT', 'known_xs', 'needs at least one number; got none');
-  let t: Float64Array;
-  try {
-    t = quantileKnots(xs, count);
-  } catch (e) {
-    throw renamed(e, { x: 'known_xs' });
-  }
-  return finite('QKNOTS', Array.from(t, (v) => [v]));
-}
+export const QKNOTS = defineFunction({
+  name: 'QKNOTS',
+  description: 'count knot positions at quantiles of known_xs, as a column to pass as knots.',
+  params: [P.knownXs, P.count],
+  returnsArray: true,
+  run(a) {
+    const xs = nonBlank(a.data('known_xs'));
+    const count = a.number('count');
+    if (count === undefined) fail('BAD_KNOTS', 'count', 'needs a whole number of knots ≥ 2; got nothing');
+    if (xs.length === 0) fail('EMPTY_INPUT', 'known_xs', 'needs at least one number; got none');
+    return Array.from(quantileKnots(xs, count), (v) => [v]);
+  },
+});
 
-function cvOf(args: readonly CellArg[], ctx: InvokeContext | undefined): CrossValidationResult {
-  const data = dataArgs(args[0], args[1], args[7]);
-  let candidates: Float64Array | undefined;
-  const cg = toGrid(args[2]);
-  if (cg !== undefined) {
-    const c = nonBlank(readVector('candidates', args[2], 'line'));
-    if (c.length > 0) candidates = Float64Array.from(c);
-  }
-  const folds = readScalar('folds', args[3]);
-  const repeats = readScalar('repeats', args[4]);
-  const seed = readScalar('seed', args[5]);
-  const dir = direction(args[6]);
-  return cachedCrossValidation(data, { candidates, folds, repeats, seed, direction: dir, signal: ctx?.signal, onProgress: ctx?.onProgress });
+/** Parameters of CV; BESTK appends `rule`. */
+const CV_PARAMS = [P.knownYs, P.knownXs, P.candidates, P.folds, P.repeats, P.seed, P.direction, P.weights] as const;
+type CvName = (typeof CV_PARAMS)[number]['name'];
+
+function cvOf(a: Args<CvName>, ctx: InvokeContext | undefined): CrossValidationResult {
+  const data = a.rows(['known_ys', 'known_xs'], 'weights');
+  const req = { candidates: a.list('candidates'), folds: a.number('folds'), repeats: a.number('repeats'), seed: a.number('seed') };
+  return cachedCrossValidation(data, req, a.choice<DirectionOption>('direction'), ctx);
 }
 
 /** Column headers of the CV table. */
 export const CV_HEADER: readonly string[] = ['knots', 'cv_rmse', 'cv_se', 'cv_r2', 'cv_mae', 'train_rmse'];
 
 /** RATCHET.CV(known_ys, known_xs, [candidates], [folds], [repeats], [seed], [direction], [weights]). */
-export function CV(args: readonly CellArg[], ctx?: InvokeContext): CellResult {
-  const r = cvOf(args, ctx);
-  const out: CellOut[][] = [CV_HEADER.slice()];
-  for (const s of r.scores) out.push([s.knots, s.cvRmse, s.cvSe, s.cvR2, s.cvMae, s.trainRmse]);
-  return finite('CV', out);
-}
+export const CV = defineFunction({
+  name: 'CV',
+  description: 'Cross-validation table: a header row, then per candidate knot count its cv_rmse, cv_se, cv_r2, cv_mae and train_rmse.',
+  params: CV_PARAMS,
+  returnsArray: true,
+  longWork: true,
+  run(a, ctx) {
+    const r = cvOf(a, ctx);
+    const out: CellOut[][] = [CV_HEADER.slice()];
+    for (const s of r.scores) out.push([s.knots, s.cvRmse, s.cvSe, s.cvR2, s.cvMae, s.trainRmse]);
+    return out;
+  },
+});
 
 /** RATCHET.BESTK(known_ys, known_xs, [candidates], [folds], [repeats], [seed], [direction], [weights], [rule]). */
-export function BESTK(args: readonly CellArg[], ctx?: InvokeContext): CellResult {
-  const rule = readChoice('rule', args[8], RULES, 'one-se', '1 (one-standard-error rule) or 0 (minimum)');
-  const r = cvOf(args, ctx);
-  return finite('BESTK', suggestKnots(r.scores, rule).knots);
-}
+export const BESTK = defineFunction({
+  name: 'BESTK',
+  description: 'The knot count suggested by cross-validation (one-standard-error rule by default).',
+  params: [...CV_PARAMS, P.rule],
+  returnsArray: false,
+  longWork: true,
+  run(a, ctx) {
+    const rule = a.choice<'one-se' | 'min'>('rule');
+    return suggestKnots(cvOf(a, ctx).scores, rule).knots;
+  },
+});
+
+/**
+ * Rows of the STATS table, in order: label and value. New rows are appended at the end (users
+ * read them by position).
+ */
+const STATS_ROWS: readonly (readonly [string, (e: FitEntry) => number])[] = [
+  ['n', (e) => e.used.length],
+  ['dropped', (e) => e.rows - e.used.length],
+  ['knots', (e) => e.model.knotX.length],
+  ['direction', (e) => (e.model.direction === 'up' ? 1 : -1)],
+  ['r2', (e) => e.model.stats.r2],
+  ['rmse', (e) => e.model.stats.rmse],
+  ['mae', (e) => e.model.stats.mae],
+  ['sse', (e) => e.model.stats.sse],
+  ['levels', (e) => e.model.levels],
+];
 
 /** Row labels of the STATS table, in order. */
-export const STATS_LABELS: readonly string[] = ['n', 'dropped', 'knots', 'direction', 'r2', 'rmse', 'mae', 'sse', 'levels'];
+export const STATS_LABELS: readonly string[] = STATS_ROWS.map(([label]) => label);
 
 /** RATCHET.STATS(known_ys, known_xs, [knots], [direction], [weights]). */
-export function STATS(args: readonly CellArg[]): CellResult {
-  const { entry } = fitOf(args, 0);
-  const m = entry.model;
-  const values: number[] = [
-    entry.used.length,
-    entry.rows - entry.used.length,
-    m.knotX.length,
-    m.direction === 'up' ? 1 : -1,
-    m.stats.r2,
-    m.stats.rmse,
-    m.stats.mae,
-    m.stats.sse,
-    m.levels,
-  ];
-  return finite(
-    'STATS',
-    STATS_LABELS.map((label, i) => [label, values[i]!]),
-  );
-}
+export const STATS = defineFunction({
+  name: 'STATS',
+  description: 'Fit statistics as label/value rows: n, dropped, knots, direction, r2, rmse, mae, sse, levels.',
+  params: FIT_PARAMS,
+  returnsArray: true,
+  run(a) {
+    const { entry } = fitOf(a);
+    return STATS_ROWS.map(([label, value]) => [label, value(entry)]);
+  },
+});

@@ -1,40 +1,60 @@
 /**
- * Host-neutral shapes of worksheet function arguments and results. The Excel entry points
- * (src/functions/functions.ts) and the headless runner both convert their host's values to these
- * shapes and call the same implementations through the registry.
+ * The shape of a worksheet function as every host sees it: its named parameters and its one
+ * `invoke`. A function is written once as a {@link FunctionSpec} (src/functions/define.ts turns it
+ * into a {@link SheetFunction}); the Excel JSDoc check, the runner plugin, the worker, the help page
+ * and the error messages all read the same spec. The cell shapes live in the adapter
+ * (src/adapter/cell-types.ts) and are re-exported here for hosts.
  */
+import type { CellArg, CellResult } from '../adapter/cell-types.js';
 
-/** A plain cell value as a host passes it: number, text, logical, or blank (null). */
-export type CellScalar = number | string | boolean | null;
+export type { CellScalar, CellErrorInput, CellValueIn, CellArg, CellOut, CellResult } from '../adapter/cell-types.js';
 
-/** An error cell arriving inside an argument (e.g. a #DIV/0! in a data range). */
-export interface CellErrorInput {
-  readonly kind: 'error';
-  /** The worksheet error code, e.g. "#DIV/0!". */
-  readonly code: string;
-  readonly message?: string;
+/**
+ * How an argument is read (src/functions/define.ts, `Args`):
+ * - `data`: a single column or row of numbers; blanks leave their row out (see src/adapter/rows.ts);
+ * - `cells`: a cell or a range of any shape of numbers; blanks stay blank in the result;
+ * - `table`: a range of any shape that the implementation reads as a table (e.g. a knot table);
+ * - `knots`: omitted/0 (classic fit), a whole number ≥ 2 (a knot count), or a range of positions;
+ * - `list`: a number or a range of numbers, blanks skipped (e.g. candidate knot counts);
+ * - `choice`: one of the listed codes (`choices`);
+ * - `number`: one number (the core checks its range at its public boundary).
+ */
+export type ParamKind = 'data' | 'cells' | 'table' | 'knots' | 'list' | 'choice' | 'number';
+
+/** One allowed value of a `choice` parameter: the number users type, what it means to the core, and its label. */
+export interface Choice {
+  readonly code: number;
+  readonly value: string;
+  /** Words shown in messages: "1 (rising)". */
+  readonly label: string;
 }
 
-/** One cell of an argument. */
-export type CellValueIn = CellScalar | CellErrorInput;
-
-/** One argument: a scalar, a 2-D range (rows of cells), or undefined when omitted. */
-export type CellArg = CellValueIn | CellValueIn[][] | undefined;
-
-/** One cell of a result. Empty string "" stands for a cell left visibly empty. */
-export type CellOut = number | string | boolean;
-
-/** A function's result: a scalar or a 2-D array that spills. */
-export type CellResult = CellOut | CellOut[][];
-
-/** One parameter of a worksheet function, as users see it. */
-export interface ParamSpec {
-  readonly name: string;
+/** One named parameter of a worksheet function. */
+export interface ParamSpec<N extends string = string> {
+  /** The name users see (Excel's argument tooltip, JSDoc `@param`, messages): `known_ys`. */
+  readonly name: N;
+  readonly kind: ParamKind;
+  /** True when the argument may be omitted (shown as `[name]`). */
   readonly optional: boolean;
+  /** What an omitted argument means, in users' words (`"1"`, `"5"`, `"every distinct x"`); a `choice` default is one of its values. */
+  readonly default?: string;
+  /** Allowed values, in users' words (`"2 to the number of rows"`); the core enforces them. */
+  readonly range?: string;
+  /** Allowed codes of a `choice` parameter, in the order messages list them. */
+  readonly choices?: readonly Choice[];
+  /** Name of this argument in core errors (`x` for known_xs), renamed to `name` in messages. */
+  readonly coreName?: string;
+  /** Help text (Excel's argument description and the JSDoc `@param` text). */
   readonly description: string;
 }
 
-/** A worksheet function: its user-facing description and its one implementation. */
+/** Optional context of a call: cancellation and progress (used by CV and BESTK). */
+export interface InvokeContext {
+  readonly signal?: AbortSignal | undefined;
+  readonly onProgress?: ((fraction: number) => void) | undefined;
+}
+
+/** A worksheet function as hosts call it: derived from a spec by src/functions/define.ts. */
 export interface SheetFunction {
   /** Name without the namespace, e.g. "FIT" (users type RATCHET.FIT). */
   readonly name: string;
@@ -43,21 +63,16 @@ export interface SheetFunction {
   /** True when the result is a 2-D array that spills. */
   readonly returnsArray: boolean;
   /** Absolute URL of the function's section in the README (also in functions.json). */
-  readonly helpUrl?: string;
+  readonly helpUrl: string;
   /** True for long work that hosts should run off their main thread and may cancel (CV, BESTK). */
-  readonly longWork?: boolean;
+  readonly longWork: boolean;
   /**
-   * Computes the result. Throws on any problem; hosts turn what it throws into a cell error
-   * through the one mapping in src/adapter/errors.ts `mapError` (never anywhere else).
+   * Computes the result from the arguments in the order users type them (missing trailing
+   * arguments may be left out). Throws on any problem; hosts turn what it throws into a cell
+   * error through the one mapping in src/adapter/errors.ts `mapError` (never anywhere else).
    * Argument arrays must not be mutated after they are passed: parsing is memoised by identity,
    * so a host that passes the same array objects to many calls reads them once.
    * `context` carries an optional AbortSignal and progress callback for long work.
    */
   invoke(args: readonly CellArg[], context?: InvokeContext): CellResult;
-}
-
-/** Optional context of a call: cancellation and progress (used by CV and BESTK). */
-export interface InvokeContext {
-  readonly signal?: AbortSignal | undefined;
-  readonly onProgress?: ((fraction: number) => void) | undefined;
 }

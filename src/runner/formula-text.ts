@@ -6,9 +6,7 @@
  * built-ins such as SEQUENCE as `_xlfn.SEQUENCE(…)`. The runner evaluates and shows the typed
  * form and writes the stored form. Text inside string literals ("…") is never changed.
  */
-
-/** Namespace of the add-in's worksheet functions. */
-export const NAMESPACE = 'RATCHET';
+import { NAMESPACE } from '../functions/define.js';
 
 /** Stored prefix of add-in functions in workbook files. */
 export const STORED_PREFIX = '_xldudf_';

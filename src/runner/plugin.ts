@@ -28,16 +28,11 @@ import {
   type ImplementedFunctions,
 } from 'hyperformula';
 import type { CellArg, CellErrorInput, CellResult, CellValueIn, SheetFunction } from '../functions/types.js';
-import { NAMESPACE } from './formula-text.js';
+import type { MappedError } from '../adapter/errors.js';
+import { NAMESPACE } from '../functions/registry.js';
 
-/** A cell error as the one adapter mapping produces it. */
-export interface MappedCellError {
-  readonly code: string;
-  readonly message?: string | undefined;
-}
-
-/** The adapter's mapping from anything thrown to a cell error. */
-export type ErrorMapper = (e: unknown) => MappedCellError;
+/** The adapter's mapping from anything thrown to a cell error (src/adapter/errors.ts `mapError`). */
+export type ErrorMapper = (e: unknown) => MappedError;
 
 /** Rows × columns of a value. */
 export interface Dims {
@@ -119,7 +114,7 @@ export const CODE_OF_TYPE: Readonly<Record<string, string>> = {
  * of the message. O(1).
  * @example toHfError({ code: '#N/A', message: 'target_ys: 99 is outside …' }).type // → 'NA'
  */
-export function toHfError(e: MappedCellError): CellError {
+export function toHfError(e: Pick<MappedError, 'code'> & { readonly message?: string | undefined }): CellError {
   const type = TYPE_OF_CODE[e.code];
   if (type !== undefined) return new CellError(type, e.message);
   return new CellError(ErrorType.ERROR, `${e.code}${e.message ? ` ${e.message}` : ''}`);

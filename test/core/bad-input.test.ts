@@ -1,22 +1,14 @@
 /**
- * Bad input (issue 2, "Bad input"): every row is a typed RatchetError whose code AND full message
+ * Bad input (README.md, "Errors"; DEVELOPERS.md, "Conventions"): every row is a typed RatchetError whose code AND full message
  * are checked. Message shape (src/core/errors.ts): "<argument>: <what it needs>[; <what it got>]."
  * A fuzz test then feeds arbitrary values and checks that nothing untyped is thrown and no NaN or
  * ±Infinity comes back silently.
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import {
-  RatchetError,
-  fitMonotone,
-  invertAt,
-  isotonicRegression,
-  knotRegression,
-  predict,
-  quantileKnots,
-  type ErrorCode,
-  type ModelOptions,
-} from '../../src/core/index.js';
+import { RatchetError, fitMonotone, invertAt, knotRegression, predict, quantileKnots, type ModelOptions } from '../../src/core/index.js';
+import { isotonicRegression } from '../../src/core/isotonic.js';
+import { type ErrorCode } from '../../src/core/errors.js';
 
 fc.configureGlobal({ seed: Number(process.env.FC_SEED ?? 20240602), numRuns: Number(process.env.FC_RUNS ?? 400) });
 

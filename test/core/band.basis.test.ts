@@ -6,7 +6,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { bandModelChecked, type ActiveSetBasis } from '../../src/core/index.js';
+import { bandModelChecked, type ActiveSetBasis } from '../../src/core/band.js';
 import { hatRow } from './fixtures.js';
 
 function invert(a: number[][]): number[][] {

@@ -4,18 +4,11 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import {
-  bandAt,
-  checkDirection,
-  fitBandModel,
-  inverseBand,
-  invertAt,
-  knotRegression,
-  RatchetError,
-  SplitMix64,
-  studentTQuantile,
-  type Direction,
-} from '../../src/core/index.js';
+import { bandAt, fitBandModel, invertAt, knotRegression, RatchetError, SplitMix64 } from '../../src/core/index.js';
+import { checkDirection } from '../../src/core/direction-check.js';
+import { inverseBand } from '../../src/core/band.js';
+import { studentTQuantile } from '../../src/core/student-t.js';
+import { type Direction } from '../../src/core/types.js';
 
 fc.configureGlobal({ seed: Number(process.env.FC_SEED ?? 20261201), numRuns: Number(process.env.FC_RUNS ?? 200) });
 

@@ -5,7 +5,10 @@
  * core calls check the same numbers through the cells.
  */
 import { describe, expect, it } from 'vitest';
-import { bandAt, checkDirection, fitBandModel, fitMonotone, inverseBand, RatchetError, spreadStatistics } from '../../src/core/index.js';
+import { bandAt, fitBandModel, fitMonotone, RatchetError } from '../../src/core/index.js';
+import { checkDirection } from '../../src/core/direction-check.js';
+import { inverseBand } from '../../src/core/band.js';
+import { spreadStatistics } from '../../src/core/statistics.js';
 
 const hours = [1, 2, 3, 4, 5, 6];
 const hardness = [10, 14, 12, 17, 16, 21];

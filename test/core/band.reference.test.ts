@@ -5,10 +5,12 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import {
-  bandAt, checkDirection, fitBandModel, fitMonotone, inverseBand, monotoneActiveSetBasis, knotRegression, spearman, spreadStatistics,
-  studentTCdf, studentTQuantile, RatchetError,
-} from '../../src/core/index.js';
+import { bandAt, fitBandModel, fitMonotone, knotRegression, RatchetError } from '../../src/core/index.js';
+import { checkDirection } from '../../src/core/direction-check.js';
+import { inverseBand, monotoneActiveSetBasis } from '../../src/core/band.js';
+import { spearman } from '../../src/core/direction.js';
+import { spreadStatistics } from '../../src/core/statistics.js';
+import { studentTCdf, studentTQuantile } from '../../src/core/student-t.js';
 
 interface BandRow {
   level: number;

@@ -6,14 +6,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import {
-  foldSizes,
-  holdoutAssignment,
-  holdoutSize,
-  kFoldAssignment,
-  repeatState,
-  seededPermutation,
-} from '../../src/core/index.js';
+import { kFoldAssignment } from '../../src/core/index.js';
+import { foldSizes, holdoutAssignment, holdoutSize, repeatState, seededPermutation } from '../../src/core/folds.js';
 import prng from '../reference/fixtures/cv_prng.json' with { type: 'json' };
 
 describe('fold sizes', () => {

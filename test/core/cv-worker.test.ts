@@ -5,7 +5,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { Worker } from 'node:worker_threads';
-import { crossValidate, holdoutValidate, type CrossValidationResult } from '../../src/core/index.js';
+import { crossValidate, type CrossValidationResult } from '../../src/core/index.js';
+import { holdoutValidate } from '../../src/core/cross-validate.js';
 
 function inWorker(data: { x: number[]; y: number[]; options: Record<string, unknown>; holdout: boolean }): Promise<CrossValidationResult> {
   return new Promise((resolve, reject) => {

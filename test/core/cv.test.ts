@@ -1,27 +1,16 @@
 /**
  * Cross-validation of knot counts as a specification (src/core/cross-validate.ts,
- * src/core/suggest-knots.ts): a worked example computed by hand, the one-SE rule, no leakage
+ * src/core/scores.ts): a worked example computed by hand, the one-SE rule, no leakage
  * from held-out rows, zero weights, agreement with a fold-by-fold computation through the public
  * fitting API, typed errors, cancellation and progress. The comparison with scikit-learn and
  * SciPy on R datasets is in cv-reference.test.ts.
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import {
-  crossValidate,
-  defaultCandidates,
-  evenKnots,
-  fitMonotone,
-  holdoutValidate,
-  kFoldAssignment,
-  predict,
-  quantileKnots,
-  spearman,
-  suggestKnots,
-  RatchetError,
-  type CrossValidationOptions,
-  type DirectionOption,
-} from '../../src/core/index.js';
+import { crossValidate, defaultCandidates, fitMonotone, kFoldAssignment, predict, quantileKnots, suggestKnots, RatchetError, type CrossValidationOptions, type DirectionOption } from '../../src/core/index.js';
+import { evenKnots } from '../../src/core/knots.js';
+import { holdoutValidate } from '../../src/core/cross-validate.js';
+import { spearman } from '../../src/core/direction.js';
 
 /** Runs `fn` and returns the RatchetError it throws (fails the test if it does not throw one). */
 function caught(fn: () => unknown): RatchetError {

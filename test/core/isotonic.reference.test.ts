@@ -6,10 +6,11 @@
  *    `/usr/bin/python3 test/reference/gen_core.py`; each entry records its exact call),
  *  - R 4.2.2 `stats::isoreg` and `Iso::pava` (Iso 0.0-18.1) (fixture core_r.json, written by
  *    `Rscript test/reference/gen_core.R`).
- * Tolerance: 1e-9 relative (absolute 1e-9 near zero), as issue 2 asks for classic fits.
+ * Tolerance: 1e-9 relative (absolute 1e-9 near zero), as docs/tolerances.md explains for classic fits.
  */
 import { describe, expect, it } from 'vitest';
-import { fitMonotone, isotonicRegression, predict, type DirectionOption } from '../../src/core/index.js';
+import { fitMonotone, predict, type DirectionOption } from '../../src/core/index.js';
+import { isotonicRegression } from '../../src/core/isotonic.js';
 import { inputCase, rRefs, skRefs } from './fixtures.js';
 
 const REL = 1e-9;

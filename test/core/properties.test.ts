@@ -17,19 +17,13 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import {
-  evenKnots,
-  fitMonotone,
-  interpolate,
-  invertAt,
-  isotonicRegression,
-  knotRegression,
-  poolTies,
-  predict,
-  solveMonotoneTridiagonal,
-  sortOrder,
-  type Direction,
-} from '../../src/core/index.js';
+import { fitMonotone, interpolate, invertAt, knotRegression, predict } from '../../src/core/index.js';
+import { evenKnots } from '../../src/core/knots.js';
+import { isotonicRegression } from '../../src/core/isotonic.js';
+import { poolTies } from '../../src/core/pool-ties.js';
+import { solveMonotoneTridiagonal } from '../../src/core/monotone-qp.js';
+import { sortOrder } from '../../src/core/sort-order.js';
+import { type Direction } from '../../src/core/types.js';
 import { hatRow } from './fixtures.js';
 
 // Fixed seed for reproducible CI runs; FC_SEED / FC_RUNS explore further (e.g. FC_RUNS=20000).
@@ -195,6 +189,19 @@ describe('classic fit: properties', () => {
           sa += w[i]! * Math.abs(d.y[i]!);
         }
         expect(Math.abs(sy - sf)).toBeLessThanOrEqual(1e-12 * sa + 1e-300);
+        // A level is the set of rows sharing one fitted value; with positive weight, its value is
+        // the weighted mean of those rows' y (zero-weight rows carry no weight into the mean).
+        const levels = new Map<number, { sw: number; swy: number; swa: number }>();
+        for (let i = 0; i < d.x.length; i++) {
+          const l = levels.get(fit.fitted[i]!) ?? { sw: 0, swy: 0, swa: 0 };
+          l.sw += w[i]!;
+          l.swy += w[i]! * d.y[i]!;
+          l.swa += w[i]! * Math.abs(d.y[i]!);
+          levels.set(fit.fitted[i]!, l);
+        }
+        for (const [value, l] of levels) {
+          if (l.sw > 0) expect(Math.abs(value - l.swy / l.sw)).toBeLessThanOrEqual(1e-12 * (l.swa / l.sw) + 1e-300);
+        }
       }),
     );
   });

@@ -4,7 +4,9 @@
  * written; each failed before its fix and passes after it.
  */
 import { describe, expect, it } from 'vitest';
-import { fitMonotone, invertAt, isotonicRegression, knotRegression, lerp, predict, RatchetError } from '../../src/core/index.js';
+import { fitMonotone, invertAt, knotRegression, predict, RatchetError } from '../../src/core/index.js';
+import { isotonicRegression } from '../../src/core/isotonic.js';
+import { lerp } from '../../src/core/interpolate.js';
 import { bvlsRefs, hatRow, inputCase, rRefs } from './fixtures.js';
 
 

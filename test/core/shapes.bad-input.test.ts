@@ -4,16 +4,9 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import {
-  RatchetError,
-  crossValidate,
-  evaluateTable,
-  fitMonotone,
-  invertTable,
-  shapeRegression,
-  type Curvature,
-  type Degree,
-} from '../../src/core/index.js';
+import { RatchetError, crossValidate, fitMonotone, type Curvature, type Degree } from '../../src/core/index.js';
+import { evaluateTable, invertTable } from '../../src/core/smooth-table.js';
+import { shapeRegression } from '../../src/core/shape-fit.js';
 
 const x = [0, 1, 2, 3, 4];
 const y = [0, 1, 1.5, 1.8, 2];

@@ -9,20 +9,11 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import {
-  crossValidate,
-  evaluateTable,
-  fitMonotone,
-  invertTable,
-  nullSpaceBasis,
-  predict,
-  quadraticBasisAt,
-  rowDot,
-  type Curvature,
-  type Degree,
-  type Direction,
-  type MonotoneModel,
-} from '../../src/core/index.js';
+import { crossValidate, fitMonotone, predict, type Curvature, type Degree, type MonotoneModel } from '../../src/core/index.js';
+import { evaluateTable, invertTable } from '../../src/core/smooth-table.js';
+import { nullSpaceBasis, rowDot } from '../../src/core/shape-qp.js';
+import { quadraticBasisAt } from '../../src/core/shape-fit.js';
+import { type Direction } from '../../src/core/types.js';
 
 fc.configureGlobal({ seed: Number(process.env.FC_SEED ?? 20261201), numRuns: Number(process.env.FC_RUNS ?? 200) });
 

@@ -10,7 +10,9 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { fitMonotone, predict, quadraticBasisAt, type Curvature, type Degree, type Direction } from '../../src/core/index.js';
+import { fitMonotone, predict, type Curvature, type Degree } from '../../src/core/index.js';
+import { quadraticBasisAt } from '../../src/core/shape-fit.js';
+import { type Direction } from '../../src/core/types.js';
 
 interface RCase {
   name: string;

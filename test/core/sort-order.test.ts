@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { sortOrder } from '../../src/core/index.js';
+import { sortOrder } from '../../src/core/sort-order.js';
 
 /** The definition: indices ordered by value, ties by index. */
 function referenceOrder(v: ArrayLike<number>): number[] {

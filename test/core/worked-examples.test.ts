@@ -3,7 +3,9 @@
  * computed by a library, the test checks both the literal numbers and the library's output.
  */
 import { describe, expect, it } from 'vitest';
-import { fitMonotone, isotonicRegression, knotRegression, pavaSorted, predict } from '../../src/core/index.js';
+import { fitMonotone, knotRegression, predict } from '../../src/core/index.js';
+import { isotonicRegression } from '../../src/core/isotonic.js';
+import { pavaSorted } from '../../src/core/pava.js';
 import { rRefs, skRefs } from './fixtures.js';
 
 describe('pituitary-fissure sizes (Potthoff & Roy 1964, Biometrika 51:313–326; Robertson, Wright & Dykstra 1988, Order Restricted Statistical Inference)', () => {
@@ -103,7 +105,7 @@ describe('SciPy documentation example of scipy.optimize.isotonic_regression (Sci
   });
 });
 
-describe('the worked knot example of the method notes (/work/shared/METHODS.md; computed with quadprog, not published)', () => {
+describe('the worked knot example of docs/methods.md (computed with quadprog, not published)', () => {
   const x = [0, 0.5, 1, 1.5, 2, 2.5, 3];
   const y = [0, 2, 1, 1.5, 1, 3, 2.8];
 

@@ -2,37 +2,30 @@
  * The result cache: content hash of inputs and options, bounded LRU (entries and bytes). 10,000
  * PREDICT cells over the same 10,000-row data fit once; a changed cell or option fits again;
  * CV and BESTK over the same data and options cross-validate once. Solver calls are counted
- * through the injectable solver hook of src/functions/engine.ts.
+ * with spies on the core's public functions, which src/functions/engine.ts calls.
  */
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { cacheStats, clearCaches, configureCache, resetSolvers, setSolvers, CACHE_LIMITS } from '../../src/functions/engine.js';
+import { afterEach, beforeEach, describe, expect, it, vi, type MockInstance } from 'vitest';
+import { clearCaches, resultCache, CACHE_LIMITS } from '../../src/functions/engine.js';
 import { functionByName } from '../../src/functions/registry.js';
-import { fitMonotone, crossValidate, interpolate } from '../../src/core/index.js';
+import * as core from '../../src/core/index.js';
+import { fitMonotone, interpolate } from '../../src/core/index.js';
 import { LruCache } from '../../src/adapter/cache.js';
 import { lcg } from '../../bench/harness.js';
 import type { CellArg } from '../../src/functions/types.js';
 
 const predict = functionByName('PREDICT')!;
-let fits = 0;
-let cvs = 0;
+let fitSpy: MockInstance<typeof core.fitMonotone>;
+let cvSpy: MockInstance<typeof core.crossValidate>;
 
 beforeEach(() => {
-  fits = 0;
-  cvs = 0;
-  setSolvers({
-    fit: (x, y, o) => {
-      fits++;
-      return fitMonotone(x, y, o);
-    },
-    crossValidate: (x, y, o) => {
-      cvs++;
-      return crossValidate(x, y, o);
-    },
-  });
+  clearCaches();
+  fitSpy = vi.spyOn(core, 'fitMonotone');
+  cvSpy = vi.spyOn(core, 'crossValidate');
 });
 afterEach(() => {
-  resetSolvers();
-  configureCache(CACHE_LIMITS.entries, CACHE_LIMITS.bytes);
+  vi.restoreAllMocks();
+  resultCache.resize(CACHE_LIMITS.entries, CACHE_LIMITS.bytes);
+  clearCaches();
 });
 
 function dataset(n: number, seed = 7): { ys: CellArg; xs: CellArg; x: number[]; y: number[] } {
@@ -49,7 +42,7 @@ describe('10,000 PREDICT cells over one 10,000-row dataset', () => {
   it('fit once when the host passes the same range objects', () => {
     const out: number[] = [];
     for (let i = 0; i < 10_000; i++) out.push((predict.invoke([[[i / 100]], ys, xs]) as number[][])[0]![0]!);
-    expect(fits).toBe(1);
+    expect(fitSpy).toHaveBeenCalledTimes(1);
     // Each cell is the curve at its x: the same as one fit plus interpolation.
     expect(out).toEqual(Array.from(interpolate(model.knotX, model.knotY, Array.from({ length: 10_000 }, (_, i) => i / 100))));
   });
@@ -60,13 +53,13 @@ describe('10,000 PREDICT cells over one 10,000-row dataset', () => {
       const xCopy = (xs as number[][]).map((r) => [r[0]!]);
       predict.invoke([[[i]], yCopy, xCopy]);
     }
-    expect(fits).toBe(1);
-    expect(cacheStats().entries).toBe(1);
+    expect(fitSpy).toHaveBeenCalledTimes(1);
+    expect(resultCache.stats.entries).toBe(1);
   });
 
   it('FIT, KNOTS and STATS over the same data and options share that one fit', () => {
     for (const name of ['FIT', 'KNOTS', 'STATS', 'PREDICT']) functionByName(name)!.invoke(name === 'PREDICT' ? [5, ys, xs] : [ys, xs]);
-    expect(fits).toBe(1);
+    expect(fitSpy).toHaveBeenCalledTimes(1);
   });
 });
 
@@ -84,16 +77,16 @@ describe('a change of any input or option fits again', () => {
     predict.invoke([1, ys, xs, 6]);
     predict.invoke([1, ys, xs, 5, -1]);
     predict.invoke([1, ys, xs, 5, -1, (ys as number[][]).map(() => [2])]);
-    expect(fits).toBe(7);
+    expect(fitSpy).toHaveBeenCalledTimes(7);
     // …and asking again for any of them is a cache hit.
     predict.invoke([2, changed, xs]);
     predict.invoke([2, ys, xs, 5]);
-    expect(fits).toBe(7);
+    expect(fitSpy).toHaveBeenCalledTimes(7);
   });
   it('a column and a row with the same numbers are different inputs', () => {
     functionByName('FIT')!.invoke([ys, xs]);
     functionByName('FIT')!.invoke([[(ys as number[][]).map((r) => r[0]!)], xs]);
-    expect(fits).toBe(2);
+    expect(fitSpy).toHaveBeenCalledTimes(2);
   });
 });
 
@@ -103,33 +96,33 @@ describe('CV and BESTK', () => {
     functionByName('CV')!.invoke([ys, xs, null, 5, 1, 1]);
     functionByName('BESTK')!.invoke([ys, xs, null, 5, 1, 1, null, null, 1]);
     functionByName('BESTK')!.invoke([ys, xs, null, 5, 1, 1, null, null, 0]);
-    expect(cvs).toBe(1);
+    expect(cvSpy).toHaveBeenCalledTimes(1);
     functionByName('BESTK')!.invoke([ys, xs, null, 5, 1, 2]);
-    expect(cvs).toBe(2);
+    expect(cvSpy).toHaveBeenCalledTimes(2);
   });
 });
 
 describe('bounds', () => {
   it('evicts least recently used entries beyond the entry bound', () => {
-    configureCache(3, 1e9);
+    resultCache.resize(3, 1e9);
     const sets = [1, 2, 3, 4].map((s) => dataset(50, s));
     for (const d of sets) predict.invoke([1, d.ys, d.xs]);
-    expect(fits).toBe(4);
-    expect(cacheStats().entries).toBe(3);
+    expect(fitSpy).toHaveBeenCalledTimes(4);
+    expect(resultCache.stats.entries).toBe(3);
     predict.invoke([1, sets[3]!.ys, sets[3]!.xs]); // newest: hit
-    expect(fits).toBe(4);
+    expect(fitSpy).toHaveBeenCalledTimes(4);
     predict.invoke([1, sets[0]!.ys, sets[0]!.xs]); // oldest was evicted: refit
-    expect(fits).toBe(5);
+    expect(fitSpy).toHaveBeenCalledTimes(5);
   });
   it('keeps the total size under the byte bound', () => {
-    configureCache(1000, 200_000);
+    resultCache.resize(1000, 200_000);
     for (let s = 0; s < 20; s++) {
       const d = dataset(1000, 100 + s);
       predict.invoke([1, d.ys, d.xs]);
-      expect(cacheStats().bytes).toBeLessThanOrEqual(200_000);
+      expect(resultCache.stats.bytes).toBeLessThanOrEqual(200_000);
     }
-    expect(cacheStats().entries).toBeLessThan(20);
-    expect(cacheStats().evictions).toBeGreaterThan(0);
+    expect(resultCache.stats.entries).toBeLessThan(20);
+    expect(resultCache.stats.evictions).toBeGreaterThan(0);
   });
   it('LruCache: recency order, replacement and oversized values', () => {
     const c = new LruCache<number>(2, 100);

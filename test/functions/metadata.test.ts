@@ -3,14 +3,14 @@
  * own generator (custom-functions-metadata, the library inside custom-functions-metadata-plugin
  * that the webpack build runs). This test runs that generator directly — no webpack — and checks
  * a snapshot of what users and Excel see (ids, names, parameter counts, dimensionality, optional
- * flags, options) against the argument lists of the issue, plus agreement with the registry
+ * flags, options) against the argument lists of the README's function reference, plus agreement with the registry
  * (descriptions, help URLs), which is the one source of truth.
  */
 import { beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
-import { SHEET_FUNCTIONS, helpUrlOf } from '../../src/functions/registry.js';
+import { NAMESPACE, SHEET_FUNCTIONS, helpUrlOf, signatureOf } from '../../src/functions/registry.js';
 import { headingAnchors, renderHelpPage } from '../../scripts/help-page.mjs';
 
 interface ParamMeta {
@@ -40,7 +40,7 @@ beforeAll(async () => {
   functions = errors.length === 0 ? (JSON.parse(result.metadataJson) as { functions: FunctionMeta[] }).functions : [];
 });
 
-/** The nine functions of the worksheet-function issue (other functions may follow them in the registry). */
+/** The nine one-input functions of the README (other functions may follow them in the registry). */
 const CORE_NINE = ['FIT', 'PREDICT', 'KNOTS', 'EVAL', 'INVERT', 'QKNOTS', 'CV', 'BESTK', 'STATS'];
 const nine = (): FunctionMeta[] => functions.filter((f) => CORE_NINE.includes(f.id));
 
@@ -97,6 +97,14 @@ describe('generated functions.json', () => {
       // The help page is the README with an id on every heading; "### RATCHET.FIT" gets "ratchetfit".
       expect(readme).toContain(`\n### RATCHET.${f.id}\n`);
       expect(anchors.has(f.helpUrl.split('#')[1]!)).toBe(true);
+    }
+  });
+
+  it("each function's section of the help page opens with the syntax line derived from its spec", () => {
+    const readme = readFileSync(fileURLToPath(new URL('../../README.md', import.meta.url)), 'utf8');
+    for (const f of SHEET_FUNCTIONS) {
+      const section = readme.split(`\n### ${NAMESPACE}.${f.name}\n`)[1]!.split('\n### ')[0]!;
+      expect(section).toContain(`\`=${signatureOf(f)}\``);
     }
   });
 

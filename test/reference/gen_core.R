@@ -260,7 +260,7 @@ for (kc in knot_cases) {
   knots_out[[length(knots_out) + 1]] <- entry
 }
 
-# The worked knot example of /work/shared/METHODS.md (computed with quadprog, not published).
+# The worked knot example of docs/methods.md (computed with quadprog, not published).
 {
   x <- c(0, .5, 1, 1.5, 2, 2.5, 3)
   y <- c(0, 2, 1, 1.5, 1, 3, 2.8)

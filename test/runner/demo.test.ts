@@ -12,8 +12,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { crossValidate, crossValidateSurface, fitMonotone, fitSurface, suggestKnots, suggestSurfaceKnots } from '../../src/core/index.js';
-import { buildSamples } from '../../src/runner/samples.js';
-import { niceTicks, runDemo } from '../../src/runner/demo.js';
+import { buildSamples } from '../../scripts/samples/samples.js';
+import { niceTicks, runDemo } from '../../scripts/samples/demo.js';
 import './helpers.js';
 
 const ROOT = join(import.meta.dirname, '..', '..');

@@ -8,7 +8,7 @@
  *   straight lines through exact data, linear interpolation of a knot table);
  * - "(core)" rows compare with the core called directly (src/core), the same route the sample
  *   expectations take, so the runner and the worksheet layer are checked against the engine;
- * - error rows follow the error table of the worksheet functions (issue 4: argument problems are
+ * - error rows follow the error table of the worksheet functions (README.md, "Errors": argument problems are
  *   #VALUE! naming the argument; INVERT outside the range is #N/A; error cells propagate).
  */
 import { describe, expect, it } from 'vitest';

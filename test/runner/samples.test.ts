@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import ExcelJS from 'exceljs';
 import { describe, expect, it } from 'vitest';
 import { EvaluatedWorkbook } from '../../src/runner/workbook.js';
-import { buildSamples, type SampleFormula } from '../../src/runner/samples.js';
+import { buildSamples, type SampleFormula } from '../../scripts/samples/samples.js';
 import { closeBlock } from './helpers.js';
 
 const DIR = join(import.meta.dirname, '..', '..', 'samples');

@@ -1,6 +1,6 @@
 /**
  * RATCHET.SURFACE, RATCHET.GRID and RATCHET.CVGRID as a host calls them (through the registry,
- * errors through the one mapping). Literal results are the 3 × 3 example of issue 7 (computed with
+ * errors through the one mapping). Literal results are the 3 × 3 example of docs/methods.md (computed with
  * Iso::biviso 0.0-18.1, see surface.reference.test.ts) and hand-computed bilinear values.
  */
 import { describe, expect, it } from 'vitest';
@@ -103,7 +103,7 @@ describe('errors map to cell errors with the argument named', () => {
 
   it('too few rows, a single level, text and error cells', () => {
     expect(cell('GRID', col(1, null), col(1, 2), col(1, 2))).toEqual(
-      err('#VALUE!', 'known_ys: needs at least 2 rows where known_ys, known_x1s, known_x2s all hold numbers; got 1.'),
+      err('#VALUE!', 'known_ys: needs at least 2 rows where known_ys, known_x1s and known_x2s all hold numbers; got 1.'),
     );
     expect(cell('GRID', col(1, 2, 3), col(1, 1, 1), col(1, 2, 3))).toEqual(err('#VALUE!', 'known_x1s: needs at least 2 distinct values with positive weight; got 1.'));
     const e = cell('GRID', col(1, 2, 3), col(1, { kind: 'error', code: '#DIV/0!' }, 3), col(1, 2, 3)) as { error: { code: string } };

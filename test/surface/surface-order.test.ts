@@ -3,7 +3,7 @@
  * (which keeps relations that pass through unidentified nodes) and the envelope fill.
  */
 import { describe, expect, it } from 'vitest';
-import { inducedOrder, latticeEdges, orderEnvelopeMean } from '../../src/core/index.js';
+import { inducedOrder, latticeEdges, orderEnvelopeMean } from '../../src/core/surface-solve.js';
 
 /** Edges as sorted [lo, hi] pairs (the order of the list does not matter). */
 function pairs(e: { lo: Int32Array; hi: Int32Array }): number[][] {

@@ -9,16 +9,11 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import {
-  admmLattice,
-  assembleLattice,
-  evaluateLattice,
-  fitSurface,
-  latticeEdges,
-  locate,
-  predictSurface,
-  SURFACE_EXACT_NODES,
-} from '../../src/core/index.js';
+import { fitSurface, predictSurface } from '../../src/core/index.js';
+import { latticeEdges } from '../../src/core/surface-solve.js';
+import { admmLattice } from '../../src/core/surface-admm.js';
+import { assembleLattice, evaluateLattice, locate } from '../../src/core/surface-lattice.js';
+import { SURFACE_EXACT_NODES } from '../../src/core/surface.js';
 import { coneConditions, dataGradient, orderPairs, uniform, upperSet, worstViolation, type Dir } from './helpers.js';
 
 const dirArb = fc.constantFrom<Dir>('up', 'down', 'none');

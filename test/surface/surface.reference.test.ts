@@ -8,7 +8,7 @@
  *    compared at 1e-6) and quadprog::solve.QP on the same weighted grid problem (1e-8);
  *  - sparse classic grids (many level combinations without data): quadprog on the observed cells
  *    with one constraint per comparable pair — the order in full, independent of our reduction;
- *  - the 3 × 3 example of issue 7.
+ *  - the 3 × 3 example of docs/methods.md ("Surfaces").
  */
 import { describe, expect, it } from 'vitest';
 import { fitSurface, predictSurface, type AxisDirection } from '../../src/core/index.js';
@@ -68,7 +68,7 @@ describe('sparse classic grids against quadprog with every comparable pair const
   }
 });
 
-describe('the 3 × 3 example of issue 7 (computed: Iso::biviso 0.0-18.1 in gen_surface.R)', () => {
+describe('the 3 × 3 example of docs/methods.md (computed: Iso::biviso 0.0-18.1 in gen_surface.R)', () => {
   // Y = [[1,3,2],[0,2,5],[4,1,6]], unit weights → [[1/2,7/3,7/3],[1/2,7/3,5],[5/2,5/2,6]], SSE 17/3.
   // The fractions are pooled means: 1/2 = mean(1, 0), 7/3 = mean(3, 2, 2), 5/2 = mean(4, 1);
   // SSE = 2·(1/2)² + (2/3)² + 2·(1/3)² + 2·(3/2)² = 17/3 (computed by hand).

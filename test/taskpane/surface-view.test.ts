@@ -2,7 +2,7 @@
  * The pane's surface heat-map, without a browser: the cells it passes to RATCHET.GRID (through
  * the registry), the view it draws from GRID's table, the formula it offers, and the colour scale.
  *
- * Reference values: the 3 × 3 example of issue 7, Y = [[1,3,2],[0,2,5],[4,1,6]] with unit weights
+ * Reference values: the 3 × 3 example of docs/methods.md, Y = [[1,3,2],[0,2,5],[4,1,6]] with unit weights
  * → [[1/2,7/3,7/3],[1/2,7/3,5],[5/2,5/2,6]] (Iso::biviso 0.0-18.1, r-cran-iso; see
  * test/surface/surface.reference.test.ts), and the core's fitSurface called directly (a route that
  * does not pass through the worksheet functions' cell parsing). Contrast ratios and relative
@@ -12,10 +12,10 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { fitSurface } from '../../src/core/index.js';
-import { buildSamples } from '../../src/runner/samples.js';
+import { buildSamples } from '../../scripts/samples/samples.js';
 import { CellFailure } from '../../taskpane/analysis.js';
 import { computeSurface, gridArgs, gridFormula, gridSpill, knotField, type SurfaceSettings } from '../../taskpane/surface-view.js';
-import { cellText, contrast, heatColour, heatmapFromGrid, hex, luminance, oklchToRgb, textColourOn } from '../../taskpane/heat-scale.js';
+import { cellText, contrast, heatColour, heatmapFromGrid, hex, luminance, oklchToRgb, textColourOn } from '../../src/view/heat-scale.js';
 import type { CellValueIn } from '../../src/functions/types.js';
 
 const CLASSIC: SurfaceSettings = { knots1: 0, knots2: 0, direction1: 1, direction2: 1 };

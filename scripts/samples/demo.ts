@@ -11,11 +11,11 @@
  */
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
-import { EvaluatedWorkbook, type JsonCell } from './workbook.js';
+import { EvaluatedWorkbook, type JsonCell } from '../../src/runner/workbook.js';
 import type { SampleData } from './samples.js';
-import { parseRange } from './address.js';
-import { suggestSurfaceKnots } from '../core/index.js';
-import { heatColour, heatmapFromGrid, hex, type HeatmapView } from '../../taskpane/heat-scale.js';
+import { parseRange } from '../../src/runner/address.js';
+import { suggestSurfaceKnots } from '../../src/core/index.js';
+import { heatColour, heatmapFromGrid, hex, type HeatmapView } from '../../src/view/heat-scale.js';
 
 /** What the demo computed for one sample with one input. */
 export interface CurveDemoResult {

@@ -12,7 +12,7 @@
  * carries its own text colour (black or white, whichever contrasts more with the background), so
  * the numbers stay legible in light and dark themes.
  */
-import type { CellResult } from '../src/functions/types.js';
+import type { CellResult } from '../functions/types.js';
 
 /** An sRGB colour, each channel 0 … 255. */
 export interface Rgb {

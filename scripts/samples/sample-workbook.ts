@@ -9,9 +9,9 @@
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import JSZip from 'jszip';
 import ExcelJS from 'exceljs';
-import { cellName, parseCellRef } from './address.js';
-import { toStoredForm } from './formula-text.js';
-import { markDynamicArrays } from './dynamic-arrays.js';
+import { cellName, parseCellRef } from '../../src/runner/address.js';
+import { toStoredForm } from '../../src/runner/formula-text.js';
+import { markDynamicArrays } from '../../src/runner/dynamic-arrays.js';
 import type { ExpectedCell, Sample } from './samples.js';
 
 /** Fixed document dates keep regenerated files byte-stable apart from the zip container. */

@@ -1,7 +1,62 @@
 /**
- * Choosing a knot count from cross-validation scores: the one-standard-error rule or the minimum.
+ * The scoring of cross-validation, shared by the one-input (cross-validate.ts) and the surface
+ * (surface-cv.ts) cross-validation: pooled held-out errors, their standard errors, and the choice
+ * of a candidate by the one-standard-error rule or the minimum.
  */
 import { fail } from './errors.js';
+
+/**
+ * Root of the pooled weighted mean squared error: √(Σ w e² / Σ w) over every held-out row of every
+ * fold (pooled, not averaged per fold). O(1).
+ * @param sse Σ w e², ≥ 0. @param sw Σ w, > 0.
+ * @example pooledRmse(8, 2) // → 2
+ */
+export function pooledRmse(sse: number, sw: number): number {
+  return Math.sqrt(sse / sw);
+}
+
+/**
+ * Pooled R²: 1 − SSE / SST with SST the total sum of squares the folds' held-out rows are scored
+ * against (summed over repeats); SST = 0 gives 1 for a perfect score and 0 otherwise. O(1).
+ * @example pooledR2(1, 4) // → 0.75
+ */
+export function pooledR2(sse: number, sst: number): number {
+  return sst > 0 ? 1 - sse / sst : sse === 0 ? 1 : 0;
+}
+
+/**
+ * Standard error of the mean of the F·R per-fold RMSEs: their sample standard deviation / √(F·R)
+ * (Hastie, Tibshirani & Friedman 2009, The Elements of Statistical Learning, §7.10). NaN for one
+ * fold. O(F·R).
+ * @param foldRmse the per-fold RMSEs, in any order (at least one).
+ * @example foldStandardError([1, 3]) // → 1 (sd √2, divided by √2)
+ */
+export function foldStandardError(foldRmse: readonly number[]): number {
+  const k = foldRmse.length;
+  let mean = 0;
+  for (const r of foldRmse) mean += r;
+  mean /= k;
+  let ss = 0;
+  for (const r of foldRmse) ss += (r - mean) ** 2;
+  return Math.sqrt(ss / (k - 1)) / Math.sqrt(k);
+}
+
+/**
+ * Delta-method standard error of a hold-out RMSE: se(MSE) / (2·RMSE) with
+ * se(MSE)² = m/(m − 1) · Σ w²(e² − MSE)² / (Σ w)² over the m test rows (common practice). NaN for
+ * m = 1, 0 when every test error is 0. O(m).
+ * @param sq squared errors e² per test row. @param w their weights. @param sse Σ w e². @param sw Σ w.
+ * @param rmse √(sse / sw).
+ * @example holdoutStandardError([0, 4], [1, 1], 4, 2, Math.SQRT2) // → 0.7071… (= 1/√2)
+ */
+export function holdoutStandardError(sq: ArrayLike<number>, w: ArrayLike<number>, sse: number, sw: number, rmse: number): number {
+  const m = sq.length;
+  const mse = sse / sw;
+  let s = 0;
+  for (let i = 0; i < m; i++) s += (w[i]! * (sq[i]! - mse)) ** 2;
+  const seMse = m > 1 ? Math.sqrt((s * m) / (m - 1)) / sw : NaN;
+  return rmse > 0 ? seMse / (2 * rmse) : m > 1 ? 0 : NaN;
+}
 
 /** `'one-se'`: simplest candidate within one SE of the best; `'min'`: the best. */
 export type SuggestionRule = 'one-se' | 'min';

@@ -21,7 +21,7 @@ import {
   suggestKnots,
   type DirectionOption,
   type ModelOptions,
-} from '../core/index.js';
+} from '../../src/core/index.js';
 
 /** One expected cell: a number, text, logical, "" for a visibly empty cell, or an error code. */
 export type ExpectedCell = number | string | boolean;

@@ -1,0 +1,74 @@
+/**
+ * The formulas panel: the RATCHET formulas of the current references and settings as text, and
+ * the Copy button.
+ */
+import { allFormulas, type CvSettings, type FitSettings, type FormulaKind } from '../formulas.js';
+import { gridFormula, type SurfaceSettings } from '../surface-view.js';
+import { el } from './dom.js';
+import type { Selection } from './selection.js';
+
+/** The settings the formulas are written for; `cv` throws for a malformed candidates field. */
+export interface FormulaInputs {
+  readonly fit: FitSettings;
+  readonly cv: () => CvSettings;
+  readonly surface: () => SurfaceSettings;
+  readonly newXsRef: string | undefined;
+}
+
+/** The formulas section of the pane. */
+export class FormulasPanel {
+  /** The formula of each kind for the current state. */
+  formulas: Partial<Record<FormulaKind, string>> = {};
+  /** The RATCHET.GRID formula (undefined without x2). */
+  gridText: string | undefined;
+
+  /**
+   * Rebuilds the formula text for `sel`. Returns the error of the cross-validation settings when
+   * they cannot be read (the text is then empty), else undefined.
+   */
+  update(sel: Selection | undefined, inputs: FormulaInputs): unknown {
+    const area = el<HTMLTextAreaElement>('formulas');
+    this.formulas = {};
+    this.gridText = undefined;
+    if (!sel) {
+      area.value = '';
+      el<HTMLButtonElement>('copy').disabled = true;
+      return undefined;
+    }
+    let cv: CvSettings;
+    try {
+      cv = inputs.cv();
+    } catch (e) {
+      area.value = '';
+      el<HTMLButtonElement>('copy').disabled = true;
+      return e;
+    }
+    this.formulas = allFormulas(sel.refs, inputs.fit, cv, inputs.newXsRef);
+    const f = this.formulas as Record<FormulaKind, string>;
+    if (sel.x2) this.gridText = gridFormula(sel.refs, sel.x2.ref, inputs.surface());
+    area.value = [
+      `Knot table:       ${f.KNOTS}`,
+      `Curve at new x:   ${f.PREDICT}`,
+      `Fit statistics:   ${f.STATS}`,
+      `Cross-validation: ${f.CV}`,
+      `Suggested count:  ${f.BESTK}`,
+      ...(this.gridText === undefined ? [] : [`Surface table:    ${this.gridText}`]),
+    ].join('\n');
+    el<HTMLButtonElement>('copy').disabled = false;
+    return undefined;
+  }
+
+  /** Copies every formula to the clipboard; true when the browser allowed it (else the text is selected). */
+  async copy(): Promise<boolean> {
+    const area = el<HTMLTextAreaElement>('formulas');
+    const text = [...Object.values(this.formulas), ...(this.gridText === undefined ? [] : [this.gridText])].join('\n');
+    try {
+      await navigator.clipboard.writeText(text);
+      return true;
+    } catch {
+      area.focus();
+      area.select();
+      return false;
+    }
+  }
+}

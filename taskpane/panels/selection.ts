@@ -1,0 +1,18 @@
+/** The data the pane works on, wherever they come from (preview-mode.ts, office-mode.ts). */
+import type { DataColumns } from '../analysis.js';
+import type { DataRefs } from '../formulas.js';
+import type { SecondInput } from '../surface-view.js';
+
+/** The data the pane works on, wherever they come from. */
+export interface Selection {
+  readonly data: DataColumns;
+  /** References for the formulas. */
+  readonly refs: DataRefs;
+  readonly labels: { x: string; y: string };
+  /** What was chosen, for the status line. */
+  readonly description: string;
+  /** Name of the knot-table download. */
+  readonly fileStem: string;
+  /** A second input: the pane then also shows the fitted surface over (x, x2) as a heat-map. */
+  readonly x2?: SecondInput | undefined;
+}
