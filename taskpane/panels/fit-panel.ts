@@ -49,7 +49,7 @@ export class FitPanel {
     } else {
       this.status('Choose the data to fit.');
     }
-    this.chart.show(this.view, sel?.labels ?? { x: 'x', y: 'y' });
+    this.chart.show(this.view, sel?.labels ?? { x: 'x', y: 'y' }, sel?.xKind);
   }
 
   /** Redraws the statistics table. */

@@ -15,4 +15,6 @@ export interface Selection {
   readonly fileStem: string;
   /** A second input: the pane then also shows the fitted surface over (x, x2) as a heat-map. */
   readonly x2?: SecondInput | undefined;
+  /** "date" when the x cells are the serial day numbers of date cells: the chart shows them as dates. Default "number". */
+  readonly xKind?: 'number' | 'date' | undefined;
 }
