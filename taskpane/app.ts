@@ -19,6 +19,7 @@ import { FormulasPanel } from './panels/formulas-panel.js';
 import { layoutBlocks, paneBlocks, type BlockLayout, type FormulaBlock } from './layout.js';
 import { candidateCount } from './analysis.js';
 import { gridSpill } from './surface-view.js';
+import { showLeftOut } from './panels/left-out-panel.js';
 
 export type { Selection } from './panels/selection.js';
 export type { CvState } from './panels/cv-panel.js';
@@ -53,6 +54,8 @@ export interface Snapshot {
   readonly xTicks: string[];
   /** What "Copy formulas" put on the clipboard last (tab-separated block), or null. */
   readonly copied: string | null;
+  /** The lines of the list of cells left out because they hold text or a logical value. */
+  readonly leftOut: string[];
 }
 
 
@@ -166,6 +169,7 @@ export class App {
     this.fit.show(sel);
     this.fit.renderStats();
     this.fit.renderKnotTable();
+    showLeftOut(sel?.leftOut ?? []);
     this.surface.render(sel, this.fit.view?.points.length);
     this.updateFormulas();
     el<HTMLButtonElement>('download').disabled = this.fit.view === undefined;
@@ -300,6 +304,7 @@ export class App {
       surfaceError: this.surface.error,
       xTicks: (this.fit.chart.chart.scales['x']?.ticks ?? []).map((t) => String(t.label)),
       copied: this.copiedText,
+      leftOut: [...document.querySelectorAll('#left-out-list li')].map((li) => li.textContent ?? ''),
     });
   }
 
