@@ -86,6 +86,18 @@ function frozenOf(v: unknown, type: string | undefined): FrozenValue {
   return String(v);
 }
 
+/**
+ * What to write into `values` so that Excel stores exactly `v`: an error as its text (`#N/A`,
+ * which Excel stores as that error); a text that Excel would read as a number, a date, a formula
+ * or an error (`47.6`, `=A1`, `#N/A`) behind an apostrophe, which keeps it text.
+ */
+export function cellInput(v: FrozenValue): string | number | boolean {
+  if (v === null) return '';
+  if (typeof v === 'object') return v.error;
+  if (typeof v !== 'string') return v;
+  return /^\s*[=+\-@#'0-9.,]/.test(v) ? `'${v}` : v;
+}
+
 /** What "Frozen values" did. */
 export interface FreezeOutcome {
   readonly replaced: number;
@@ -151,8 +163,7 @@ export async function freezeWorkbook(excel: ExcelLike, confirm: Confirm, now: Da
     for (const w of plan.writes) {
       const v = w.value;
       const cell = sheets.getItem(w.sheet).getRange(plainRef({ sheet: undefined, r1: w.row, r2: w.row, c1: w.col, c2: w.col }));
-      // An error value is written as its text (#N/A), which Excel stores as that error.
-      cell.values = [[v === null ? '' : typeof v === 'object' ? v.error : v]];
+      cell.values = [[cellInput(v)]];
     }
     const note = sheets.add(plan.noteSheet);
     const width = Math.max(...plan.noteRows.map((r) => r.length));

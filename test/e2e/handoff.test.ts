@@ -284,21 +284,33 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: hand-off actions in Excel mode (offic
     newX.forEach((_v, i) => expect(book.value(`Trials!T${i + 3}`)).toBeCloseTo(book.value(`Trials!V${i + 3}`) as number, 12));
   });
 
-  it('"Frozen values" lists every RATCHET formula in its confirmation, then replaces them by values and adds the note sheet', async () => {
+  it('"Frozen values" lists every RATCHET formula in its confirmation, then replaces them (whole spilled results) by values and adds the note sheet', async () => {
+    // A spilled KNOTS result at Z2:AA3 as Excel would show it (the stand-in does not calculate).
+    await page.evaluate(() => {
+      const s = (window as unknown as { __excelStub: { set(sh: string, a: string, v: unknown, f?: string, spill?: string): void } }).__excelStub;
+      s.set('Trials', 'Z2', 1, '=RATCHET.KNOTS(B2:B13,A2:A13,2)', 'Z2:AA3');
+      s.set('Trials', 'AA2', 2.25);
+      s.set('Trials', 'Z3', 12);
+      s.set('Trials', 'AA3', 8.9);
+    });
     await page.click('#freeze');
     await page.waitForSelector('#confirm:not([hidden])');
     const question = (await page.textContent('#confirm-text')) ?? '';
-    expect(question).toMatch(/^Replace 5 RATCHET formulas of THIS workbook/);
+    expect(question).toMatch(/^Replace 6 RATCHET formulas of THIS workbook/);
     expect(question).toContain('Trials!I2 =RATCHET.KNOTS(');
     await page.click('#confirm-yes');
-    await page.waitForFunction(() => /Froze 5 formulas/.test(document.getElementById('insert-status')?.textContent ?? ''));
+    await page.waitForFunction(() => /Froze 6 formulas/.test(document.getElementById('insert-status')?.textContent ?? ''));
     const c = (await cellsOf('Trials'))!;
+    expect([c.Z2, c.AA2, c.Z3, c.AA3]).toEqual([{ value: 1 }, { value: 2.25 }, { value: 12 }, { value: 8.9 }]);
     expect(Object.entries(c).filter(([, v]) => /RATCHET/i.test(v.formula ?? ''))).toEqual([]);
     // the portable formulas are not the add-in's: they stay
     expect(c.T3?.formula).toMatch(/INDEX\(/);
     const note = (await cellsOf('Frozen values'))!;
     expect(note.A3?.value).toBe('Sheet');
     expect([note.A4?.value, note.B4?.value]).toEqual(['Trials', 'I2']);
+    const listed = Object.entries(note).filter(([a, v]) => /^B\d+$/.test(a) && a !== 'B3' && v.value !== '').map(([, v]) => v.value);
+    expect(listed).toContain('Z2:AA3');
+    expect(listed.length).toBe(6);
     expect(problems).toEqual([]);
   });
 });

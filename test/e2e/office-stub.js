@@ -132,9 +132,13 @@
           for (let c = 0; c < v[r].length; c++) ws.cells.set(name(g.r1 + r, g.c1 + c), { value: v[r][c] });
         }
       },
-      // The stub does not calculate: a formula's result is only its own cell.
+      // The stub does not calculate: a formula's result is its own cell, or the area set with `spill`.
       getSpillingToRangeOrNullObject() {
-        return { isNullObject: true, load() {} };
+        const cell = ws.cells.get(name(g.r1, g.c1));
+        if (!cell || !cell.spill) return { isNullObject: true, load() {} };
+        const r = rangeObject(ws, parse(cell.spill));
+        r.isNullObject = false;
+        return r;
       },
       set formulas(f) {
         for (let r = 0; r < f.length; r++) {
@@ -230,8 +234,8 @@
   window.__excelStub = {
     associated: 0,
     cleared: [],
-    set(sheetName, address, value, formula) {
-      sheetObject(sheetName).cells.set(address, formula ? { value, formula } : { value });
+    set(sheetName, address, value, formula, spill) {
+      sheetObject(sheetName).cells.set(address, formula ? (spill ? { value, formula, spill } : { value, formula }) : { value });
     },
     cellsOf(sheetName) {
       return sheets.has(sheetName) ? Object.fromEntries(sheets.get(sheetName).cells) : null;
