@@ -3,8 +3,7 @@
  */
 import type { CommonFitOptions, Direction } from './types.js';
 import { boundsPair, finiteArray, sameLength, weightArray } from './validate.js';
-import { poolTies } from './pool-ties.js';
-import { pavaSorted } from './pava.js';
+import { sortRows } from './sort-order.js';
 import { resolveDirection } from './direction.js';
 import { fail } from './errors.js';
 import { lerp, share } from './interpolate.js';
@@ -65,126 +64,193 @@ export function isotonicRegression(
   const xs = finiteArray('x', x);
   sameLength('x', xs.length, 'y', y);
   const ys = finiteArray('y', y);
-  const ws = weightArray(xs.length, options.weights);
+  const ws = options.weights === undefined ? null : weightArray(xs.length, options.weights);
   const [lower, upper] = boundsPair(options.lower, options.upper);
-  const direction = resolveDirection(xs, ys, options.weights === undefined ? undefined : ws, options.direction);
+  const direction = resolveDirection(xs, ys, ws ?? undefined, options.direction);
   return isotonicChecked(xs, ys, ws, direction, lower, upper);
 }
 
 /**
  * {@link isotonicRegression} on validated copies (no checks, no copies); used by the
- * cross-validation loop, which validates once. Inputs are not modified.
+ * cross-validation loop, which validates once. `ws` null means unit weights (no weights array
+ * is read or made). Inputs are not modified.
+ *
+ * One sort (which also returns the sorted x), then one pass over the rows in x order pools ties
+ * and pushes each distinct x with positive weight onto the pool-adjacent-violators stack at once;
+ * y and w are read through the permutation in that pass only. The arithmetic is that of
+ * {@link poolTies} followed by {@link pavaSorted} (tie mean Σwy/Σw, block sums of w·mean,
+ * cross-multiplied comparisons), on y and w scaled by powers of two — exact, so the result is the
+ * same to the last bit away from the subnormal range — with the largest |y| near 1 and every
+ * weight at most 2^-32: then no block sum or cross product can overflow, for y or w near 1e308
+ * too, nor underflow for tiny ones. Extra memory about 60 bytes per row besides the result.
  */
 export function isotonicChecked(
   xs: Float64Array,
   ys: Float64Array,
-  ws: Float64Array,
+  ws: Float64Array | null,
   direction: Direction,
   lower: number,
   upper: number,
 ): IsotonicFit {
-  // Products w·y of values near 1e308 would overflow while pooling ties: then pool y and w scaled
-  // by powers of two (exact) and scale the pooled weights back (the fit itself is scaled below).
-  let rawY = 0;
-  let rawW = 0;
-  for (let i = 0; i < ys.length; i++) {
-    rawY = Math.max(rawY, Math.abs(ys[i]!));
-    rawW = Math.max(rawW, ws[i]!);
-  }
-  const prescale = rawY > 2 ** 400 || rawW > 2 ** 400;
-  const pre = prescale ? 2 ** -exponentOf(rawY) : 1;
-  const preW = prescale ? 2 ** -exponentOf(rawW) : 1;
-  const pooled = prescale ? poolTies(xs, ys.map((v) => v * pre), ws.map((v) => v * preW)) : poolTies(xs, ys, ws);
-  if (prescale) {
-    for (let j = 0; j < pooled.y.length; j++) {
-      pooled.y[j] = pooled.y[j]! / pre;
-      pooled.w[j] = pooled.w[j]! / preW;
-    }
-  }
-  const m = pooled.x.length;
-  // Positions with positive pooled weight take part in PAVA.
-  const active: number[] = [];
-  for (let j = 0; j < m; j++) if (pooled.w[j]! > 0) active.push(j);
-  if (active.length < 2) {
-    fail('TOO_FEW_POINTS', 'x', `needs at least 2 distinct values with positive weight; got ${active.length}`);
-  }
-  // PAVA runs on y and w scaled by powers of two (exact, so the result is the same bit for bit),
-  // with the largest |y| and the total weight near 1: its cross-multiplied block sums then neither
-  // overflow for y or w near 1e308 nor underflow for tiny ones.
+  const n = xs.length;
   let maxY = 0;
   let maxW = 0;
-  for (let k = 0; k < active.length; k++) {
-    maxY = Math.max(maxY, Math.abs(pooled.y[active[k]!]!));
-    maxW = Math.max(maxW, pooled.w[active[k]!]!);
+  for (let i = 0; i < n; i++) {
+    const a = Math.abs(ys[i]!);
+    if (a > maxY) maxY = a;
   }
+  if (ws === null) maxW = 1;
+  else for (let i = 0; i < n; i++) if (ws[i]! > maxW) maxW = ws[i]!;
   const yExp = exponentOf(maxY);
-  // Weights to at most 2^-32 each, so that even 2^32 of them sum (and square) far from overflow.
-  const wScale = 2 ** -(exponentOf(maxW) + 32);
   const sign = direction === 'up' ? 1 : -1;
   const yScale = sign * 2 ** -yExp;
-  const ay = new Float64Array(active.length);
-  const aw = new Float64Array(active.length);
-  for (let k = 0; k < active.length; k++) {
-    ay[k] = yScale * pooled.y[active[k]!]!;
-    aw[k] = wScale * pooled.w[active[k]!]!;
+  const wScale = 2 ** -(exponentOf(maxW) + 32);
+
+  const { order, sorted } = sortRows(xs, true);
+  const sx = sorted!; // distinct x are compacted into its front
+  // Block stack of pool-adjacent-violators: summed weight, summed w·mean, first distinct x.
+  const stackW = new Float64Array(n);
+  const stackS = new Float64Array(n);
+  const stackStart = new Uint32Array(n);
+  // First sorted row of each distinct x (and n at the end), and the pooled weight of each.
+  const groupStart = new Uint32Array(n + 1);
+  const weight = new Float64Array(n);
+  let top = -1;
+  let m = 0;
+  let active = 0;
+  let k = 0;
+  while (k < n) {
+    const x = sx[k]!;
+    groupStart[m] = k;
+    let W = 0;
+    let S = 0;
+    do {
+      const i = order[k]!;
+      const w = ws === null ? wScale : wScale * ws[i]!;
+      W += w;
+      S += w * (yScale * ys[i]!);
+      k++;
+    } while (k < n && sx[k] === x);
+    sx[m] = x;
+    weight[m] = W / wScale;
+    if (W > 0) {
+      active++;
+      // Push the pooled point (mean S/W, weight W) and merge while the block below has a mean ≥
+      // this block's (cross-multiplied, as pavaSorted).
+      let bS = W * (S / W);
+      let bW = W;
+      let s = m;
+      while (top >= 0 && stackS[top]! * bW >= bS * stackW[top]!) {
+        bW += stackW[top]!;
+        bS += stackS[top]!;
+        s = stackStart[top]!;
+        top--;
+      }
+      top++;
+      stackW[top] = bW;
+      stackS[top] = bS;
+      stackStart[top] = s;
+    }
+    m++;
   }
-  const { fitted: af, starts } = pavaSorted(ay, aw);
+  groupStart[m] = n;
+  if (active < 2) {
+    fail('TOO_FEW_POINTS', 'x', `needs at least 2 distinct values with positive weight; got ${active}`);
+  }
+
+  // Value at every distinct x: its block's level (kept monotone against rounding in the division,
+  // as pavaSorted, then scaled back and clipped); zero-weight distinct x between two positive-weight
+  // ones interpolate linearly, those beyond the outermost take the end value.
   const back = sign * 2 ** yExp;
-  const tx = new Float64Array(active.length);
-  const tv = new Float64Array(active.length);
-  for (let k = 0; k < active.length; k++) {
-    tx[k] = pooled.x[active[k]!]!;
-    tv[k] = Math.min(upper, Math.max(lower, back * af[k]!));
-  }
-  // Levels: distinct values after clipping (clipping may merge blocks at a bound).
-  let levels = starts.length > 0 ? 1 : 0;
-  for (let b = 1; b < starts.length; b++) if (tv[starts[b]!] !== tv[starts[b - 1]!]) levels++;
   const value = new Float64Array(m);
-  {
-    let k = 0;
-    for (let j = 0; j < m; j++) {
-      while (k < active.length && active[k]! < j) k++;
-      if (k < active.length && active[k] === j) value[j] = tv[k]!;
-      else if (k === 0) value[j] = tv[0]!;
-      else if (k >= active.length) value[j] = tv[active.length - 1]!;
-      else {
-        // Zero-weight distinct x strictly between two active positions: interpolate linearly.
-        const x0 = tx[k - 1]!;
-        const x1 = tx[k]!;
-        value[j] = lerp(tv[k - 1]!, tv[k]!, share(pooled.x[j]!, x0, x1));
+  const blocks = top + 1;
+  let levels = 0;
+  let previous = -Infinity;
+  let previousClipped = NaN;
+  let leftX = NaN; // last distinct x with positive weight so far, and its value
+  let leftV = NaN;
+  let pending = 0; // first zero-weight distinct x not yet given a value
+  for (let b = 0; b < blocks; b++) {
+    const level = Math.max(stackS[b]! / stackW[b]!, previous);
+    previous = level;
+    const v = Math.min(upper, Math.max(lower, back * level));
+    if (v !== previousClipped) levels++;
+    previousClipped = v;
+    const end = b + 1 < blocks ? stackStart[b + 1]! : m;
+    for (let g = stackStart[b]!; g < end; g++) {
+      if (weight[g]! > 0) {
+        fillPending(value, sx, pending, g, leftX, leftV, sx[g]!, v);
+        value[g] = v;
+        leftX = sx[g]!;
+        leftV = v;
+        pending = g + 1;
       }
     }
   }
-  const fitted = new Float64Array(xs.length);
-  for (let i = 0; i < xs.length; i++) fitted[i] = value[pooled.group[i]!]!;
-  const [knotX, knotY] = minimalTable(tx, tv);
-  return { method: 'isotonic', direction, x: pooled.x, value, weight: pooled.w, fitted, levels, knotX, knotY };
+  fillPending(value, sx, pending, m, leftX, leftV, NaN, NaN);
+
+  const fitted = new Float64Array(n);
+  for (let g = 0; g < m; g++) {
+    const v = value[g]!;
+    for (let r = groupStart[g]!, end = groupStart[g + 1]!; r < end; r++) fitted[order[r]!] = v;
+  }
+  // The knot table from the positive-weight points, compacted into the stack buffers.
+  let t = 0;
+  for (let g = 0; g < m; g++) {
+    if (weight[g]! > 0) {
+      stackW[t] = sx[g]!;
+      stackS[t] = value[g]!;
+      t++;
+    }
+  }
+  const [knotX, knotY] = minimalTable(stackW, stackS, t);
+  const x = m === n ? sx : sx.slice(0, m);
+  return { method: 'isotonic', direction, x, value, weight: weight.slice(0, m), fitted, levels, knotX, knotY };
 }
 
-/** Drops points that interpolation of their neighbours reproduces exactly (flat or collinear). O(m). */
-function minimalTable(tx: Float64Array, tv: Float64Array): [Float64Array, Float64Array] {
-  const m = tx.length;
-  const keep: number[] = [0];
+/**
+ * Gives the zero-weight distinct x at positions [from, to) their values: linear interpolation
+ * between (x0, v0) and (x1, v1), or the one known end beyond the outermost positive-weight x.
+ */
+function fillPending(value: Float64Array, x: Float64Array, from: number, to: number, x0: number, v0: number, x1: number, v1: number): void {
+  for (let g = from; g < to; g++) {
+    value[g] = Number.isNaN(x0) ? v1 : Number.isNaN(x1) ? v0 : lerp(v0, v1, share(x[g]!, x0, x1));
+  }
+}
+
+/**
+ * Drops points that interpolation of their neighbours reproduces exactly (flat or collinear), from
+ * the first `m` entries of (tx, tv); O(m). The kept points are compacted in place, then copied out.
+ */
+function minimalTable(tx: Float64Array, tv: Float64Array, m: number): [Float64Array, Float64Array] {
+  let kept = 1;
+  let px = tx[0]!;
+  let pv = tv[0]!;
   for (let j = 1; j < m - 1; j++) {
-    const p = keep[keep.length - 1]!;
-    const a = tv[j]! - tv[p]!;
-    const b = tv[j + 1]! - tv[j]!;
+    const xj = tx[j]!;
+    const vj = tv[j]!;
+    const a = vj - pv;
+    const b = tv[j + 1]! - vj;
     const flat = a === 0 && b === 0;
     // Cross-multiplied slopes; products too small to be exact (near underflow) never count as
     // collinear — keeping a point is always safe, dropping one the line does not pass is not.
-    const left = a * (tx[j + 1]! - tx[j]!);
-    const right = b * (tx[j]! - tx[p]!);
+    const left = a * (tx[j + 1]! - xj);
+    const right = b * (xj - px);
     const collinear = a !== 0 && left === right && Math.abs(left) > 1e-290;
-    if (!flat && !collinear) keep.push(j);
+    if (!flat && !collinear) {
+      tx[kept] = xj;
+      tv[kept] = vj;
+      kept++;
+      px = xj;
+      pv = vj;
+    }
   }
-  if (m > 1) keep.push(m - 1);
-  const kx = new Float64Array(keep.length);
-  const kv = new Float64Array(keep.length);
-  keep.forEach((j, k) => {
-    kx[k] = tx[j]!;
-    kv[k] = tv[j]!;
-  });
-  return [kx, kv];
+  if (m > 1) {
+    tx[kept] = tx[m - 1]!;
+    tv[kept] = tv[m - 1]!;
+    kept++;
+  }
+  return [tx.slice(0, kept), tv.slice(0, kept)];
 }
 
 /** The exponent k of the smallest power of two 2^k ≥ v, clamped to the normal range; 0 for v = 0. */
