@@ -6,6 +6,8 @@ import { boundsPair, finiteArray, sameLength, weightArray } from './validate.js'
 import { resolveDirection } from './direction.js';
 import { sortOrder } from './sort-order.js';
 import { fitChecked, type KnotSpec } from './model.js';
+import { knotChecked } from './knot-fit.js';
+import { fitStatistics } from './statistics.js';
 import { checkFolds, holdoutAssignment, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
 import { fail } from './errors.js';
@@ -151,6 +153,8 @@ interface Prepared {
   sx: Float64Array;
   sy: Float64Array;
   sw: Float64Array;
+  /** False when no weights were given: the fits then take their unit-weight paths. */
+  weighted: boolean;
   /** rowOf[k] = row-order index (among positive-weight rows) of sorted position k. */
   rowOf: Uint32Array;
   direction: DirectionOption;
@@ -206,7 +210,7 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
   const mean = sumWY / sumW;
   let sst = 0;
   for (let k = 0; k < n; k++) sst += sw[k]! * (sy[k]! - mean) ** 2;
-  return { n, sx, sy, sw, rowOf: order, direction, lower, upper, placement, sst };
+  return { n, sx, sy, sw, weighted: options.weights !== undefined && options.weights !== null, rowOf: order, direction, lower, upper, placement, sst };
 }
 
 /**
@@ -255,6 +259,40 @@ function interpolateAscending(t: Float64Array, v: Float64Array, xs: Float64Array
       out[i] = v0 === v1 ? v0 : v0 + ((x - t[j]!) / (t[j + 1]! - t[j]!)) * (v1 - v0);
     }
   }
+}
+
+/**
+ * √(Σ w r² / Σ w) of the curve (t, v) at ascending `xs` against `ys` (w = 1 when `ws` is null), by
+ * one merge walk with the arithmetic of {@link interpolateAscending}; NaN when the plain sums are
+ * not trustworthy (overflow, or squares that may have underflowed), for the caller to recompute.
+ */
+function trainingRmse(t: Float64Array, v: Float64Array, xs: Float64Array, ys: Float64Array, ws: Float64Array | null): number {
+  const m = t.length;
+  const first = t[0]!;
+  const last = t[m - 1]!;
+  let j = 0;
+  let sse = 0;
+  let sw = 0;
+  let nonZero = false;
+  for (let i = 0; i < xs.length; i++) {
+    const x = xs[i]!;
+    let f: number;
+    if (x <= first) f = v[0]!;
+    else if (x >= last) f = v[m - 1]!;
+    else {
+      while (j + 1 <= m - 2 && t[j + 1]! <= x) j++;
+      const v0 = v[j]!;
+      const v1 = v[j + 1]!;
+      f = v0 === v1 ? v0 : v0 + ((x - t[j]!) / (t[j + 1]! - t[j]!)) * (v1 - v0);
+    }
+    const r = ys[i]! - f;
+    const w = ws === null ? 1 : ws[i]!;
+    sse += w * r * r;
+    sw += w;
+    if (r !== 0) nonZero = true;
+  }
+  if (!Number.isFinite(sse) || !Number.isFinite(sw) || (nonZero && !(sse > 2 ** -800))) return NaN;
+  return Math.sqrt(sse / sw);
 }
 
 /** Running sums of one candidate. */
@@ -308,13 +346,36 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
       }
     }
     const direction: Direction = p.direction === 'auto' ? resolveDirection(tx, ty, undefined, 'auto') : p.direction;
+    const trainW = p.weighted ? tw : null;
     const pred = new Float64Array(m);
+    let spare: Float64Array | null = null;
     for (let c = 0; c < C; c++) {
       if (signal?.aborted) cancelled(done, total);
       const K = candidates[c]!;
-      const spec: KnotSpec = K === 0 ? 0 : p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
-      const model = fitChecked(tx, ty, tw, spec, direction, p.lower, p.upper);
-      interpolateAscending(model.knotX, model.knotY, ex, pred);
+      let knotX: Float64Array;
+      let knotY: Float64Array;
+      let trainRmse: number;
+      if (K === 0) {
+        const model = fitChecked(tx, ty, trainW, 0, direction, p.lower, p.upper);
+        knotX = model.knotX;
+        knotY = model.knotY;
+        trainRmse = model.stats.rmse;
+      } else {
+        // The knot table only (no fitted values); the training RMSE from one merge walk over the
+        // training rows, which are in x order.
+        const spec: KnotSpec = p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
+        const fit = knotChecked(tx, ty, trainW, spec, direction, p.lower, p.upper, false, false);
+        knotX = fit.knotX;
+        knotY = fit.knotY;
+        trainRmse = trainingRmse(knotX, knotY, tx, ty, trainW);
+        if (Number.isNaN(trainRmse)) {
+          // Sums near overflow or underflow: the scaled statistics of the full fitted values.
+          spare ??= new Float64Array(tx.length);
+          interpolateAscending(knotX, knotY, tx, spare);
+          trainRmse = fitStatistics(ty, spare, trainW ?? undefined).rmse;
+        }
+      }
+      interpolateAscending(knotX, knotY, ex, pred);
       let sse = 0;
       let sae = 0;
       let sumW = 0;
@@ -334,7 +395,7 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
       a.sse += sse;
       a.sae += sae;
       a.sw += sumW;
-      a.trainRmse += model.stats.rmse;
+      a.trainRmse += trainRmse;
       a.foldRmse.push(Math.sqrt(sse / sumW));
       done++;
       onProgress?.(done / total);

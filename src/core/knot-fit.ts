@@ -16,6 +16,12 @@ export interface KnotFitOptions extends CommonFitOptions {
    * positive weight, or explicit strictly increasing knot positions (at least 2).
    */
   knots: number | ArrayLike<number>;
+  /**
+   * `true` (default): return the fitted value of every row. `false`: return the knot table only
+   * (`fitted` is then an empty array) — the knot values are exactly those of the full fit, and the
+   * pass that evaluates the curve at every row, and its n-sized array, are skipped.
+   */
+  fitted?: boolean;
 }
 
 /** Result of {@link knotRegression}. */
@@ -27,7 +33,7 @@ export interface KnotFit {
   readonly knotX: Float64Array;
   /** Fitted knot values θ₁ … θ_K (monotone in the direction used). */
   readonly knotY: Float64Array;
-  /** Fitted value for every input row, in input order. */
+  /** Fitted value for every input row, in input order (empty when the option `fitted` is false). */
   readonly fitted: Float64Array;
   /** Number of distinct knot values (groups of equal adjacent values): the model's effective size. */
   readonly levels: number;
@@ -49,7 +55,7 @@ export interface KnotFit {
  *
  * Method: one O(n) pass assembles the tridiagonal normal matrix H = BᵀWB and Bᵀ W y (no n × K
  * matrix); {@link solveMonotoneTridiagonal} solves the resulting QP exactly by an active-set method
- * whose subproblems are Thomas-algorithm solves; a second O(n) pass evaluates the fitted values.
+ * whose subproblems are Thomas-algorithm solves; a second O(n) pass evaluates the fitted values (skipped with `fitted: false`).
  *
  * Unidentified knots: a knot whose two neighbouring intervals hold no row with positive weight
  * does not affect the fit, so its value is not determined by the data. Ratchet fits the knots that
@@ -76,13 +82,15 @@ export interface KnotFit {
  *
  * @param x predictor values, finite, length n.
  * @param y responses, finite, length n.
- * @param options knots (required), weights (default 1), direction (`'up'` default, `'down'`,
- *   `'auto'`), lower, upper (bounds on the knot values).
+ * @param options knots (required), weights (default 1; absent weights take a faster path than
+ *   an array of ones), direction (`'up'` default, `'down'`, `'auto'`), lower, upper (bounds on the
+ *   knot values), fitted (default true; false returns the knot table only).
  * @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_BOUNDS,
  *   BAD_OPTION (direction), BAD_KNOTS (count not a whole number ≥ 2, positions not strictly
  *   increasing, or an x range too narrow — a few ulps — for K distinct even positions),
  *   TOO_FEW_POINTS (fewer than 2 distinct x with positive weight).
  * @example knotRegression([0, 1, 2, 3], [0, 2, 1, 3], { knots: 2 }).knotY // → Float64Array [0.3, 2.7]
+ * @example knotRegression([0, 1, 2, 3], [0, 2, 1, 3], { knots: 2, fitted: false }).fitted.length // → 0
  */
 export function knotRegression(x: ArrayLike<number>, y: ArrayLike<number>, options: KnotFitOptions): KnotFit {
   // Float64Array inputs are used in place (never written); their finiteness is checked inside the
@@ -101,13 +109,14 @@ export function knotRegression(x: ArrayLike<number>, y: ArrayLike<number>, optio
     knots = checkKnotPositions(knotsOption);
   } else return fail('BAD_KNOTS', 'knots', 'needs a knot count or a list of knot positions');
   const direction = resolveDirection(xs, ys, ws ?? undefined, options.direction);
-  return knotChecked(xs, ys, ws, knots, direction, lower, upper);
+  return knotChecked(xs, ys, ws, knots, direction, lower, upper, false, options.fitted !== false);
 }
 
 /**
  * {@link knotRegression} on validated copies with a resolved direction; `knots` is a checked
  * count or checked positions; `ws` null means unit weights (a faster path). Used by
- * cross-validation, which validates once.
+ * cross-validation, which validates once. `withFitted` false skips the fitted values (an empty
+ * array is returned for them); the knot table is the same either way.
  */
 export function knotChecked(
   xs: Float64Array,
@@ -118,6 +127,7 @@ export function knotChecked(
   lower: number,
   upper: number,
   rescaled = false,
+  withFitted = true,
 ): KnotFit {
   const n = xs.length;
   // Range of the rows that count, and the check for two distinct x.
@@ -126,7 +136,7 @@ export function knotChecked(
   const xmax = rangeOut[1]!;
   if (rangeOut[2] !== 0) finiteArray('x', xs); // throws NON_FINITE naming the entry
   if (!(xmin < xmax)) fail('TOO_FEW_POINTS', 'x', `needs at least 2 distinct values with positive weight; got ${xmin === xmax ? 1 : 0}`);
-  if (!rescaled && !(xmax - xmin < HUGE)) return knotRescaled(xs, ys, ws, knots, direction, lower, upper);
+  if (!rescaled && !(xmax - xmin < HUGE)) return knotRescaled(xs, ys, ws, knots, direction, lower, upper, withFitted);
   const t = typeof knots === 'number' ? evenKnots(xmin, xmax, knots) : knots;
   const K = t.length;
   const even = typeof knots === 'number';
@@ -140,7 +150,7 @@ export function knotChecked(
   const e = new Float64Array(K - 1);
   const c = new Float64Array(K);
   if (!assemble(xs, ys, ws, t, even, sign, d, e, c)) finiteArray('y', ys); // throws NON_FINITE
-  if (!rescaled && !moderate(d, c)) return knotRescaled(xs, ys, ws, knots, direction, lower, upper);
+  if (!rescaled && !moderate(d, c)) return knotRescaled(xs, ys, ws, knots, direction, lower, upper, withFitted);
 
   // Reduced problem over the identified knots (positive diagonal).
   const identified = new Uint8Array(K);
@@ -202,8 +212,8 @@ export function knotChecked(
   for (let j = 1; j < K; j++) if (values[j] !== values[j - 1]) levels++;
   if (sign < 0) for (let j = 0; j < K; j++) values[j] = -values[j]!;
 
-  const fitted = new Float64Array(n);
-  evaluate(xs, t, even, values, fitted);
+  const fitted = new Float64Array(withFitted ? n : 0);
+  if (withFitted) evaluate(xs, t, even, values, fitted);
   return { method: 'knots', direction, knotX: t, knotY: values, fitted, levels, identified };
 }
 
@@ -245,6 +255,7 @@ function assemble(
   const last = K - 2;
   const scale = (K - 1) / (tK - t0);
   if (!even) return assembleExplicit(xs, ys, ws, t, sign, d, e, c);
+  if (ws === null) return assembleUnit(xs, ys, t, sign, d, e, c);
   for (let i = 0; i < n; i++) {
     const x = xs[i]!;
     let j = 0;
@@ -274,6 +285,48 @@ function assemble(
     d[j + 1] = d[j + 1]! + wu * u;
     c[j] = c[j]! + wv * yi;
     c[j + 1] = c[j + 1]! + wu * yi;
+  }
+  return finiteY === 0;
+}
+
+/**
+ * {@link assemble} for unit weights and evenly spaced knots: the same arithmetic with w = 1 (so
+ * the same sums to the bit), without reading or testing a weight per row.
+ */
+function assembleUnit(xs: Float64Array, ys: Float64Array, t: Float64Array, sign: number, d: Float64Array, e: Float64Array, c: Float64Array): boolean {
+  const n = xs.length;
+  let finiteY = 0;
+  const K = t.length;
+  const t0 = t[0]!;
+  const tK = t[K - 1]!;
+  const last = K - 2;
+  const scale = (K - 1) / (tK - t0);
+  for (let i = 0; i < n; i++) {
+    const x = xs[i]!;
+    let j = 0;
+    let u = 0;
+    if (x >= tK) {
+      j = last;
+      u = 1;
+    } else if (x > t0) {
+      const p = (x - t0) * scale;
+      j = p | 0;
+      if (j > last) j = last;
+      u = p - j;
+      if (u < 1e-9 || u > 1 - 1e-9) {
+        if (x < t[j]!) j--;
+        else if (x >= t[j + 1]!) j++;
+        u = (x - t[j]!) / (t[j + 1]! - t[j]!);
+      }
+    }
+    const v = 1 - u;
+    const yi = sign * ys[i]!;
+    finiteY += yi - yi;
+    d[j] = d[j]! + v * v;
+    e[j] = e[j]! + v * u;
+    d[j + 1] = d[j + 1]! + u * u;
+    c[j] = c[j]! + v * yi;
+    c[j + 1] = c[j + 1]! + u * yi;
   }
   return finiteY === 0;
 }
@@ -430,6 +483,7 @@ function knotRescaled(
   direction: Direction,
   lower: number,
   upper: number,
+  withFitted: boolean,
 ): KnotFit {
   let mx = 0;
   let my = 0;
@@ -454,6 +508,7 @@ function knotRescaled(
     lower * sy,
     upper * sy,
     true,
+    withFitted,
   );
   // Scale back by 2^e in two halves (2^e itself may exceed the largest double).
   const up = (v: number, e: number) => v * 2 ** Math.floor(e / 2) * 2 ** (e - Math.floor(e / 2));
