@@ -69,3 +69,43 @@ export function risingData(n: number, seed = 42): { x: Float64Array; y: Float64A
   }
   return { x, y };
 }
+
+/** Minimum and median of a list of times. */
+export interface Spread {
+  min: number;
+  median: number;
+}
+
+/**
+ * Times several cases in alternating rounds (a, b, c, a, b, c, …) after `warm` warm-up rounds, so
+ * that a change in machine load hits every case alike; returns the minimum and median per case.
+ * A case that returns a number reports its own time in ms (a child process that times itself);
+ * otherwise its wall time is taken.
+ */
+export function timeRounds(cases: Record<string, () => unknown>, rounds = 5, warm = 1): Record<string, Spread> {
+  const names = Object.keys(cases);
+  for (let w = 0; w < warm; w++) for (const k of names) cases[k]!();
+  const times: Record<string, number[]> = {};
+  for (const k of names) times[k] = [];
+  for (let r = 0; r < rounds; r++) {
+    for (const k of names) {
+      const t0 = performance.now();
+      const own = cases[k]!();
+      const wall = performance.now() - t0;
+      times[k]!.push(typeof own === 'number' ? own : wall);
+    }
+  }
+  const out: Record<string, Spread> = {};
+  for (const k of names) {
+    const v = times[k]!.sort((p, q) => p - q);
+    out[k] = { min: v[0]!, median: v[Math.floor(v.length / 2)]! };
+  }
+  return out;
+}
+
+/** x rounded to 1000 distinct values in [0, 100) with the same noisy rising y: a data set with many ties. */
+export function tiedData(n: number, seed = 42): { x: Float64Array; y: Float64Array } {
+  const { x, y } = risingData(n, seed);
+  for (let i = 0; i < n; i++) x[i] = Math.floor(x[i]! * 10) / 10;
+  return { x, y };
+}

@@ -25,6 +25,12 @@ export interface SortedRows {
   order: Uint32Array;
   /** `values` in ascending order with −0 turned into +0, or null when not asked for. */
   sorted: Float64Array | null;
+  /**
+   * The radix sort's scratch buffers (n doubles' worth, and n indices), free for the caller to
+   * reuse; null when the input was sorted or short (no radix passes ran).
+   */
+  spare: Float64Array | null;
+  spareOrder: Uint32Array | null;
 }
 
 /**
@@ -46,7 +52,7 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
     order[i] = i;
     if (i > 0 && values[i - 1]! > values[i]!) sorted = false;
   }
-  if (sorted || n < 2) return { order, sorted: withSorted ? gather(values, order) : null };
+  if (sorted || n < 2) return { order, sorted: withSorted ? gather(values, order) : null, spare: null, spareOrder: null };
   if (n < 64) {
     // Insertion sort is faster than four counting passes on tiny inputs (and stable).
     for (let i = 1; i < n; i++) {
@@ -59,7 +65,7 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
       }
       order[j + 1] = idx;
     }
-    return { order, sorted: withSorted ? gather(values, order) : null };
+    return { order, sorted: withSorted ? gather(values, order) : null, spare: null, spareOrder: null };
   }
   // Map each double to a 64-bit unsigned key whose unsigned order is the numeric order, stored
   // as (low word, high word) pairs in one array so a scatter moves a key with one 8-byte stride.
@@ -119,7 +125,8 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
     [idx, spareIdx] = [spareIdx, idx];
     [key, spareKey] = [spareKey, key];
   }
-  if (!withSorted) return { order: idx, sorted: null };
+  const spare = new Float64Array(spareKey.buffer, spareKey.byteOffset, n);
+  if (!withSorted) return { order: idx, sorted: null, spare, spareOrder: spareIdx };
   // Decode the keys in place: the key buffer becomes the sorted doubles.
   for (let i = 0; i < n; i++) {
     const l = key[2 * i]!;
@@ -131,7 +138,7 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
       key[2 * i + 1] = ~h >>> 0;
     }
   }
-  return { order: idx, sorted: new Float64Array(key.buffer, key.byteOffset, n) };
+  return { order: idx, sorted: new Float64Array(key.buffer, key.byteOffset, n), spare, spareOrder: spareIdx };
 }
 
 /** One stable counting-sort pass on the digit `(key word >>> shift) & mask`, moving keys and indices. */

@@ -27,6 +27,8 @@ function expectSame(x: Float64Array, y: Float64Array, w: Float64Array | undefine
   expect(fit.value).toBeAllCloseRel(prev.value, 1e-14, 1e-300);
   expect(fit.fitted).toBeAllCloseRel(prev.fitted, 1e-14, 1e-300);
   expect(fit.levels).toBe(prev.levels);
+  expect(fit.knotX).toBeAllCloseRel(prev.knotX, 1e-14, 1e-300);
+  expect(fit.knotY).toBeAllCloseRel(prev.knotY, 1e-14, 1e-300);
 }
 
 describe('classic fit: one-pass pipeline equals the previous algorithm', () => {

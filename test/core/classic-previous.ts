@@ -12,6 +12,8 @@ export interface PreviousClassic {
   weight: Float64Array;
   fitted: Float64Array;
   levels: number;
+  knotX: Float64Array;
+  knotY: Float64Array;
 }
 
 function exponentOf(v: number): number {
@@ -74,5 +76,20 @@ export function previousClassic(
     else value[j] = lerp(tv[k - 1]!, tv[k]!, share(pooled.x[j]!, tx[k - 1]!, tx[k]!));
   }
   const fitted = Float64Array.from(pooled.group, (g) => value[g]!);
-  return { x: pooled.x, value, weight: pooled.w, fitted, levels };
+  // The knot table: drop points that interpolation of their kept neighbours reproduces exactly.
+  const keep: number[] = [0];
+  for (let j = 1; j < tx.length - 1; j++) {
+    const p = keep[keep.length - 1]!;
+    const a = tv[j]! - tv[p]!;
+    const b = tv[j + 1]! - tv[j]!;
+    const left = a * (tx[j + 1]! - tx[j]!);
+    const right = b * (tx[j]! - tx[p]!);
+    const flat = a === 0 && b === 0;
+    const collinear = a !== 0 && left === right && Math.abs(left) > 1e-290;
+    if (!flat && !collinear) keep.push(j);
+  }
+  if (tx.length > 1) keep.push(tx.length - 1);
+  const knotX = Float64Array.from(keep, (j) => tx[j]!);
+  const knotY = Float64Array.from(keep, (j) => tv[j]!);
+  return { x: pooled.x, value, weight: pooled.w, fitted, levels, knotX, knotY };
 }
