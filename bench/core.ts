@@ -6,8 +6,9 @@
  * - Classic fit: fitMonotone(x, y) on random unsorted x, and on x with many ties (1000 distinct
  *   values), at 1e5 and 1e6 rows. scikit-learn 1.2.1 (Debian's /usr/bin/python3) reads the same
  *   doubles from a temp file; each round starts a Python child that fits once to warm up and once
- *   timed. Rounds alternate ours / scikit-learn's, 5 of them; min and median are reported, and
- *   the ratio of the minima (goal ≤ 0.5). Without that Python the bench says so and skips the ratio.
+ *   timed. Rounds alternate ours / scikit-learn's, 5 of them; min and median of the CPU time are
+ *   reported (ms), the ratio of the minima (goal ≤ 0.5) and of the medians, and the ratio of the
+ *   wall-time minima. Without that Python the bench says so and skips the ratios.
  * - Memory: the typed arrays one fit allocates at the largest size, per row, result included
  *   (bench/memory-child.ts, a fresh process; an upper bound of the peak), and for scikit-learn the
  *   peak that Python's tracemalloc reports for one fit. Goal ≤ 80 bytes.
@@ -20,7 +21,7 @@ import { existsSync, mkdtempSync, writeFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fitMonotone, knotRegression } from '../src/core/index.js';
-import { risingData, tiedData, timeRounds, type BenchRecord } from './harness.js';
+import { risingData, tiedData, timeRounds, type BenchRecord, type OwnTime, type Spread } from './harness.js';
 
 const PY = '/usr/bin/python3';
 
@@ -33,8 +34,11 @@ class SklearnChild {
     writeFileSync(join(this.dir, 'y.bin'), Buffer.from(y.buffer, y.byteOffset, y.byteLength));
   }
 
-  /** 'time': ms of one fit after a warm-up fit; 'memory': tracemalloc's peak during one fit, bytes per row. */
-  run(mode: 'time' | 'memory'): number | null {
+  /**
+   * 'time': "cpu wall" ms of one fit after a warm-up fit (time.process_time, time.perf_counter);
+   * 'memory': tracemalloc's peak during one fit, bytes per row.
+   */
+  run(mode: 'time' | 'memory'): string | null {
     if (!existsSync(PY)) return null;
     const script = [
       'import sys, time, numpy as np',
@@ -45,12 +49,12 @@ class SklearnChild {
       `x = np.fromfile(${JSON.stringify(join(this.dir, 'x.bin'))}, dtype="<f8")`,
       `y = np.fromfile(${JSON.stringify(join(this.dir, 'y.bin'))}, dtype="<f8")`,
       mode === 'time'
-        ? 'IsotonicRegression().fit(x, y); t0 = time.perf_counter(); IsotonicRegression().fit(x, y); print((time.perf_counter() - t0) * 1000)'
+        ? 'IsotonicRegression().fit(x, y); c0 = time.process_time(); t0 = time.perf_counter(); IsotonicRegression().fit(x, y); print((time.process_time() - c0) * 1000, (time.perf_counter() - t0) * 1000)'
         : 'import tracemalloc; IsotonicRegression().fit(x[:70000], y[:70000]); tracemalloc.start(); m = IsotonicRegression().fit(x, y); print(tracemalloc.get_traced_memory()[1] / len(x))',
     ].join('\n');
     try {
       const out = execFileSync(PY, ['-c', script], { encoding: 'utf8' }).trim();
-      return out === 'none' ? null : Number(out);
+      return out === 'none' ? null : out;
     } catch {
       return null;
     }
@@ -96,29 +100,33 @@ export function run(emit: (r: BenchRecord) => void, options: { quick: boolean })
           ours: () => {
             sink += fitMonotone(x, y).levels;
           },
-          sklearn: () => {
-            const ms = sk.run('time');
-            if (ms === null) skMissing = true;
-            return ms ?? 0;
+          sklearn: (): OwnTime => {
+            const out = sk.run('time');
+            if (out === null) skMissing = true;
+            const [cpu, wall] = (out ?? '0 0').split(' ').map(Number);
+            return { cpu: cpu!, wall: wall! };
           },
         },
         5,
         1,
       );
-      const rec: BenchRecord = { case: `classic fit, ${kind === 'random' ? 'random x' : 'x with many ties'}`, n, knots: 0, ms: t.ours!.min, median_ms: t.ours!.median };
+      const o = t.ours!;
+      const rec: BenchRecord = { case: `classic fit, ${kind === 'random' ? 'random x' : 'x with many ties'}`, n, knots: 0, ms: o.min, median_ms: o.median };
       if (skMissing) noPython = true;
       else {
-        rec.sklearn_ms = t.sklearn!.min;
-        rec.sklearn_median_ms = t.sklearn!.median;
-        rec.ratio = t.ours!.min / t.sklearn!.min;
-        rec.ratio_median = t.ours!.median / t.sklearn!.median;
+        const s = t.sklearn!;
+        rec.sklearn_ms = s.min;
+        rec.sklearn_median_ms = s.median;
+        rec.ratio = o.min / s.min;
+        rec.ratio_median = o.median / s.median;
+        rec.wall_ratio = o.wallMin / s.wallMin;
         rec.goal = 0.5;
       }
       if (n === sizes[sizes.length - 1]) {
         const mem = oursMemory(n, kind);
         if (mem !== null) rec.bytes_per_row = mem;
         const skMem = skMissing ? null : sk.run('memory');
-        if (skMem !== null) rec.sklearn_bytes_per_row = skMem;
+        if (skMem !== null) rec.sklearn_bytes_per_row = Number(skMem);
       }
       sk.close();
       emit(rec);
@@ -152,8 +160,8 @@ export function run(emit: (r: BenchRecord) => void, options: { quick: boolean })
     );
     const base = t.sum!;
     emit({ case: 'baseline: one pass summing x and y', n, knots: '-', ms: base.min, median_ms: base.median });
-    const row = (name: string, s: { min: number; median: number }, goal: number | string): void =>
-      emit({ case: name, n, knots: 20, ms: s.min, median_ms: s.median, ratio: s.min / base.min, ratio_median: s.median / base.median, goal });
+    const row = (name: string, s: Spread, goal: number | string): void =>
+      emit({ case: name, n, knots: 20, ms: s.min, median_ms: s.median, ratio: s.min / base.min, ratio_median: s.median / base.median, wall_ratio: s.wallMin / base.wallMin, goal });
     row('knot fit, fitted values', t.fitted!, 5);
     row('knot fit, knot table only', t.table!, 3);
     row('knot fit, weights all 1', t.ones!, `vs ${(t.fitted!.min / base.min).toPrecision(3)}`);

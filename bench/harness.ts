@@ -70,35 +70,57 @@ export function risingData(n: number, seed = 42): { x: Float64Array; y: Float64A
   return { x, y };
 }
 
-/** Minimum and median of a list of times. */
+/** Minimum and median of the CPU times of one case, and of its wall times. */
 export interface Spread {
   min: number;
   median: number;
+  wallMin: number;
+  wallMedian: number;
+}
+
+/** A time a case measured itself (a child process): CPU and wall milliseconds. */
+export interface OwnTime {
+  cpu: number;
+  wall: number;
 }
 
 /**
  * Times several cases in alternating rounds (a, b, c, a, b, c, …) after `warm` warm-up rounds, so
- * that a change in machine load hits every case alike; returns the minimum and median per case.
- * A case that returns a number reports its own time in ms (a child process that times itself);
- * otherwise its wall time is taken.
+ * that a change in machine load hits every case alike; returns the minimum and median per case of
+ * the process's CPU time (user + system, all threads: on a shared machine far steadier than wall
+ * time, which waits for other processes) and of the wall time. A case that returns an
+ * {@link OwnTime} reports its own times (a child process that times itself).
  */
 export function timeRounds(cases: Record<string, () => unknown>, rounds = 5, warm = 1): Record<string, Spread> {
   const names = Object.keys(cases);
   for (let w = 0; w < warm; w++) for (const k of names) cases[k]!();
-  const times: Record<string, number[]> = {};
-  for (const k of names) times[k] = [];
+  const cpu: Record<string, number[]> = {};
+  const wall: Record<string, number[]> = {};
+  for (const k of names) {
+    cpu[k] = [];
+    wall[k] = [];
+  }
   for (let r = 0; r < rounds; r++) {
     for (const k of names) {
+      const c0 = process.cpuUsage();
       const t0 = performance.now();
-      const own = cases[k]!();
-      const wall = performance.now() - t0;
-      times[k]!.push(typeof own === 'number' ? own : wall);
+      const own = cases[k]!() as OwnTime | undefined;
+      const t = performance.now() - t0;
+      const c = process.cpuUsage(c0);
+      const isOwn = typeof own === 'object' && own !== null && typeof own.cpu === 'number';
+      cpu[k]!.push(isOwn ? own.cpu : (c.user + c.system) / 1000);
+      wall[k]!.push(isOwn ? own.wall : t);
     }
   }
+  const spread = (v: number[]): [number, number] => {
+    v.sort((p, q) => p - q);
+    return [v[0]!, v[Math.floor(v.length / 2)]!];
+  };
   const out: Record<string, Spread> = {};
   for (const k of names) {
-    const v = times[k]!.sort((p, q) => p - q);
-    out[k] = { min: v[0]!, median: v[Math.floor(v.length / 2)]! };
+    const [min, median] = spread(cpu[k]!);
+    const [wallMin, wallMedian] = spread(wall[k]!);
+    out[k] = { min, median, wallMin, wallMedian };
   }
   return out;
 }
