@@ -125,6 +125,20 @@ export function timeRounds(cases: Record<string, () => unknown>, rounds = 5, war
   return out;
 }
 
+/**
+ * Runs `fn` once untimed, then once timed: the same warm-cache measurement a child process makes
+ * (a fit just before the timed fit), for the side of a ratio that alternates with such a child.
+ */
+export function warmTimed(fn: () => unknown): OwnTime {
+  fn();
+  const c0 = process.cpuUsage();
+  const t0 = performance.now();
+  fn();
+  const wall = performance.now() - t0;
+  const c = process.cpuUsage(c0);
+  return { cpu: (c.user + c.system) / 1000, wall };
+}
+
 /** x rounded to 1000 distinct values in [0, 100) with the same noisy rising y: a data set with many ties. */
 export function tiedData(n: number, seed = 42): { x: Float64Array; y: Float64Array } {
   const { x, y } = risingData(n, seed);

@@ -46,15 +46,20 @@ export interface SortedRows {
  */
 export function sortRows(values: ArrayLike<number>, withSorted: boolean): SortedRows {
   const n = values.length;
-  const order = new Uint32Array(n);
   let sorted = true;
-  for (let i = 0; i < n; i++) {
-    order[i] = i;
-    if (i > 0 && values[i - 1]! > values[i]!) sorted = false;
+  for (let i = 1; i < n; i++) {
+    if (values[i - 1]! > values[i]!) {
+      sorted = false;
+      break;
+    }
   }
-  if (sorted || n < 2) return { order, sorted: withSorted ? gather(values, order) : null, spare: null, spareOrder: null };
+  if (sorted || n < 2) {
+    const order = identity(n);
+    return { order, sorted: withSorted ? gather(values, order) : null, spare: null, spareOrder: null };
+  }
   if (n < 64) {
     // Insertion sort is faster than four counting passes on tiny inputs (and stable).
+    const order = identity(n);
     for (let i = 1; i < n; i++) {
       const idx = order[i]!;
       const v = values[idx]!;
@@ -67,23 +72,6 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
     }
     return { order, sorted: withSorted ? gather(values, order) : null, spare: null, spareOrder: null };
   }
-  // Map each double to a 64-bit unsigned key whose unsigned order is the numeric order, stored
-  // as (low word, high word) pairs in one array so a scatter moves a key with one 8-byte stride.
-  const f = values instanceof Float64Array ? values : Float64Array.from(values);
-  const u = new Uint32Array(f.buffer, f.byteOffset, 2 * n);
-  let key = new Uint32Array(2 * n);
-  for (let i = 0; i < n; i++) {
-    const l = u[2 * i]!;
-    const h = u[2 * i + 1]!;
-    if (h & 0x80000000) {
-      const negativeZero = h === 0x80000000 && l === 0;
-      key[2 * i] = negativeZero ? 0 : ~l >>> 0;
-      key[2 * i + 1] = negativeZero ? 0x80000000 : ~h >>> 0;
-    } else {
-      key[2 * i] = l;
-      key[2 * i + 1] = (h | 0x80000000) >>> 0;
-    }
-  }
   // Digits of 16 bits (4 passes) for large inputs; of 8 bits (8 passes) below 65,536 elements,
   // where clearing and summing 65,536-bucket histograms would cost more than the passes.
   const bits = n >= 65536 ? 16 : 8;
@@ -91,18 +79,32 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
   const mask = buckets - 1;
   const perWord = 32 / bits;
   const passes = 2 * perWord;
-  // All digit histograms in one pass (they do not depend on the order).
+  // Map each double to a 64-bit unsigned key whose unsigned order is the numeric order, stored
+  // as (low word, high word) pairs in one array so a scatter moves a key with one 8-byte stride;
+  // all digit histograms are counted in the same pass (they do not depend on the order).
+  const f = values instanceof Float64Array ? values : Float64Array.from(values);
+  const u = new Uint32Array(f.buffer, f.byteOffset, 2 * n);
+  let key: Uint32Array = new Uint32Array(2 * n);
   const counts = new Uint32Array(passes * buckets);
   for (let i = 0; i < n; i++) {
-    const l = key[2 * i]!;
-    const h = key[2 * i + 1]!;
+    let l = u[2 * i]!;
+    let h = u[2 * i + 1]!;
+    if (h & 0x80000000) {
+      const negativeZero = h === 0x80000000 && l === 0;
+      l = negativeZero ? 0 : ~l >>> 0;
+      h = negativeZero ? 0x80000000 : ~h >>> 0;
+    } else {
+      h = (h | 0x80000000) >>> 0;
+    }
+    key[2 * i] = l;
+    key[2 * i + 1] = h;
     for (let p = 0; p < perWord; p++) {
       counts[p * buckets + ((l >>> (p * bits)) & mask)]!++;
       counts[(p + perWord) * buckets + ((h >>> (p * bits)) & mask)]!++;
     }
   }
   // Exclusive prefix sums; a pass whose digit is the same for every element is skipped.
-  const needed: boolean[] = [];
+  const needed: number[] = [];
   for (let p = 0; p < passes; p++) {
     let sum = 0;
     let nonEmpty = 0;
@@ -112,39 +114,60 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
       counts[b] = sum;
       sum += k;
     }
-    needed.push(nonEmpty > 1);
+    if (nonEmpty > 1) needed.push(p);
   }
   // Stable scatter passes that carry the keys along with the indices, so every pass reads its
-  // input sequentially (gathering keys through the permutation would miss the cache).
-  let idx = order;
-  let spareIdx = new Uint32Array(n);
-  let spareKey = new Uint32Array(2 * n);
-  for (let pass = 0; pass < passes; pass++) {
-    if (!needed[pass]) continue;
-    scatter(key, idx, spareKey, spareIdx, counts, pass * buckets, pass < perWord ? 0 : 1, (pass % perWord) * bits, mask);
-    [idx, spareIdx] = [spareIdx, idx];
+  // input sequentially (gathering keys through the permutation would miss the cache). The first
+  // pass takes the indices from its loop counter; the last decodes the keys as it writes them.
+  let idx: Uint32Array | null = null;
+  let spareIdx: Uint32Array = new Uint32Array(n);
+  let spareKey: Uint32Array = new Uint32Array(2 * n);
+  let spareOrder: Uint32Array | null = null;
+  for (let q = 0; q < needed.length; q++) {
+    const pass = needed[q]!;
+    const decode = withSorted && q === needed.length - 1;
+    scatter(key, idx, spareKey, spareIdx, counts, pass * buckets, pass < perWord ? 0 : 1, (pass % perWord) * bits, mask, decode);
+    const nextSpare = idx ?? new Uint32Array(n);
+    idx = spareIdx;
+    spareIdx = nextSpare;
     [key, spareKey] = [spareKey, key];
+    spareOrder = spareIdx;
+  }
+  if (idx === null) {
+    // Every digit was shared: the values are all equal (then the input was sorted, handled above).
+    idx = identity(n);
+    spareOrder = spareIdx;
+    if (withSorted) decodeInPlace(key);
   }
   const spare = new Float64Array(spareKey.buffer, spareKey.byteOffset, n);
-  if (!withSorted) return { order: idx, sorted: null, spare, spareOrder: spareIdx };
-  // Decode the keys in place: the key buffer becomes the sorted doubles.
-  for (let i = 0; i < n; i++) {
-    const l = key[2 * i]!;
-    const h = key[2 * i + 1]!;
-    if (h & 0x80000000) {
-      key[2 * i + 1] = (h & 0x7fffffff) >>> 0;
-    } else {
-      key[2 * i] = ~l >>> 0;
-      key[2 * i + 1] = ~h >>> 0;
-    }
-  }
-  return { order: idx, sorted: new Float64Array(key.buffer, key.byteOffset, n), spare, spareOrder: spareIdx };
+  return { order: idx, sorted: withSorted ? new Float64Array(key.buffer, key.byteOffset, n) : null, spare, spareOrder };
 }
 
-/** One stable counting-sort pass on the digit `(key word >>> shift) & mask`, moving keys and indices. */
+/** 0, 1, …, n − 1. */
+function identity(n: number): Uint32Array {
+  const order = new Uint32Array(n);
+  for (let i = 0; i < n; i++) order[i] = i;
+  return order;
+}
+
+/** Turns sort keys back into the doubles' bit patterns, in place. */
+function decodeInPlace(key: Uint32Array): void {
+  for (let i = 0; i < key.length; i += 2) {
+    const l = key[i]!;
+    const h = key[i + 1]!;
+    key[i] = h & 0x80000000 ? l : ~l >>> 0;
+    key[i + 1] = h & 0x80000000 ? (h & 0x7fffffff) >>> 0 : ~h >>> 0;
+  }
+}
+
+/**
+ * One stable counting-sort pass on the digit `(key word >>> shift) & mask`, moving keys and
+ * indices (`idx` null: the identity); with `decode`, the keys are written back as the doubles'
+ * bit patterns.
+ */
 function scatter(
   key: Uint32Array,
-  idx: Uint32Array,
+  idx: Uint32Array | null,
   outKey: Uint32Array,
   outIdx: Uint32Array,
   counts: Uint32Array,
@@ -152,15 +175,21 @@ function scatter(
   word: number,
   shift: number,
   mask: number,
+  decode: boolean,
 ): void {
-  const n = idx.length;
+  const n = outIdx.length;
   for (let i = 0; i < n; i++) {
     const l = key[2 * i]!;
     const h = key[2 * i + 1]!;
     const at = counts[base + (((word === 0 ? l : h) >>> shift) & mask)]!++;
-    outIdx[at] = idx[i]!;
-    outKey[2 * at] = l;
-    outKey[2 * at + 1] = h;
+    outIdx[at] = idx === null ? i : idx[i]!;
+    if (decode) {
+      outKey[2 * at] = h & 0x80000000 ? l : ~l >>> 0;
+      outKey[2 * at + 1] = h & 0x80000000 ? (h & 0x7fffffff) >>> 0 : ~h >>> 0;
+    } else {
+      outKey[2 * at] = l;
+      outKey[2 * at + 1] = h;
+    }
   }
 }
 
