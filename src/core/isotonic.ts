@@ -40,7 +40,9 @@ export interface IsotonicFit {
  * non-increasing (`'down'`) in x, evaluated at the distinct x values; then clips to
  * [lower, upper], which is optimal for the bounded problem in this model.
  *
- * Cost: O(n) time and memory (radix sort order, one pooling pass, one PAVA pass).
+ * Cost: O(n) time and memory (a radix sort that also returns the sorted x, one pass gathering y
+ * and w into x order, one pass that pools ties and runs PAVA at once); typed arrays of about 60
+ * bytes per row in all, the result included (68 with weights).
  *
  * Edge cases: tied x values are pooled first (one fitted value per distinct x, the weighted mean
  * of its y with summed weight). Rows with weight 0 get the curve's value at their x (linear
