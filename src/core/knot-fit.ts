@@ -291,11 +291,11 @@ function assemble(
 
 /**
  * {@link assemble} for unit weights and evenly spaced knots: the same arithmetic with w = 1 (so
- * the same sums to the bit), without reading or testing a weight per row.
+ * the same sums to the bit), without reading or testing a weight per row, and with the finiteness
+ * of y read off the K sums instead of a per-row test.
  */
 function assembleUnit(xs: Float64Array, ys: Float64Array, t: Float64Array, sign: number, d: Float64Array, e: Float64Array, c: Float64Array): boolean {
   const n = xs.length;
-  let finiteY = 0;
   const K = t.length;
   const t0 = t[0]!;
   const tK = t[K - 1]!;
@@ -321,14 +321,16 @@ function assembleUnit(xs: Float64Array, ys: Float64Array, t: Float64Array, sign:
     }
     const v = 1 - u;
     const yi = sign * ys[i]!;
-    finiteY += yi - yi;
     d[j] = d[j]! + v * v;
     e[j] = e[j]! + v * u;
     d[j + 1] = d[j + 1]! + u * u;
     c[j] = c[j]! + v * yi;
     c[j + 1] = c[j + 1]! + u * yi;
   }
-  return finiteY === 0;
+  // A non-finite y makes some c entry NaN or infinite (0·∞ is NaN too); finite y can make one
+  // infinite only by overflow, which the caller tells apart (and then rescales).
+  for (let k = 0; k < K; k++) if (!Number.isFinite(c[k]!)) return false;
+  return true;
 }
 
 /** {@link assemble} for explicit knots (binary search per row); kept apart so each loop stays small. */
@@ -433,6 +435,10 @@ const rangeOut = new Float64Array(3);
  * escape into an array literal are boxed by V8, which made this loop 3× slower.
  */
 function weightedRange(xs: Float64Array, ws: Float64Array | null, out: Float64Array): void {
+  if (ws === null) {
+    unitRange(xs, out);
+    return;
+  }
   let xmin = Infinity;
   let xmax = -Infinity;
   let finiteX = 0;
@@ -443,6 +449,22 @@ function weightedRange(xs: Float64Array, ws: Float64Array | null, out: Float64Ar
       if (v < xmin) xmin = v;
       if (v > xmax) xmax = v;
     }
+  }
+  out[0] = xmin;
+  out[1] = xmax;
+  out[2] = finiteX;
+}
+
+/** {@link weightedRange} for unit weights: every row counts. */
+function unitRange(xs: Float64Array, out: Float64Array): void {
+  let xmin = Infinity;
+  let xmax = -Infinity;
+  let finiteX = 0;
+  for (let i = 0; i < xs.length; i++) {
+    const v = xs[i]!;
+    finiteX += v - v;
+    xmin = v < xmin ? v : xmin;
+    xmax = v > xmax ? v : xmax;
   }
   out[0] = xmin;
   out[1] = xmax;

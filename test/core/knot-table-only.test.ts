@@ -65,3 +65,26 @@ describe('knot fit: the knot-table-only path and the unit-weight path equal the 
     );
   });
 });
+
+describe('knot fit without weights: y checked through the assembled sums', () => {
+  it('a NaN or ±Infinity y in a Float64Array raises NON_FINITE naming its entry, at any row, with or without fitted values', () => {
+    for (const bad of [NaN, Infinity, -Infinity]) {
+      for (const at of [0, 3, 9]) {
+        const x = Float64Array.from({ length: 10 }, (_, i) => i);
+        const y = Float64Array.from({ length: 10 }, (_, i) => i % 3);
+        y[at] = bad;
+        for (const fitted of [true, false]) {
+          expect(() => knotRegression(x, y, { knots: 4, fitted })).toThrow(`y: needs finite numbers; entry ${at + 1} is ${String(bad)}.`);
+        }
+      }
+    }
+  });
+
+  it('finite y whose sums overflow (1.5e308 each) are fitted after rescaling: the fit of y · 2^-1000 scaled back by 2^1000', () => {
+    const x = Float64Array.from({ length: 40 }, (_, i) => i);
+    const y = Float64Array.from({ length: 40 }, (_, i) => 1.5e308 * (i < 20 ? 0.9 : 1));
+    const fit = knotRegression(x, y, { knots: 3 });
+    const small = knotRegression(x, y.map((v) => v * 2 ** -1000), { knots: 3 });
+    expect(fit.knotY).toBeAllCloseRel(small.knotY.map((v) => v * 2 ** 500 * 2 ** 500), 1e-15, 0);
+  });
+});
