@@ -85,7 +85,7 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
   const f = values instanceof Float64Array ? values : Float64Array.from(values);
   const u = new Uint32Array(f.buffer, f.byteOffset, 2 * n);
   let key: Uint32Array = new Uint32Array(2 * n);
-  const counts = new Uint32Array(passes * buckets);
+  const counts = histogramBuffer(passes * buckets);
   for (let i = 0; i < n; i++) {
     let l = u[2 * i]!;
     let h = u[2 * i + 1]!;
@@ -141,6 +141,17 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
   }
   const spare = new Float64Array(spareKey.buffer, spareKey.byteOffset, n);
   return { order: idx, sorted: withSorted ? new Float64Array(key.buffer, key.byteOffset, n) : null, spare, spareOrder };
+}
+
+/** The histogram buffer, kept between calls (1 MB at most): allocating it anew each time costs more. */
+let histograms: Uint32Array | null = null;
+
+/** A zeroed histogram buffer of `size` counts (reused; the sort is never re-entered while it runs). */
+function histogramBuffer(size: number): Uint32Array {
+  if (histograms === null || histograms.length < size) histograms = new Uint32Array(Math.max(size, 4 * 65536));
+  const h = histograms.subarray(0, size);
+  h.fill(0);
+  return h;
 }
 
 /** 0, 1, …, n − 1. */
