@@ -1,6 +1,8 @@
 // Webpack build of the Ratchet add-in.
 //   npm run build       production bundle in dist/ (offline: no network, no certificates)
 //   npm run dev-server  https://localhost:3000 with the Office dev certificates (office-addin-dev-certs)
+//   npm run build -- --env origin=https://addins.example.org   (or RATCHET_ORIGIN=…): a build for
+//                       that origin — dist/manifest.xml, functions.json and the scripts carry it
 // Outputs: functions.js (custom functions; its JSDoc becomes functions.json through
 // custom-functions-metadata-plugin, which also adds the CustomFunctions.associate calls),
 // taskpane.js + taskpane.html (the shared-runtime page that loads both bundles), the worker chunk
@@ -11,6 +13,7 @@ import { createRequire } from 'node:module';
 import HtmlWebpackPlugin from 'html-webpack-plugin';
 import CopyWebpackPlugin from 'copy-webpack-plugin';
 import { renderHelpPage } from './scripts/help-page.mjs';
+import { DEV_ORIGIN, ORIGIN_ASSETS, REQUIRED_ORIGIN_ASSETS, originSetting, substituteOrigin } from './scripts/origin.mjs';
 
 const require = createRequire(import.meta.url);
 const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin');
@@ -25,6 +28,7 @@ async function httpsOptions() {
 export default async (env, options) => {
   const dev = options.mode !== 'production';
   const serve = Boolean(env && env.WEBPACK_SERVE);
+  const origin = serve ? undefined : originSetting(env, process.env);
   return {
     mode: dev ? 'development' : 'production',
     devtool: dev ? 'source-map' : false,
@@ -64,6 +68,28 @@ export default async (env, options) => {
             compilation.fileDependencies.add(readme);
             compilation.hooks.processAssets.tap({ name: 'RatchetHelpPage', stage: compiler.webpack.Compilation.PROCESS_ASSETS_STAGE_ADDITIONAL }, () => {
               compilation.emitAsset('help.html', new compiler.webpack.sources.RawSource(renderHelpPage(readme)));
+            });
+          });
+        },
+      },
+      // A deployment build: the dev origin in the emitted manifest, metadata and scripts becomes
+      // the chosen origin (after minification, so string literals are final).
+      {
+        apply(compiler) {
+          if (origin === undefined) return;
+          compiler.hooks.thisCompilation.tap('RatchetOrigin', (compilation) => {
+            compilation.hooks.processAssets.tap({ name: 'RatchetOrigin', stage: compiler.webpack.Compilation.PROCESS_ASSETS_STAGE_OPTIMIZE_INLINE }, (assets) => {
+              const changed = new Set();
+              for (const name of Object.keys(assets)) {
+                if (!ORIGIN_ASSETS.test(name)) continue;
+                const text = assets[name].source().toString();
+                if (!text.includes(DEV_ORIGIN)) continue;
+                compilation.updateAsset(name, new compiler.webpack.sources.RawSource(substituteOrigin(text, origin)));
+                changed.add(name);
+              }
+              for (const name of REQUIRED_ORIGIN_ASSETS) {
+                if (!changed.has(name)) compilation.errors.push(new compiler.webpack.WebpackError(`origin ${origin}: ${name} was not emitted with the dev origin ${DEV_ORIGIN} to replace.`));
+              }
             });
           });
         },

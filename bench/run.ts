@@ -8,6 +8,7 @@ import { run as cvSuite } from './cv.js';
 import { run as surfaceSuite } from './surface.js';
 import { run as runnerSuite } from './runner.js';
 import { run as functionsSuite } from './functions.js';
+import { run as shapesSuite } from './shapes.js';
 
 type Suite = (emit: (r: BenchRecord) => void, options: { quick: boolean }) => Promise<void> | void;
 const suites: [string, Suite][] = [['core', coreSuite]];
@@ -15,6 +16,7 @@ suites.push(['cv', cvSuite]);
 suites.push(['surface', surfaceSuite]);
 suites.push(['runner', runnerSuite]);
 suites.push(['functions', functionsSuite]);
+suites.push(['shapes', shapesSuite]);
 
 const json = process.argv.includes('--json');
 const quick = process.argv.includes('--quick');

@@ -7,8 +7,8 @@
  *   quotes ("") are data; text after the closing quote up to the next separator is an error;
  * - a quote inside an unquoted field is kept as a literal character (lenient);
  * - a UTF-8 byte-order mark at the start is dropped;
- * - the separator is a comma unless {@link sniffSeparator} finds that the first record is split
- *   only by semicolons or tabs (files saved with a comma as the decimal mark use ";").
+ * - the separator (",", ";" or tab) and the decimal mark ("." or ",") are detected from the
+ *   text ({@link readCsv}), or given by the caller.
  *
  * Cost O(length of the text). Records may have different numbers of fields; callers pad.
  */
@@ -23,19 +23,117 @@ export class CsvError extends Error {
   }
 }
 
-/** The separator a file most likely uses: ",", ";" or "\t", judged from its first line outside quotes. */
-export function sniffSeparator(text: string): ',' | ';' | '\t' {
+/** Field separators the reader recognises. */
+export type CsvSeparator = ',' | ';' | '\t';
+
+/** Decimal marks the reader recognises: "." (25.3) or "," (25,3). */
+export type DecimalMark = '.' | ',';
+
+/** How a CSV file is written: its field separator and its decimal mark. */
+export interface CsvFormat {
+  readonly separator: CsvSeparator;
+  readonly decimal: DecimalMark;
+}
+
+const SEPARATORS: readonly CsvSeparator[] = [',', ';', '\t'];
+/** Lines the detection looks at (outside quotes, blank lines skipped). */
+const SNIFF_LINES = 50;
+
+/** The first non-blank lines of `text`, each split by `sep` outside quotes (quotes kept). */
+function splitLines(text: string, sep: string): string[][] {
+  const lines: string[][] = [];
+  let fields: string[] = [];
+  let field = '';
   let inQuotes = false;
-  const counts = { ',': 0, ';': 0, '\t': 0 };
-  for (let i = 0; i < text.length; i++) {
+  const end = (): void => {
+    fields.push(field);
+    if (fields.length > 1 || fields[0]!.trim() !== '') lines.push(fields);
+    fields = [];
+    field = '';
+  };
+  for (let i = 0; i < text.length && lines.length < SNIFF_LINES; i++) {
     const ch = text[i]!;
     if (ch === '"') inQuotes = !inQuotes;
-    else if (!inQuotes && (ch === '\n' || ch === '\r')) break;
-    else if (!inQuotes && (ch === ',' || ch === ';' || ch === '\t')) counts[ch]++;
+    if (!inQuotes && (ch === '\n' || ch === '\r')) {
+      end();
+      continue;
+    }
+    if (!inQuotes && ch === sep) {
+      fields.push(field);
+      field = '';
+      continue;
+    }
+    field += ch;
   }
-  if (counts[','] === 0 && counts[';'] > 0 && counts[';'] >= counts['\t']) return ';';
-  if (counts[','] === 0 && counts['\t'] > 0) return '\t';
-  return ',';
+  if (lines.length < SNIFF_LINES && (field !== '' || fields.length > 0)) end();
+  return lines;
+}
+
+const DOT_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+const COMMA_NUMBER = /^[+-]?(\d+,?\d*|,\d+)([eE][+-]?\d+)?$/;
+
+/**
+ * The separator a file most likely uses: ",", ";" or "\t". Each candidate splits the first 50
+ * non-blank lines outside quotes; the winner splits the most lines into the same number (≥ 2) of
+ * fields — so a title line above the table or a header written without separators does not
+ * mislead it — and, on a tie, yields the most fields that read as numbers (a decimal comma then
+ * points at ";" or tab rather than ","). A file with no separator at all is read with ",".
+ * Cost O(length of the first 50 lines).
+ * @example sniffSeparator('Stunden;Verschleiß (µm)\n0;25,3\n10;27,9\n') // → ';'
+ */
+export function sniffSeparator(text: string): CsvSeparator {
+  const src = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  let best: CsvSeparator = ',';
+  let bestScore = [0, 0];
+  for (const sep of SEPARATORS) {
+    const lines = splitLines(src, sep);
+    const counts = new Map<number, number>();
+    for (const l of lines) if (l.length >= 2) counts.set(l.length, (counts.get(l.length) ?? 0) + 1);
+    let agree = 0;
+    for (const c of counts.values()) agree = Math.max(agree, c);
+    let numbers = 0;
+    for (const l of lines) for (const f of l) if (DOT_NUMBER.test(f.trim()) || (sep !== ',' && COMMA_NUMBER.test(f.trim()))) numbers++;
+    const score = [agree, numbers];
+    if (score[0]! > bestScore[0]! || (score[0] === bestScore[0] && score[1]! > bestScore[1]!)) {
+      best = sep;
+      bestScore = score;
+    }
+  }
+  return best;
+}
+
+/**
+ * The decimal mark of parsed records: "," when more fields read as numbers with a decimal comma
+ * ("25,3", "-0,5") than with a decimal point ("25.3"); "." otherwise. Whole numbers count for
+ * neither. A field such as "1,234" (a comma and three digits) counts as a decimal comma, as it does
+ * in a file written with that convention. Cost O(fields).
+ * @example sniffDecimal([['h', 'w'], ['0', '25,3'], ['10', '27,9']]) // → ','
+ */
+export function sniffDecimal(records: readonly (readonly string[])[]): DecimalMark {
+  let comma = 0;
+  let dot = 0;
+  for (const r of records) {
+    for (const f of r) {
+      const t = f.trim();
+      if (/^[+-]?\d*,\d+([eE][+-]?\d+)?$/.test(t)) comma++;
+      else if (/^[+-]?\d*\.\d+([eE][+-]?\d+)?$/.test(t)) dot++;
+    }
+  }
+  return comma > dot ? ',' : '.';
+}
+
+/**
+ * Reads CSV text with its format detected ({@link sniffSeparator}, {@link sniffDecimal}) unless
+ * given: `options.separator` and `options.decimal` override the detection (the pane's control).
+ * Cost O(length of the text).
+ * @throws CsvError as {@link parseCsv}.
+ * @example readCsv('x;y\n1;2,5\n') // → { records: [['x', 'y'], ['1', '2,5']], format: { separator: ';', decimal: ',' } }
+ */
+export function readCsv(text: string, options: Partial<CsvFormat> = {}): { records: string[][]; format: CsvFormat } {
+  const separator = options.separator ?? sniffSeparator(text);
+  const records = parseCsv(text, separator);
+  const decimal = options.decimal ?? sniffDecimal(records);
+  return { records, format: { separator, decimal } };
 }
 
 /**

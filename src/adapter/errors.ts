@@ -6,7 +6,8 @@
  *   with the error's message, which names the argument and what it needs;
  * - `NOT_REACHABLE` (INVERT target outside the curve's range) → `#N/A` with its message;
  * - `CANCELLED` → `#N/A` "calculation cancelled" (Excel discards a cancelled result anyway);
- * - `NUMERICAL` (a numerical failure — tests show it does not happen) → `#NUM!`;
+ * - `NUMERICAL` (a fit that cannot be computed to tolerance, e.g. a knot fit whose normal equations
+ *   are too ill-conditioned; see docs/tolerances.md) → `#NUM!` with its message;
  * - an error cell inside a data argument ({@link InputCellError}) → that same error code when a
  *   custom function may return it (`#DIV/0!`, `#N/A`, `#NUM!`, `#NULL!`, `#VALUE!`); codes Excel
  *   does not accept as a custom-function result (`#REF!`, `#NAME?`, `#SPILL!`, `#CALC!`, …) become

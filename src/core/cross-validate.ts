@@ -5,13 +5,16 @@ import type { Direction, DirectionOption } from './types.js';
 import { boundsPair, finiteArray, sameLength, weightArray } from './validate.js';
 import { resolveDirection } from './direction.js';
 import { sortOrder } from './sort-order.js';
-import { fitChecked, type KnotSpec } from './model.js';
+import { checkShapeSpec, fitChecked, type KnotSpec, type ShapeSpec } from './model.js';
+import { smoothTableAt } from './smooth-table.js';
+import type { Curvature, Degree } from './shape-fit.js';
 import { knotChecked } from './knot-fit.js';
 import { fitStatistics } from './statistics.js';
 import { checkFolds, holdoutAssignment, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
 import { fail } from './errors.js';
 import { quantileKnotsSorted } from './knots.js';
+import { scaleExponents, timesPowerOfTwo } from './scale.js';
 
 /** Where the knots of a candidate count K go inside each training set. */
 export type KnotPlacement = 'even' | 'quantile';
@@ -41,6 +44,13 @@ export interface CrossValidationOptions {
    * range; `'quantile'` — at the training x quantiles (the rule of quantileKnots).
    */
   placement?: KnotPlacement;
+  /**
+   * Shape of every candidate knot fit, as in fitMonotone: curvature −1 concave, 0 any (default),
+   * 1 convex; degree 1 piecewise linear (default), 2 smooth. With a shape, candidate 0 (the
+   * classic fit, which has no shape) is RatchetError BAD_OPTION.
+   */
+  curvature?: Curvature;
+  degree?: Degree;
   /** Cancellation: checked before every fit; when aborted, RatchetError CANCELLED. */
   signal?: AbortSignal;
   /** Called after every fit with the fraction of fits done, in (0, 1]; the last call is 1. */
@@ -114,7 +124,7 @@ export function defaultCandidates(x: ArrayLike<number>): number[] {
 }
 
 /** Validated candidate list: distinct entries, each 0 or a whole number 2 … 100000. */
-function checkCandidates(candidates: ArrayLike<number>): number[] {
+function checkCandidates(candidates: ArrayLike<number>, shape: ShapeSpec): number[] {
   if (candidates === null || typeof candidates !== 'object' || typeof candidates.length !== 'number') {
     fail('BAD_OPTION', 'candidates', 'needs a list of knot counts');
   }
@@ -125,6 +135,9 @@ function checkCandidates(candidates: ArrayLike<number>): number[] {
     const k = candidates[i];
     if (typeof k !== 'number' || !Number.isInteger(k) || k < 0 || k === 1 || k > 100000) {
       fail('BAD_OPTION', 'candidates', `needs knot counts that are 0 (classic fit) or whole numbers from 2 to 100000; entry ${i + 1} is ${String(k)}`);
+    }
+    if (k === 0 && (shape.curvature !== 0 || shape.degree !== 1)) {
+      fail('BAD_OPTION', 'candidates', `needs knot counts ≥ 2 with a curvature or degree option (the classic fit has no shape); entry ${i + 1} is 0`);
     }
     if (seen.has(k)) fail('BAD_OPTION', 'candidates', `needs distinct knot counts; ${k} appears more than once`);
     seen.add(k);
@@ -161,8 +174,15 @@ interface Prepared {
   lower: number;
   upper: number;
   placement: KnotPlacement;
+  shape: ShapeSpec;
   /** Σ w (y − ȳ_w)² over all used rows. */
   sst: number;
+  /**
+   * y (and the bounds) are held divided by 2^yExp and the weights by a power of two, so that no
+   * sum underflows or overflows whatever the units (see src/core/scale.ts); scores in units of y
+   * are multiplied back by 2^yExp ({@link inUnitsOfY}). 0 when no rescaling was needed.
+   */
+  yExp: number;
 }
 
 function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValidationOptions): Prepared {
@@ -170,12 +190,25 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
   sameLength('x', xs.length, 'y', y);
   const ys = finiteArray('y', y);
   const ws = weightArray(xs.length, options.weights);
-  const [lower, upper] = boundsPair(options.lower, options.upper);
+  let [lower, upper] = boundsPair(options.lower, options.upper);
+  // Exact power-of-two rescaling of the copies (y near 1e-100 with weights near 1e-250 would
+  // otherwise underflow in every w·r² of the scores).
+  const scales = scaleExponents(ys, ws);
+  const yExp = scales.needed ? scales.yExp : 0;
+  if (scales.needed) {
+    for (let i = 0; i < ys.length; i++) {
+      ys[i] = timesPowerOfTwo(ys[i]!, -scales.yExp);
+      ws[i] = timesPowerOfTwo(ws[i]!, -scales.wExp);
+    }
+    lower = timesPowerOfTwo(lower, -scales.yExp);
+    upper = timesPowerOfTwo(upper, -scales.yExp);
+  }
   const direction = options.direction ?? 'up';
   if (direction !== 'up' && direction !== 'down' && direction !== 'auto') {
     fail('BAD_OPTION', 'direction', `needs 'up', 'down' or 'auto'; got ${String(direction)}`);
   }
   const placement = checkPlacement(options.placement);
+  const shape = checkShapeSpec(options.curvature, options.degree, 2);
   // Zero-weight rows neither train nor score: drop them before the split.
   let n = 0;
   for (let i = 0; i < xs.length; i++) if (ws[i]! > 0) n++;
@@ -210,7 +243,21 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
   const mean = sumWY / sumW;
   let sst = 0;
   for (let k = 0; k < n; k++) sst += sw[k]! * (sy[k]! - mean) ** 2;
-  return { n, sx, sy, sw, weighted: options.weights !== undefined && options.weights !== null, rowOf: order, direction, lower, upper, placement, sst };
+  return { n, sx, sy, sw, weighted: options.weights !== undefined && options.weights !== null, rowOf: order, direction, lower, upper, placement, shape, sst, yExp };
+}
+
+/** Scores back in the units of y after {@link prepare}'s rescaling (R² has no units). */
+function inUnitsOfY(scores: CandidateScore[], yExp: number): CandidateScore[] {
+  if (yExp === 0) return scores;
+  const up = (v: number) => timesPowerOfTwo(v, yExp);
+  return scores.map((s) => ({
+    ...s,
+    cvRmse: up(s.cvRmse),
+    cvSe: up(s.cvSe),
+    cvMae: up(s.cvMae),
+    trainRmse: up(s.trainRmse),
+    foldRmse: s.foldRmse.map(up),
+  }));
 }
 
 /**
@@ -347,6 +394,8 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
     }
     const direction: Direction = p.direction === 'auto' ? resolveDirection(tx, ty, undefined, 'auto') : p.direction;
     const trainW = p.weighted ? tw : null;
+    // Plain knot candidates (no curvature or degree option) take the table-only path.
+    const plain = p.shape.curvature === 0 && p.shape.degree === 1;
     const pred = new Float64Array(m);
     let spare: Float64Array | null = null;
     for (let c = 0; c < C; c++) {
@@ -355,27 +404,33 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
       let knotX: Float64Array;
       let knotY: Float64Array;
       let trainRmse: number;
-      if (K === 0) {
-        const model = fitChecked(tx, ty, trainW, 0, direction, p.lower, p.upper);
+      if (K === 0 || !plain) {
+        // The classic fit, or a shaped knot fit (its own solver): the full model.
+        const spec: KnotSpec = K === 0 ? 0 : p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
+        const model = fitChecked(tx, ty, plain ? trainW : tw, spec, direction, p.lower, p.upper, p.shape);
         knotX = model.knotX;
         knotY = model.knotY;
         trainRmse = model.stats.rmse;
+        if (model.interpolation === 'quadratic') {
+          for (let i = 0; i < m; i++) pred[i] = smoothTableAt(knotX, knotY, 'quadratic', ex[i]!);
+        } else interpolateAscending(knotX, knotY, ex, pred);
       } else {
         // The knot table only (no fitted values); the training RMSE from one merge walk over the
-        // training rows, which are in x order.
+        // training rows, which are in x order. y and w are already in prepare's rescaled units,
+        // so the walk's sums stay far from overflow and underflow; should they not, the scaled
+        // statistics of the full fitted values take over.
         const spec: KnotSpec = p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
         const fit = knotChecked(tx, ty, trainW, spec, direction, p.lower, p.upper, false, false);
         knotX = fit.knotX;
         knotY = fit.knotY;
         trainRmse = trainingRmse(knotX, knotY, tx, ty, trainW);
         if (Number.isNaN(trainRmse)) {
-          // Sums near overflow or underflow: the scaled statistics of the full fitted values.
           spare ??= new Float64Array(tx.length);
           interpolateAscending(knotX, knotY, tx, spare);
           trainRmse = fitStatistics(ty, spare, trainW ?? undefined).rmse;
         }
+        interpolateAscending(knotX, knotY, ex, pred);
       }
-      interpolateAscending(knotX, knotY, ex, pred);
       let sse = 0;
       let sae = 0;
       let sumW = 0;
@@ -466,7 +521,7 @@ function scoreOf(knots: number, a: Accumulator, sstTotal: number, fits: number, 
  * @param y responses, finite, same length.
  * @param options see {@link CrossValidationOptions}.
  * @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_BOUNDS,
- *   BAD_OPTION (candidates, folds, repeats, seed, direction, placement), TOO_FEW_POINTS (fewer
+ *   BAD_OPTION (candidates, folds, repeats, seed, direction, placement, curvature, degree), TOO_FEW_POINTS (fewer
  *   than 2 distinct x, or a training set with fewer than 2 distinct x), CANCELLED.
  * @example crossValidate([1, 2, 3, 4, 5, 6], [1, 3, 2, 4, 6, 5], { candidates: [0], folds: 3, seed: 0 })
  *   .scores[0].cvRmse // → 1.3420… = √(389/216)
@@ -474,7 +529,7 @@ function scoreOf(knots: number, a: Accumulator, sstTotal: number, fits: number, 
  */
 export function crossValidate(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValidationOptions = {}): CrossValidationResult {
   const p = prepare(x, y, options);
-  const candidates = options.candidates === undefined ? defaultCandidates(p.sx) : checkCandidates(options.candidates);
+  const candidates = options.candidates === undefined ? defaultCandidates(p.sx) : checkCandidates(options.candidates, p.shape);
   const folds = checkFolds(options.folds ?? 5, p.n);
   const repeats = checkRepeats(options.repeats ?? 1);
   const seed = checkSeed(options.seed ?? 1);
@@ -488,7 +543,7 @@ export function crossValidate(x: ArrayLike<number>, y: ArrayLike<number>, option
   }
   checkTrainingSets(p, tasks, (t) => `fold ${t.fold + 1} of repeat ${t.repeat + 1}`);
   const acc = evaluate(p, tasks, candidates, options, false);
-  const scores = candidates.map((k, c) => scoreOf(k, acc[c]!, repeats * p.sst, tasks.length, false));
+  const scores = inUnitsOfY(candidates.map((k, c) => scoreOf(k, acc[c]!, repeats * p.sst, tasks.length, false)), p.yExp);
   return { scores, folds, repeats, seed, n: p.n, method: 'k-fold' };
 }
 
@@ -520,7 +575,7 @@ export function crossValidate(x: ArrayLike<number>, y: ArrayLike<number>, option
  */
 export function holdoutValidate(x: ArrayLike<number>, y: ArrayLike<number>, options: HoldoutOptions = {}): CrossValidationResult {
   const p = prepare(x, y, options);
-  const candidates = options.candidates === undefined ? defaultCandidates(p.sx) : checkCandidates(options.candidates);
+  const candidates = options.candidates === undefined ? defaultCandidates(p.sx) : checkCandidates(options.candidates, p.shape);
   const seed = checkSeed(options.seed ?? 1);
   const testFraction = options.testFraction ?? 0.25;
   const label = holdoutAssignment(p.n, testFraction, seed);
@@ -545,6 +600,6 @@ export function holdoutValidate(x: ArrayLike<number>, y: ArrayLike<number>, opti
       testRows++;
     }
   }
-  const scores = candidates.map((k, c) => scoreOf(k, acc[c]!, sst, 1, true));
+  const scores = inUnitsOfY(candidates.map((k, c) => scoreOf(k, acc[c]!, sst, 1, true)), p.yExp);
   return { scores, folds: 1, repeats: 1, seed, n: p.n, method: 'holdout', testFraction, testRows };
 }

@@ -30,7 +30,10 @@ export type ErrorCode =
   | 'NOT_REACHABLE'
   /** Work stopped through an AbortSignal. */
   | 'CANCELLED'
-  /** A numerical failure (should not happen; tests try to show it cannot). */
+  /**
+   * A result that cannot be computed to tolerance (a knot fit whose normal equations lose more than
+   * about 6 digits; see docs/tolerances.md), or an internal numerical failure (should not happen).
+   */
   | 'NUMERICAL';
 
 /** The one error type thrown by `src/core`. */

@@ -7,6 +7,12 @@ import { sortRows } from './sort-order.js';
 import { resolveDirection } from './direction.js';
 import { fail } from './errors.js';
 import { lerp, share } from './interpolate.js';
+import { scaleExponents, timesPowerOfTwo, type ScaleExponents } from './scale.js';
+import { poolTies } from './pool-ties.js';
+import { pavaSortedWide } from './pava-wide.js';
+
+/** Weight spreads (log₂) beyond which PAVA runs on block means (see pavaSortedWide). */
+const WIDE_SPREAD = 600;
 
 /** Result of {@link isotonicRegression}. */
 export interface IsotonicFit {
@@ -95,30 +101,43 @@ export function isotonicChecked(
   lower: number,
   upper: number,
 ): IsotonicFit {
+  // One pass finds the power-of-two scales of y and w (src/core/scale.ts). Weights spread over more
+  // than 2^600 go to the pooled path with PAVA on block means; everything else runs the one-pass
+  // fit below on y and w multiplied by powers of two as they are gathered (exact).
+  const scales = scaleExponents(ys, ws);
+  if (scales.needed && scales.spread > WIDE_SPREAD) return isotonicWide(xs, ys, ws!, scales, direction, lower, upper);
   const n = xs.length;
-  let maxY = 0;
-  let maxW = 0;
-  for (let i = 0; i < n; i++) {
-    const a = Math.abs(ys[i]!);
-    if (a > maxY) maxY = a;
-  }
-  if (ws === null) maxW = 1;
-  else for (let i = 0; i < n; i++) if (ws[i]! > maxW) maxW = ws[i]!;
-  const yExp = exponentOf(maxY);
+  // y to its largest |y| among positive-weight rows in (1/2, 1], every weight to at most 2^-32 (so
+  // that even 2^32 of them sum and square far from overflow). Each factor is applied as two halves,
+  // which stay within the range of doubles for the exponents of 1e±308 data; near 1 (no rescaling
+  // needed) the second halves are small powers of two too, and the products are exact either way.
   const sign = direction === 'up' ? 1 : -1;
-  const yScale = sign * 2 ** -yExp;
-  const wScale = 2 ** -(exponentOf(maxW) + 32);
+  const yHalf = Math.trunc(scales.yExp / 2);
+  const yScale = sign * 2 ** -yHalf;
+  const yScale2 = 2 ** -(scales.yExp - yHalf);
+  const wExp = scales.wExp + 32;
+  const wHalf = Math.trunc(wExp / 2);
+  const wScale = 2 ** -wHalf;
+  const wScale2 = 2 ** -(wExp - wHalf);
 
   const { order, sorted, spare, spareOrder } = sortRows(xs, true);
   const sx = sorted!; // distinct x are compacted into its front
   // y and w in x order, gathered in loops of independent loads (fused with the pooling below, each
   // load would wait behind PAVA's data-dependent branch: 3–4× slower at 10⁶ random rows).
   const sy = spare ?? new Float64Array(n);
-  for (let k = 0; k < n; k++) sy[k] = yScale * ys[order[k]!]!;
   let sw: Float64Array | null = null;
-  if (ws !== null) {
+  if (ws === null) {
+    for (let k = 0; k < n; k++) sy[k] = yScale * ys[order[k]!]! * yScale2;
+  } else {
+    // Rows of weight 0 take y = 0: their y counts nowhere, and a large one scaled by the positive
+    // rows' factor could overflow (0·∞ would then poison the tie's sum).
     sw = new Float64Array(n);
-    for (let k = 0; k < n; k++) sw[k] = wScale * ws[order[k]!]!;
+    for (let k = 0; k < n; k++) {
+      const o = order[k]!;
+      const w = ws[o]!;
+      sw[k] = wScale * w * wScale2;
+      sy[k] = w > 0 ? yScale * ys[o]! * yScale2 : 0;
+    }
   }
   // Block stack of pool-adjacent-violators: summed weight, summed w·mean, first distinct x. The
   // summed weights live in the buffer of the fitted values, which is written only at the end.
@@ -129,6 +148,9 @@ export function isotonicChecked(
   // First sorted row of each distinct x (and n at the end), and the pooled weight of each.
   const groupStart = new Uint32Array(n + 1);
   const weight = new Float64Array(n);
+  const unit = wScale * wScale2; // one unit weight, scaled (2^-32)
+  const wBack = 2 ** wHalf;
+  const wBack2 = 2 ** (wExp - wHalf);
   let top = -1;
   let m = 0;
   let active = 0;
@@ -140,8 +162,8 @@ export function isotonicChecked(
     let S = 0;
     if (sw === null) {
       do {
-        W += wScale;
-        S += wScale * sy[k]!;
+        W += unit;
+        S += unit * sy[k]!;
         k++;
       } while (k < n && sx[k] === x);
     } else {
@@ -153,7 +175,7 @@ export function isotonicChecked(
       } while (k < n && sx[k] === x);
     }
     sx[m] = x;
-    weight[m] = W / wScale;
+    weight[m] = W * wBack * wBack2;
     if (W > 0) {
       active++;
       // Push the pooled point (mean S/W, weight W) and merge while the block below has a mean ≥
@@ -182,7 +204,8 @@ export function isotonicChecked(
   // Value at every distinct x: its block's level (kept monotone against rounding in the division,
   // as pavaSorted, then scaled back and clipped); zero-weight distinct x between two positive-weight
   // ones interpolate linearly, those beyond the outermost take the end value.
-  const back = sign * 2 ** yExp;
+  const back = sign * 2 ** yHalf;
+  const back2 = 2 ** (scales.yExp - yHalf);
   const value = new Float64Array(m);
   const blocks = top + 1;
   let levels = 0;
@@ -199,7 +222,7 @@ export function isotonicChecked(
   for (let b = 0; b < blocks; b++) {
     const level = Math.max(stackS[b]! / stackW[b]!, previous);
     previous = level;
-    const v = Math.min(upper, Math.max(lower, back * level));
+    const v = Math.min(upper, Math.max(lower, back * level * back2));
     if (v !== previousClipped) levels++;
     previousClipped = v;
     const end = b + 1 < blocks ? stackStart[b + 1]! : m;
@@ -230,6 +253,70 @@ export function isotonicChecked(
   }
   const x = m === n ? sx : sx.slice(0, m);
   return { method: 'isotonic', direction, x, value, weight: m === n ? weight : weight.slice(0, m), fitted, levels, knotX, knotY };
+}
+
+/**
+ * The classic fit for weights spread over more than 2^600 (rescaled to their geometric middle by
+ * the caller's scales): ties pooled by {@link poolTies} on y and w multiplied by powers of two,
+ * then PAVA on block means ({@link pavaSortedWide}), which never multiplies two weights, so that
+ * neither the heaviest nor the lightest row overflows or underflows; values and pooled weights are
+ * scaled back to the caller's units. O(n log n) for the sort in poolTies, O(n) otherwise.
+ */
+function isotonicWide(
+  xs: Float64Array,
+  ys: Float64Array,
+  ws: Float64Array,
+  scales: ScaleExponents,
+  direction: Direction,
+  lower: number,
+  upper: number,
+): IsotonicFit {
+  const yExp = scales.yExp;
+  const pooled = poolTies(
+    xs,
+    ys.map((v, i) => (ws[i]! > 0 ? timesPowerOfTwo(v, -yExp) : 0)),
+    ws.map((v) => timesPowerOfTwo(v, -scales.wExp)),
+  );
+  const m = pooled.x.length;
+  const active: number[] = [];
+  for (let j = 0; j < m; j++) if (pooled.w[j]! > 0) active.push(j);
+  if (active.length < 2) {
+    fail('TOO_FEW_POINTS', 'x', `needs at least 2 distinct values with positive weight; got ${active.length}`);
+  }
+  const sign = direction === 'up' ? 1 : -1;
+  const ay = new Float64Array(active.length);
+  const aw = new Float64Array(active.length);
+  for (let k = 0; k < active.length; k++) {
+    ay[k] = sign * pooled.y[active[k]!]!;
+    aw[k] = pooled.w[active[k]!]!;
+  }
+  const { fitted: af, starts } = pavaSortedWide(ay, aw);
+  const tx = new Float64Array(active.length);
+  const tv = new Float64Array(active.length);
+  for (let k = 0; k < active.length; k++) {
+    tx[k] = pooled.x[active[k]!]!;
+    tv[k] = Math.min(upper, Math.max(lower, timesPowerOfTwo(sign * af[k]!, yExp)));
+  }
+  // Levels: distinct values after clipping (clipping may merge blocks at a bound).
+  let levels = starts.length > 0 ? 1 : 0;
+  for (let b = 1; b < starts.length; b++) if (tv[starts[b]!] !== tv[starts[b - 1]!]) levels++;
+  // Zero-weight distinct x: linear interpolation between the neighbouring positive-weight ones,
+  // the end value beyond the outermost.
+  const value = new Float64Array(m);
+  let pending = 0;
+  for (let k = 0; k < active.length; k++) {
+    const g = active[k]!;
+    if (pending < g) fillPending(value, pooled.x, pending, g, k > 0 ? tx[k - 1]! : NaN, k > 0 ? tv[k - 1]! : NaN, tx[k]!, tv[k]!);
+    value[g] = tv[k]!;
+    pending = g + 1;
+  }
+  const last = active.length - 1;
+  if (pending < m) fillPending(value, pooled.x, pending, m, tx[last]!, tv[last]!, NaN, NaN);
+  const fitted = new Float64Array(xs.length);
+  for (let i = 0; i < xs.length; i++) fitted[i] = value[pooled.group[i]!]!;
+  const [knotX, knotY] = minimalTable(tx, tv, tx.length);
+  for (let j = 0; j < m; j++) pooled.w[j] = timesPowerOfTwo(pooled.w[j]!, scales.wExp);
+  return { method: 'isotonic', direction, x: pooled.x, value, weight: pooled.w, fitted, levels, knotX, knotY };
 }
 
 /**
@@ -275,9 +362,4 @@ function minimalTable(tx: Float64Array, tv: Float64Array, m: number): [Float64Ar
     kept++;
   }
   return [tx.slice(0, kept), tv.slice(0, kept)];
-}
-
-/** The exponent k of the smallest power of two 2^k ≥ v, clamped to the normal range; 0 for v = 0. */
-function exponentOf(v: number): number {
-  return v > 0 ? Math.min(1023, Math.max(-1022, Math.ceil(Math.log2(v)))) : 0;
 }

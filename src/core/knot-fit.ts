@@ -8,6 +8,7 @@ import { resolveDirection } from './direction.js';
 import { solveMonotoneTridiagonal } from './monotone-qp.js';
 import { fail } from './errors.js';
 import { interpolateAt, intervalIndex, lerp } from './interpolate.js';
+import { scaleExponents, timesPowerOfTwo } from './scale.js';
 
 /** Options of {@link knotRegression}. */
 export interface KnotFitOptions extends CommonFitOptions {
@@ -136,7 +137,11 @@ export function knotChecked(
   const xmax = rangeOut[1]!;
   if (rangeOut[2] !== 0) finiteArray('x', xs); // throws NON_FINITE naming the entry
   if (!(xmin < xmax)) fail('TOO_FEW_POINTS', 'x', `needs at least 2 distinct values with positive weight; got ${xmin === xmax ? 1 : 0}`);
-  if (!rescaled && !(xmax - xmin < HUGE)) return knotRescaled(xs, ys, ws, knots, direction, lower, upper, withFitted);
+  // y or weights far from 1 (1e-100-sized y with 1e-250 weights underflow in w·y), or weights spread
+  // over more than 2^600: fit the exactly rescaled problem (see src/core/scale.ts).
+  if (!rescaled && (!(xmax - xmin < HUGE) || scaleExponents(ys, ws).needed)) {
+    return knotRescaled(xs, ys, ws, knots, direction, lower, upper, withFitted);
+  }
   const t = typeof knots === 'number' ? evenKnots(xmin, xmax, knots) : knots;
   const K = t.length;
   const even = typeof knots === 'number';
@@ -171,7 +176,12 @@ export function knotChecked(
     if (a + 1 < m) re[a] = idx[a + 1] === idx[a]! + 1 ? e[idx[a]!]! : 0;
   }
   const rough = positiveDefinite(rd, re) ? null : addRoughness(rd, re, idx, t);
-  let { theta } = solveMonotoneTridiagonal(rd, re, rc, lo, hi);
+  // A tie-break scaled to the heaviest rows would swamp light ones: with weights spread over more
+  // than 2^20 (about 1e6), failing Cholesky pivots mean ill-conditioning, not a singular chain.
+  if (rough !== null && ws !== null && scaleExponents(ys, ws).spread > MAX_TIE_BREAK_SPREAD) illConditioned();
+  const solution = solveMonotoneTridiagonal(rd, re, rc, lo, hi);
+  let theta = solution.theta;
+  if (rough === null && solution.pivotRatio < MIN_PIVOT_RATIO) illConditioned();
   if (rough !== null) {
     // Proximal refinement: minimise SSE + ε·roughness(θ − θ_prev) from the tie-broken answer. Each
     // pass shrinks the tie-break's bias on the data-determined directions by a factor of about
@@ -508,32 +518,25 @@ function knotRescaled(
   withFitted: boolean,
 ): KnotFit {
   let mx = 0;
-  let my = 0;
-  let mw = 0;
-  for (let i = 0; i < xs.length; i++) {
-    mx = Math.max(mx, Math.abs(xs[i]!));
-    my = Math.max(my, Math.abs(ys[i]!));
-    if (ws !== null) mw = Math.max(mw, ws[i]!);
-  }
+  for (let i = 0; i < xs.length; i++) mx = Math.max(mx, Math.abs(xs[i]!));
+  if (typeof knots !== 'number') for (let j = 0; j < knots.length; j++) mx = Math.max(mx, Math.abs(knots[j]!));
   const ex = exponentOf(mx);
-  const ey = exponentOf(my);
-  const ew = ws === null ? 0 : exponentOf(mw);
+  // y to a largest |y| near 1; weights to a largest weight near 1, or their geometric middle near
+  // 1 when they span more than 2^600 (then both ends stay representable).
+  const { yExp: ey, wExp: ew } = scaleExponents(ys, ws);
   const sx = 2 ** -ex;
-  const sy = 2 ** -ey;
-  const sw = 2 ** -ew;
   const fit = knotChecked(
     xs.map((v) => v * sx),
-    ys.map((v) => v * sy),
-    ws === null ? null : ws.map((v) => v * sw),
+    ys.map((v) => timesPowerOfTwo(v, -ey)),
+    ws === null ? null : ws.map((v) => timesPowerOfTwo(v, -ew)),
     typeof knots === 'number' ? knots : knots.map((v) => v * sx),
     direction,
-    lower * sy,
-    upper * sy,
+    timesPowerOfTwo(lower, -ey),
+    timesPowerOfTwo(upper, -ey),
     true,
     withFitted,
   );
-  // Scale back by 2^e in two halves (2^e itself may exceed the largest double).
-  const up = (v: number, e: number) => v * 2 ** Math.floor(e / 2) * 2 ** (e - Math.floor(e / 2));
+  const up = timesPowerOfTwo;
   return {
     ...fit,
     knotX: typeof knots === 'number' ? fit.knotX.map((v) => up(v, ex)) : knots,
@@ -557,6 +560,27 @@ function positiveDefinite(d: Float64Array, e: Float64Array): boolean {
   }
   return true;
 }
+
+/**
+ * Smallest pivot / diagonal ratio of the final normal equations that still determines every knot
+ * value to about 1e-9 relative (rounding u ≈ 1.1e-16 is amplified by about 1/ratio). Below it the
+ * fit is refused with NUMERICAL rather than returned inaccurate; see docs/tolerances.md.
+ */
+const MIN_PIVOT_RATIO = 1e-6;
+
+/** Throws NUMERICAL for normal equations too ill-conditioned to give the fit to 1e-9. */
+function illConditioned(): never {
+  return fail(
+    'NUMERICAL',
+    'knots',
+    'needs normal equations that determine every knot value to 1e-9; these do not (rows whose weights differ ' +
+      'by more than about 1e6 share an interval between two knots, or a knot is reached only through tiny ' +
+      "interpolation shares): put a knot at the heavy rows' x, use fewer knots, or less extreme weights",
+  );
+}
+
+/** log₂ of the largest weight spread (about 1e6) for which a failing Cholesky pivot is taken as a singular chain. */
+const MAX_TIE_BREAK_SPREAD = 20;
 
 /** Refinement passes after a roughness tie-break (see knotChecked). */
 const PROXIMAL_PASSES = 4;

@@ -1,6 +1,9 @@
 /**
  * Goodness-of-fit statistics of a fitted curve.
  */
+import { scaleExponents, timesPowerOfTwo } from './scale.js';
+
+import { spearman } from './direction.js';
 
 /** Result of {@link fitStatistics}. */
 export interface FitStatistics {
@@ -22,8 +25,9 @@ export interface FitStatistics {
 /**
  * Weighted fit statistics of `fitted` against `y`. Rows with weight 0 are ignored.
  *
- * Cost: O(n), two passes; four when the plain sums would overflow (|y| or w near 1e308) or the
- * squares underflow (1e-160-sized residuals), which are then taken on values scaled by powers of
+ * Cost: O(n), three passes; six when the plain sums would overflow (|y| or w near 1e308) or the
+ * products underflow (1e-160-sized residuals, or y and weights whose product is below 1e-300, such
+ * as y near 1e-100 with weights near 1e-250), which are then taken on values scaled by powers of
  * two so the results stay accurate. Inputs are not modified;
  * preconditions (same lengths, finite values, weights ≥ 0 with a positive total) are the
  * callers' — the fitting functions guarantee them.
@@ -46,7 +50,10 @@ export function fitStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w
   const sad = sums[5]!;
   const safe =
     Number.isFinite(sw) && Number.isFinite(sse) && Number.isFinite(sst) && Number.isFinite(sae) && Number.isFinite(sad) &&
-    (sae === 0 || sse > TINY) && (sad === 0 || sst > TINY);
+    (sae === 0 || sse > TINY) && (sad === 0 || sst > TINY) &&
+    // y or weights far from 1 (1e-260 y with 1e-64 weights): products w·|r| may have underflowed
+    // to 0 unseen — SAE and SSE would both be 0 — so take the scaled path (see src/core/scale.ts).
+    !scaleExponents(y, w ?? null).needed;
   if (!safe) return scaledStatistics(y, fitted, w, count);
   // R² below the range of doubles (an awful fit of near-constant y) is reported as −MAX_VALUE.
   const r2 = sst > 0 ? Math.max(1 - sse / sst, -Number.MAX_VALUE) : sse === 0 ? 1 : 0;
@@ -109,17 +116,17 @@ const TINY = 2 ** -800;
  */
 function scaledStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w: ArrayLike<number> | undefined, count: number): FitStatistics {
   const n = y.length;
-  let maxW = 0;
   let maxY = 0;
   for (let i = 0; i < n; i++) {
     const wi = w === undefined ? 1 : w[i]!;
     if (wi > 0) {
-      if (wi > maxW) maxW = wi;
       const a = Math.abs(y[i]!);
       if (a > maxY) maxY = a;
     }
   }
-  const wScale = 2 ** -powerOfTwoExponent(maxW);
+  // Weights scaled to their largest near 1, or to their geometric middle when they span more than
+  // 2^600 (as the fits do; see src/core/scale.ts), so the lightest rows still count.
+  const wScale = timesPowerOfTwo(1, -scaleExponents(y, w ?? null).wExp);
   const yExp = powerOfTwoExponent(maxY);
   const yScale = 2 ** -yExp;
   let sw = 0;
@@ -167,4 +174,63 @@ function scaledStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w: Ar
 /** The exponent k (clamped to the normal range) of the smallest power of two 2^k ≥ v; 0 for v = 0. */
 function powerOfTwoExponent(v: number): number {
   return v > 0 ? Math.min(1023, Math.max(-1022, Math.ceil(Math.log2(v)))) : 0;
+}
+
+/** Result of {@link spreadStatistics}: the rows STATS shows after those of {@link FitStatistics}. */
+export interface SpreadStatistics {
+  /**
+   * Residual standard deviation σ̂ = √(Σ w r² / (n_used − p)), p = the fit's `levels`; null when
+   * n_used ≤ p (no degrees of freedom left to estimate the scatter).
+   */
+  sigma: number | null;
+  /** Residual degrees of freedom n_used − p (may be 0 or negative: then `sigma` is null). */
+  dfResid: number;
+  /**
+   * Spearman's rank correlation of x and y over the rows with positive weight (average ranks for
+   * ties; the weights do not weight the ranks); null when x or y is constant on those rows.
+   */
+  spearman: number | null;
+}
+
+/**
+ * The scatter and association rows of STATS: σ̂, its degrees of freedom, and Spearman's ρ.
+ *
+ * σ̂² = SSE / (n_used − p) with SSE = Σ wᵢ (yᵢ − ŷᵢ)² over rows with positive weight, n_used their
+ * count, and p = `levels` (the distinct fitted levels: PAVA blocks for the classic fit, groups of
+ * equal knot values for the knot model — for the classic fit an estimate of its degrees of
+ * freedom, Meyer & Woodroofe 2000). SSE comes from {@link fitStatistics}, so huge or tiny data keep
+ * their accuracy.
+ *
+ * Cost: O(n) for σ̂, O(n) for ρ (radix-sorted ranks). Inputs are not modified; preconditions as
+ * for {@link fitStatistics} (same lengths, finite values, weights ≥ 0 with a positive total).
+ *
+ * @param x predictor values.
+ * @param y observed values, same length.
+ * @param fitted fitted values, same length.
+ * @param levels the fit's number of distinct fitted levels p, a whole number ≥ 1.
+ * @param w weights (default all 1).
+ * @example spreadStatistics([1, 2, 3, 4], [1, 3, 2, 4], [1, 2.5, 2.5, 4], 3) // → { sigma: 0.7071067811865476, dfResid: 1, spearman: 0.8 }
+ * @see R `summary(lm(...))$sigma` and `cor(x, y, method = "spearman")`, which these equal for a
+ *   straight-line fit (test/core/statistics-spread.test.ts).
+ */
+export function spreadStatistics(
+  x: ArrayLike<number>,
+  y: ArrayLike<number>,
+  fitted: ArrayLike<number>,
+  levels: number,
+  w?: ArrayLike<number>,
+): SpreadStatistics {
+  const base = fitStatistics(y, fitted, w);
+  const dfResid = base.n - levels;
+  const sigma = dfResid >= 1 ? Math.sqrt(base.sse / dfResid) : null;
+  const xs: number[] = [];
+  const ys: number[] = [];
+  for (let i = 0; i < x.length; i++) {
+    if (w === undefined || w[i]! > 0) {
+      xs.push(x[i]!);
+      ys.push(y[i]!);
+    }
+  }
+  const rho = spearman(xs, ys);
+  return { sigma, dfResid, spearman: Number.isNaN(rho) ? null : rho };
 }

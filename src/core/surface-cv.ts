@@ -9,6 +9,7 @@ import { fail } from './errors.js';
 import type { CandidateScore } from './cross-validate.js';
 import { checkSurfaceInputs, surfaceChecked, type AxisDirection } from './surface.js';
 import { evaluateLattice, locate } from './surface-lattice.js';
+import { scaleExponents, timesPowerOfTwo } from './scale.js';
 
 /** Options of {@link crossValidateSurface}. */
 export interface SurfaceCrossValidationOptions {
@@ -118,6 +119,18 @@ export function crossValidateSurface(
   const px2 = Float64Array.from(keep, (i) => a2[i]!);
   const py = Float64Array.from(keep, (i) => ay[i]!);
   const pw = Float64Array.from(keep, (i) => aw[i]!);
+  // Exact power-of-two rescaling of these copies (see src/core/scale.ts): y near 1e-100 with weights
+  // near 1e-250 would otherwise underflow in every w·e² of the scores. Scores in units of y are
+  // scaled back at the end.
+  const scales = scaleExponents(py, pw);
+  const yExp = scales.needed ? scales.yExp : 0;
+  if (scales.needed) {
+    for (let i = 0; i < py.length; i++) {
+      py[i] = timesPowerOfTwo(py[i]!, -scales.yExp);
+      pw[i] = timesPowerOfTwo(pw[i]!, -scales.wExp);
+    }
+  }
+  const up = (v: number): number => timesPowerOfTwo(v, yExp);
   const dist1 = distinctCount(px1);
   const dist2 = distinctCount(px2);
   if (dist1 < 2) fail('TOO_FEW_POINTS', 'x1', `needs at least 2 distinct values with positive weight to cross-validate; got ${dist1}`);
@@ -215,12 +228,12 @@ export function crossValidateSurface(
     return {
       knots1: k1,
       knots2: k2,
-      cvRmse: Math.sqrt(a.sse / a.sw),
-      cvSe: Math.sqrt(ss / (k - 1)) / Math.sqrt(k),
+      cvRmse: up(Math.sqrt(a.sse / a.sw)),
+      cvSe: up(Math.sqrt(ss / (k - 1)) / Math.sqrt(k)),
       cvR2: sstAll > 0 ? 1 - a.sse / sstAll : a.sse === 0 ? 1 : 0,
-      cvMae: a.sae / a.sw,
-      trainRmse: a.train / k,
-      foldRmse: a.foldRmse,
+      cvMae: up(a.sae / a.sw),
+      trainRmse: up(a.train / k),
+      foldRmse: a.foldRmse.map(up),
     };
   });
   return { scores, folds, repeats, seed, n, method: 'k-fold' };

@@ -5,7 +5,10 @@
  * JSON with --json); --out writes a copy with computed values cached; --set changes input cells
  * first. The input file is never modified.
  */
+import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
+import { writeFrozenCopy } from './freeze.js';
+import { checkOutput, OutputRefusedError } from './safe-write.js';
 import { parseInputValue, EvaluatedWorkbook, WorkbookReadError, type InputValue, type JsonCell, type FormulaResult } from './workbook.js';
 
 /** Parsed command line. */
@@ -13,15 +16,23 @@ export interface SheetArgs {
   readonly file: string;
   readonly json: boolean;
   readonly out: string | undefined;
+  /** Replace an existing --out file (never an input). */
+  readonly force: boolean;
   readonly set: Readonly<Record<string, InputValue>>;
+  /** --freeze: where to write a copy with every RATCHET formula replaced by its values (freeze.ts). */
+  readonly freeze?: string | undefined;
 }
 
 /** Usage text printed on --help or a bad command line. */
-export const USAGE = `usage: npm run sheet -- <workbook.xlsx> [--json] [--out <copy.xlsx>] [--set Sheet!A1=value ...]
+export const USAGE = `usage: npm run sheet -- <workbook.xlsx> [--json] [--out <copy.xlsx> [--force]] [--freeze <frozen.xlsx>] [--set Sheet!A1=value ...]
 
   --json            print one JSON object: "Sheet!A1" -> value of every formula cell and of every
                     cell its result spills into, plus "messages" with each error's message
-  --out <file>      write a copy with the computed values cached (formulas kept)
+  --out <file>      write a copy with the computed values cached (formulas kept); the file
+                    must be new and must not be the input under another name (link)
+  --force           let --out and --freeze replace an existing file (never the input workbook)
+  --freeze <file>   write a copy for colleagues without the add-in: every RATCHET formula
+                    replaced by its values, and a sheet listing what was replaced
   --set S!A1=value  change an input cell before evaluating; repeat --set, or list several
                     changes after one --set; a value starting with "=" is a formula, TRUE/FALSE
                     are logicals, an empty value makes the cell blank
@@ -38,13 +49,19 @@ export function parseSheetArgs(argv: readonly string[]): SheetArgs {
   let file: string | undefined;
   let json = false;
   let out: string | undefined;
+  let force = false;
+  let freeze: string | undefined;
   const set: Record<string, InputValue> = {};
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i]!;
     if (a === '--json') json = true;
+    else if (a === '--force') force = true;
     else if (a === '--out') {
       out = argv[++i];
       if (out === undefined || out.startsWith('--')) throw new UsageError('--out needs a file name');
+    } else if (a === '--freeze') {
+      freeze = argv[++i];
+      if (freeze === undefined || freeze.startsWith('--')) throw new UsageError('--freeze needs a file name');
     } else if (a === '--set' || a.startsWith('--set=')) {
       const spec = a === '--set' ? argv[++i] : a.slice('--set='.length);
       const eq = spec?.indexOf('=') ?? -1;
@@ -62,7 +79,9 @@ export function parseSheetArgs(argv: readonly string[]): SheetArgs {
   }
   if (file === undefined) throw new UsageError('name the workbook to evaluate');
   if (out !== undefined && resolve(out) === resolve(file)) throw new UsageError('--out must name a new file; the input workbook is never modified');
-  return { file, json, out, set };
+  if (force && out === undefined && freeze === undefined) throw new UsageError('--force only applies to --out and --freeze');
+  if (freeze !== undefined && [file, out].some((f) => f !== undefined && resolve(f) === resolve(freeze))) throw new UsageError('--freeze must name a new file of its own');
+  return { file, json, out, force, set, freeze };
 }
 
 function show(v: JsonCell): string {
@@ -112,15 +131,34 @@ export async function runSheet(
     return 2;
   }
   try {
+    // Refused before the work, and checked again when the copy is written.
+    if (existsSync(args.file)) for (const target of [args.out, args.freeze]) if (target !== undefined) checkOutput(target, [args.file], args.force);
     const book = await EvaluatedWorkbook.fromFile(args.file);
     if (Object.keys(args.set).length > 0) book.set(args.set);
     io.out(args.json ? `${JSON.stringify(book.toJson(), null, 2)}\n` : `${formatTable(book.results())}\n`);
+    const unknown = book.uncomputable();
+    if (unknown.length > 0) {
+      const list = unknown.length > 20 ? `${unknown.slice(0, 20).join(', ')} and ${unknown.length - 20} more` : unknown.join(', ');
+      io.err(
+        `sheet: ${unknown.length} formula cell${unknown.length === 1 ? '' : 's'} cannot be calculated here (a function the engine does not know, or a cell that reads one): ${list}.` +
+          `${args.out !== undefined ? ' The copy keeps the values stored in the workbook for them.' : ''}\n`,
+      );
+    }
     if (args.out !== undefined) {
-      await book.writeCopy(args.out);
+      await book.writeCopy(args.out, { inputs: [args.file], force: args.force });
       io.err(`sheet: wrote ${args.out}\n`);
+    }
+    if (args.freeze !== undefined) {
+      const f = await writeFrozenCopy(book, args.freeze, new Date(), { inputs: [args.file, ...(args.out === undefined ? [] : [args.out])], force: args.force });
+      io.err(`sheet: wrote ${args.freeze} (${f.replaced} RATCHET formulas replaced by values; see its sheet "${f.noteSheet}")\n`);
+      if (f.unresolved.length > 0) io.err(`sheet: warning: frozen as errors that are not answers: ${f.unresolved.join(', ')}\n`);
     }
     return 0;
   } catch (e) {
+    if (e instanceof OutputRefusedError) {
+      io.err(`sheet: ${e.message}\n`);
+      return 2;
+    }
     if (e instanceof WorkbookReadError) {
       io.err(`sheet: ${e.message}\n`);
       return 1;

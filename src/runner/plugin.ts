@@ -152,6 +152,31 @@ export function toCellArg(v: Internal): CellArg {
   return scalarIn(v);
 }
 
+/** Rows and columns of an Excel worksheet (Excel's specifications and limits) (common practice). */
+const SHEET_ROWS = 1048576;
+const SHEET_COLS = 16384;
+
+/**
+ * A whole-column (`B:B`) or whole-row (`2:2`) argument as Excel passes it: every cell of the
+ * sheet's height (width). HyperFormula stops such a range at the used area; the cells past it
+ * are blank, so they are appended as blanks (one shared, never mutated row of blanks for the
+ * rows; a RATCHET function never mutates its arguments). Blank rows are then left out by the
+ * one blank-cell rule and counted as dropped, exactly as for the same data given as the exact
+ * range B1:B1048576. O(sheet height) for columns, O(sheet width) for rows.
+ */
+function wholeLines(arg: CellArg, columns: boolean): CellArg {
+  if (!Array.isArray(arg)) return arg;
+  if (columns) {
+    const width = arg[0]?.length ?? 1;
+    if (arg.length >= SHEET_ROWS) return arg;
+    const blank: CellValueIn[] = Array<CellValueIn>(width).fill(null);
+    const out = arg.slice();
+    for (let r = arg.length; r < SHEET_ROWS; r++) out.push(blank);
+    return out;
+  }
+  return arg.map((row) => (row.length >= SHEET_COLS ? row : [...row, ...Array<CellValueIn>(SHEET_COLS - row.length).fill(null)]));
+}
+
 function dimsOf(r: CellResult): Dims {
   if (!Array.isArray(r)) return { rows: 1, cols: 1 };
   return { rows: r.length, cols: r.reduce((m, row) => Math.max(m, row.length), 0) };
@@ -260,7 +285,7 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
         const rk = `${range.start.sheet}:${range.start.row}:${range.start.col}:${range.end.row}:${range.end.col}`;
         let arg = sizing.ranges.get(rk);
         if (arg === undefined) {
-          arg = toCellArg(v);
+          arg = a.type === 'COLUMN_RANGE' || a.type === 'ROW_RANGE' ? wholeLines(toCellArg(v), a.type === 'COLUMN_RANGE') : toCellArg(v);
           sizing.ranges.set(rk, arg);
         }
         return arg;

@@ -7,13 +7,15 @@
  * exceljs reports them; cells inside an array formula's range hold cached results in the file and
  * are cleared before evaluation so the fresh result can spill there.
  */
-import { readFileSync, statSync, writeFileSync } from 'node:fs';
+import { readFileSync, statSync } from 'node:fs';
 import ExcelJS from 'exceljs';
 import { DetailedCellError, HyperFormula, type RawCellContent, type SimpleCellAddress } from 'hyperformula';
 import { cellName, parseCellRef, parseRange, qualifiedName } from './address.js';
 import { callsRatchet, toStoredForm, toTypedForm } from './formula-text.js';
 import { beginRecalculation, sizingStateOf } from './plugin.js';
 import { markDynamicArrays } from './dynamic-arrays.js';
+import { checkOutput, writeOutputSafely } from './safe-write.js';
+import { packageProblem } from './package-check.js';
 
 /** A cell value in the runner's JSON: numbers, text, logicals, null for blank, error codes as text. */
 export type JsonCell = number | string | boolean | null;
@@ -51,6 +53,9 @@ const HF_CONFIG = {
   maxRows: 1048576,
   maxColumns: 16384,
 } as const;
+
+/** Name of the engine-only sheet of keeper formulas (never written to a copy, never listed). */
+const KEEPER_SHEET = '__ratchet_keep';
 
 /** Most re-sizing passes per recalculation (each pass re-enters only the cells that changed size). */
 const MAX_PASSES = 25;
@@ -136,7 +141,8 @@ export class EvaluatedWorkbook {
   /**
    * Reads an .xlsx file and evaluates it. Cost: reading plus one evaluation of every formula
    * (array results re-sized in a few more passes over the formulas that spill).
-   * @throws WorkbookReadError when the file is missing, unreadable or not an .xlsx workbook.
+   * @throws WorkbookReadError when the file is missing, unreadable, encrypted, an old .xls, would
+   * unpack to more than 1 GiB (package-check.ts), or is not an .xlsx workbook.
    */
   static async fromFile(path: string): Promise<EvaluatedWorkbook> {
     const wb = new ExcelJS.Workbook();
@@ -150,13 +156,17 @@ export class EvaluatedWorkbook {
       const why = code === 'ENOENT' ? 'no such file' : code === 'EACCES' ? 'permission denied' : `the file cannot be opened (${code ?? String(e)})`;
       throw new WorkbookReadError(`Cannot read "${path}": ${why}.`);
     }
+    const problem = packageProblem(data);
+    if (problem !== undefined) throw new WorkbookReadError(`Cannot read "${path}": ${problem.reason}.`);
     try {
       await wb.xlsx.load(data as unknown as ArrayBuffer);
     } catch {
       throw new WorkbookReadError(`Cannot read "${path}": it is not an .xlsx workbook (Excel 2007+ Open XML) or it is damaged.`);
     }
     if (wb.worksheets.length === 0) throw new WorkbookReadError(`Cannot read "${path}": it has no worksheets.`);
-    return EvaluatedWorkbook.fromExcel(wb);
+    const book = EvaluatedWorkbook.fromExcel(wb);
+    book.sourcePath = path;
+    return book;
   }
 
   /**
@@ -172,6 +182,7 @@ export class EvaluatedWorkbook {
   static fromExcel(wb: ExcelJS.Workbook): EvaluatedWorkbook {
     const sheets: Record<string, RawCellContent[][]> = {};
     const names: string[] = [];
+    const formulas: SimpleCellAddress[] = [];
     for (const ws of wb.worksheets) {
       names.push(ws.name);
       const grid: RawCellContent[][] = [];
@@ -193,6 +204,7 @@ export class EvaluatedWorkbook {
             const text = cell.formula;
             if (typeof text === 'string' && text !== '') {
               put(r, c, `=${toTypedForm(text.replace(/^=/, ''))}`);
+              formulas.push({ sheet: names.length - 1, row: r, col: c });
               const fv = v as FormulaCellValue;
               if (fv.shareType === 'array' && typeof fv.ref === 'string') {
                 const g = parseRange(fv.ref);
@@ -216,9 +228,13 @@ export class EvaluatedWorkbook {
     }
     const hf = HyperFormula.buildFromSheets(sheets, HF_CONFIG, namedRanges(wb));
     const book = new EvaluatedWorkbook(hf, wb, names);
+    for (const a of formulas) book.noteFormulaCell({ sheet: hf.getSheetId(names[a.sheet]!)!, row: a.row, col: a.col });
     book.settle();
     return book;
   }
+
+  /** The file the workbook was read from ({@link fromFile}); a copy never replaces it. */
+  private sourcePath: string | undefined;
 
   /** Sheet names in workbook order. */
   get sheets(): readonly string[] {
@@ -255,7 +271,10 @@ export class EvaluatedWorkbook {
     this.hf.batch(() => {
       for (const e of entries) this.hf.setCellContents(e.addr, [[e.raw]]);
     });
-    for (const e of entries) this.recordSet(e.ref, e.v);
+    for (const e of entries) {
+      this.recordSet(e.ref, e.v);
+      if (typeof e.raw === 'string' && e.raw.startsWith('=')) this.noteFormulaCell(e.addr);
+    }
     this.settle();
   }
 
@@ -280,6 +299,7 @@ export class EvaluatedWorkbook {
         todo.add(k);
       }
       if (todo.size === 0) return;
+      this.keepRangesOf(todo);
       beginRecalculation(this.hf);
       this.hf.batch(() => {
         for (const k of todo) {
@@ -292,6 +312,46 @@ export class EvaluatedWorkbook {
     }
   }
 
+  /** Ranges (by "sheet:r0:c0:r1:c1") that a keeper formula already reads. */
+  private readonly keptRanges = new Set<string>();
+  private keeperSheet: number | undefined;
+  private keeperRows = 0;
+
+  /**
+   * Gives every range that the formulas about to be re-entered read a second reader: one keeper
+   * formula `=ROWS(range)` per range on an engine-only sheet that is not part of the workbook.
+   * Re-entering a formula replaces its vertex; when it was a range's only reader, HyperFormula
+   * removes the range vertex and then walks all its cells in a loop that grows quadratically
+   * with the range (the cause of a runner that grew as n^1.7), only to build the same range again.
+   * With a keeper the range stays, and re-entering costs O(1) for the graph. A keeper costs one
+   * graph vertex and one edge; ROWS never reads the cells. O(formulas re-entered).
+   */
+  private keepRangesOf(cells: ReadonlySet<string>): void {
+    const add: string[] = [];
+    for (const k of cells) {
+      const [sheet, row, col] = k.split(':').map(Number) as [number, number, number];
+      for (const p of this.hf.getCellPrecedents({ sheet, row, col })) {
+        if (!('start' in p) || p.start.sheet < 0) continue;
+        const key = `${p.start.sheet}:${p.start.row}:${p.start.col}:${p.end.row}:${p.end.col}`;
+        if (this.keptRanges.has(key)) continue;
+        this.keptRanges.add(key);
+        const text = this.hf.simpleCellRangeToString(p, { includeSheetName: true });
+        if (text !== undefined) add.push(`=IF(FALSE,COUNT(${text}))`);
+      }
+    }
+    if (add.length === 0) return;
+    if (this.keeperSheet === undefined) {
+      let name = KEEPER_SHEET;
+      for (let i = 2; !this.hf.isItPossibleToAddSheet(name); i++) name = `${KEEPER_SHEET}${i}`;
+      this.hf.addSheet(name);
+      this.keeperSheet = this.hf.getSheetId(name)!;
+    }
+    const sheet = this.keeperSheet;
+    const top = this.keeperRows;
+    this.keeperRows += add.length;
+    this.hf.batch(() => add.forEach((f, i) => this.hf.setCellContents({ sheet, row: top + i, col: 0 }, [[f]])));
+  }
+
   private *spilledRatchetCells(): Generator<string> {
     for (const { addr, formula } of this.formulaCells()) {
       if (!callsRatchet(formula)) continue;
@@ -300,17 +360,52 @@ export class EvaluatedWorkbook {
     }
   }
 
+  /**
+   * Cells that hold or held a formula (read from the file or set later), sheet by sheet, row by
+   * row: the formulas are found without visiting every cell of the used ranges (which cost
+   * O(cells) per re-sizing pass).
+   */
+  private formulaIndex: SimpleCellAddress[] = [];
+  private formulaIndexSorted = true;
+  private readonly formulaIndexKeys = new Set<string>();
+
+  private noteFormulaCell(addr: SimpleCellAddress): void {
+    const k = `${addr.sheet}:${addr.row}:${addr.col}`;
+    if (this.formulaIndexKeys.has(k)) return;
+    this.formulaIndexKeys.add(k);
+    this.formulaIndex.push(addr);
+    this.formulaIndexSorted = false;
+  }
+
   private *formulaCells(): Generator<{ addr: SimpleCellAddress; formula: string }> {
-    for (let sheet = 0; sheet < this.sheetNames.length; sheet++) {
-      const dim = this.hf.getSheetDimensions(sheet);
-      for (let row = 0; row < dim.height; row++) {
-        for (let col = 0; col < dim.width; col++) {
-          const addr = { sheet, row, col };
-          const f = this.hf.getCellFormula(addr);
-          if (f !== undefined) yield { addr, formula: f };
-        }
+    if (!this.formulaIndexSorted) {
+      this.formulaIndex.sort((a, b) => a.sheet - b.sheet || a.row - b.row || a.col - b.col);
+      this.formulaIndexSorted = true;
+    }
+    for (const addr of this.formulaIndex) {
+      const f = this.hf.getCellFormula(addr);
+      if (f !== undefined) yield { addr, formula: f };
+    }
+  }
+
+  /**
+   * Formula cells the engine cannot calculate, as "Sheet!A1": their formula calls a function the
+   * engine does not know (RATCHET functions are always known), reads such a cell, or cannot be
+   * parsed. They show `#NAME?` (or `#ERROR!`) here; {@link writeCopy} keeps the value stored in
+   * the file for them. O(cells of the used ranges).
+   * @example book.uncomputable() // → ['Data!F2'] for a cell holding =SOMEADDINFN(A2)
+   */
+  uncomputable(): string[] {
+    const out: string[] = [];
+    for (const { addr } of this.formulaCells()) {
+      const v = this.hf.getCellValue(addr);
+      if (!(v instanceof DetailedCellError)) continue;
+      const m = v.message ?? '';
+      if ((v.type === 'NAME' && /^Function name .* not recognized\.$/.test(m)) || (v.type === 'ERROR' && m === 'Parsing error.')) {
+        out.push(qualifiedName(this.sheetNames[addr.sheet]!, addr.row, addr.col));
       }
     }
+    return out;
   }
 
   /** Rows × columns an evaluated formula spills into (1 × 1 for a scalar). */
@@ -399,9 +494,23 @@ export class EvaluatedWorkbook {
   /**
    * Writes a copy of the workbook with the current inputs, formulas kept in the stored form
    * (`_xldudf_RATCHET_…`), computed values cached, and spilled results written as dynamic-array
-   * formulas over their current range (dynamic-arrays.ts). The source file is not touched.
+   * formulas over their current range (dynamic-arrays.ts). The source file is not touched: the
+   * copy is refused when it would be one of `inputs` (same path, a link to it, a hard link) or
+   * when it exists and `force` is false, and it is written to a temporary file in the same folder
+   * that then takes its name (safe-write.ts).
+   * @param path the new file. @param options.inputs files that must not be touched besides the
+   * file the workbook was read from (default: none);
+   * options.force replaces an existing file that is not an input (default false).
+   * @throws OutputRefusedError when the copy would replace an input or an existing file.
    */
-  async writeCopy(path: string): Promise<void> {
+  async writeCopy(path: string, options: { inputs?: readonly string[]; force?: boolean } = {}): Promise<void> {
+    const inputs = [...(this.sourcePath === undefined ? [] : [this.sourcePath]), ...(options.inputs ?? [])];
+    checkOutput(path, inputs, options.force ?? false);
+    writeOutputSafely(path, await this.copyBytes(), inputs, options.force ?? false);
+  }
+
+  /** The bytes of the copy {@link writeCopy} writes. O(cells). */
+  async copyBytes(): Promise<Uint8Array> {
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load((await this.source.xlsx.writeBuffer()) as ArrayBuffer);
     for (const [ref, v] of this.setLog) {
@@ -415,6 +524,9 @@ export class EvaluatedWorkbook {
       if (typeof v === 'string' && /^#[A-Z/0-9!?]+[!?A]$/.test(v)) return { error: v } as ExcelJS.CellErrorValue;
       return v;
     };
+    // Cells the engine cannot calculate keep what the file stored (formula, cached value, array range).
+    const keep = new Set(this.uncomputable());
+    const kept = (sheet: string, row: number, col: number) => keep.has(qualifiedName(sheet, row, col));
     for (const ws of wb.worksheets) {
       // Old array ranges: their cached cells are cleared before fresh results are written.
       ws.eachRow({ includeEmpty: false }, (row) =>
@@ -422,6 +534,7 @@ export class EvaluatedWorkbook {
           const v = cell.value as FormulaCellValue | null;
           if (v && typeof v === 'object' && v.shareType === 'array' && typeof v.ref === 'string') {
             const g = parseRange(v.ref);
+            if (kept(ws.name, g.top, g.left)) return;
             for (let r = g.top; r <= g.bottom; r++) for (let c = g.left; c <= g.right; c++) if (r !== g.top || c !== g.left) ws.getCell(r + 1, c + 1).value = null;
           }
         }),
@@ -430,6 +543,7 @@ export class EvaluatedWorkbook {
     for (const res of this.results()) {
       const ws = wb.getWorksheet(res.sheet)!;
       const a = parseCellRef(`${quoteSheet(res.sheet)}!${res.cell}`);
+      if (kept(res.sheet, a.row, a.col)) continue;
       const stored = toStoredForm(res.formula.replace(/^=/, ''));
       const first = res.values[0]![0]!;
       const result = first === null ? undefined : cellOut(first);
@@ -448,7 +562,7 @@ export class EvaluatedWorkbook {
       );
     }
     const { bytes } = await markDynamicArrays(new Uint8Array((await wb.xlsx.writeBuffer()) as ArrayBuffer));
-    writeFileSync(path, bytes);
+    return bytes;
   }
 }
 

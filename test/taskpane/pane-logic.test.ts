@@ -125,7 +125,7 @@ describe('formulas and spill sizes', () => {
 
 describe('sources of the preview', () => {
   it('read CSV cells: blanks, numbers with exponent, text kept as text', () => {
-    expect(['', '  ', '1.5', '-2e3', '.5', '1,5', 'n/a'].map(csvCell)).toEqual([null, null, 1.5, -2000, 0.5, '1,5', 'n/a']);
+    expect(['', '  ', '1.5', '-2e3', '.5', '1,5', 'n/a'].map((t) => csvCell(t))).toEqual([null, null, 1.5, -2000, 0.5, '1,5', 'n/a']);
   });
   it('find the header row and reference the cells where a spreadsheet puts the CSV', () => {
     const src = sourceFromCsv('brick trials.csv', 'Invented data\n\ntemp,strength,note\n900,20,a\n950,,b\n1000,31,\n');

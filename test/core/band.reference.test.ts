@@ -1,0 +1,208 @@
+/**
+ * Bands, read-back intervals, t quantiles and Spearman's ρ against R (fixture
+ * test/reference/fixtures/band_r.json, made by `Rscript test/reference/gen_band.R`, which records
+ * the R and package versions; regenerate with `npm run refs`).
+ */
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import {
+  bandAt, checkDirection, fitBandModel, fitMonotone, inverseBand, monotoneActiveSetBasis, knotRegression, spearman, spreadStatistics,
+  studentTCdf, studentTQuantile, RatchetError,
+} from '../../src/core/index.js';
+
+interface BandRow {
+  level: number;
+  fit: number[];
+  conf_lower: number[];
+  conf_upper: number[];
+  pred_lower: number[];
+  pred_upper: number[];
+}
+interface BandCase {
+  name: string;
+  source: string;
+  x: number[];
+  y: number[];
+  w?: number[] | null;
+  knots?: number | number[];
+  knot_x?: number[];
+  theta?: number[];
+  theta_quadprog?: number[];
+  groups?: number[];
+  parameters?: number;
+  sigma: number;
+  df_resid: number;
+  new_x: number[];
+  bands: BandRow[];
+}
+interface CalibrationCase {
+  name: string;
+  source: string;
+  x: number[];
+  y: number[];
+  w?: number[] | null;
+  sets: { level: number; replicates: number; intervals: { target: number; lower: number; x: number; upper: number }[] }[];
+}
+interface BandFixture {
+  command: string;
+  versions: Record<string, string>;
+  qt: { p: number[]; rows: { df: number; q: number[] }[] };
+  pt: { t: number[]; rows: { df: number; lower: number[]; upper: number[] }[] };
+  line: BandCase[];
+  hat: BandCase[];
+  active: BandCase[];
+  calibration: CalibrationCase[];
+  spearman: { name: string; source: string; x: number[]; y: number[]; spearman: number }[];
+}
+
+const fixture = JSON.parse(readFileSync(new URL('../reference/fixtures/band_r.json', import.meta.url), 'utf8')) as BandFixture;
+
+/** Checks every band row of a case against R's predict.lm at 1e-9 relative. */
+function checkBands(c: BandCase, knots: number | number[]): void {
+  const model = fitBandModel(c.x, c.y, { knots, weights: c.w ?? undefined });
+  expect(model.sigma).toBeCloseRel(c.sigma, 1e-9);
+  expect(model.dfResid).toBe(c.df_resid);
+  for (const row of c.bands) {
+    const conf = bandAt(model, c.new_x, row.level, 'confidence');
+    const pred = bandAt(model, c.new_x, row.level, 'prediction');
+    expect(conf.fit).toBeAllCloseRel(row.fit, 1e-9);
+    expect(conf.lower).toBeAllCloseRel(row.conf_lower, 1e-9);
+    expect(conf.upper).toBeAllCloseRel(row.conf_upper, 1e-9);
+    expect(pred.lower).toBeAllCloseRel(row.pred_lower, 1e-9);
+    expect(pred.upper).toBeAllCloseRel(row.pred_upper, 1e-9);
+  }
+}
+
+describe('Student t quantile against R stats::qt (gen_band.R)', () => {
+  it(`equals qt to 1e-12 relative for ${fixture.qt.rows.length} df (1 … 1000 and non-integer) × ${fixture.qt.p.length} probabilities 0.55 … 0.9995`, () => {
+    let worst = 0;
+    for (const row of fixture.qt.rows) {
+      fixture.qt.p.forEach((p, k) => {
+        const q = studentTQuantile(p, row.df);
+        worst = Math.max(worst, Math.abs(q - row.q[k]!) / Math.abs(row.q[k]!));
+      });
+    }
+    expect(worst).toBeLessThan(1e-12);
+  });
+});
+
+describe('Student t distribution function against R stats::pt (gen_band.R)', () => {
+  it(`equals pt (lower and upper tail) to 1e-13 relative on ${fixture.pt.t.length} t values × ${fixture.pt.rows.length} df`, () => {
+    for (const row of fixture.pt.rows) {
+      fixture.pt.t.forEach((t, k) => {
+        expect(studentTCdf(t, row.df)).toBeCloseRel(row.lower[k]!, 1e-13, 0);
+        expect(studentTCdf(-t, row.df)).toBeCloseRel(row.upper[k]!, 1e-13, 0);
+      });
+    }
+  });
+});
+
+describe('BAND with knots = 2 equals R predict.lm on lm(y ~ x) (gen_band.R, R datasets package)', () => {
+  for (const c of fixture.line) {
+    it(`${c.name} (${c.source}${c.w ? ', seeded weights' : ''}): confidence and prediction bands at levels 0.5, 0.9, 0.95, 0.99 to 1e-9 relative`, () => {
+      checkBands(c, 2);
+    });
+  }
+  it('the worked check: women at height 65 (R predict.lm on lm(weight ~ height, women))', () => {
+    const women = fixture.line.find((c) => c.name === 'women')!;
+    const model = fitBandModel(women.x, women.y, { knots: 2 });
+    const conf = bandAt(model, [65], 0.95, 'confidence');
+    const pred = bandAt(model, [65], 0.9, 'prediction');
+    expect(conf.fit[0]).toBeCloseRel(136.733333333333, 1e-14);
+    expect(conf.lower[0]).toBeCloseRel(135.882678099931, 1e-14);
+    expect(conf.upper[0]).toBeCloseRel(137.583988566735, 1e-14);
+    expect(pred.lower[0]).toBeCloseRel(133.94408019953, 1e-13);
+    expect(pred.upper[0]).toBeCloseRel(139.522586467137, 1e-14);
+    expect(model.sigma).toBeCloseRel(1.52500525429947, 1e-13);
+  });
+});
+
+describe('BAND with more knots and no active constraint equals predict.lm on the degree-1 B-spline basis (splines::bs)', () => {
+  for (const c of fixture.hat) {
+    it(`${c.name} (${c.source}): knots ${JSON.stringify(c.knots)}, bands at levels 0.9 and 0.95 to 1e-9 relative`, () => {
+      const fit = knotRegression(c.x, c.y, { knots: c.knots!, weights: c.w ?? undefined });
+      expect(fit.knotY).toBeAllCloseRel(c.theta!, 1e-9);
+      expect(fit.levels).toBe(fit.knotY.length);
+      checkBands(c, c.knots!);
+    });
+  }
+});
+
+describe('BAND with an active constraint equals predict.lm on the reduced design of the groups (quadprog::solve.QP + lm)', () => {
+  for (const c of fixture.active) {
+    it(`${c.name} (${c.source.slice(0, 40)}…): same groups as quadprog's solution, bands to 1e-9 relative`, () => {
+      const fit = knotRegression(c.x, c.y, { knots: c.knot_x!, weights: c.w ?? undefined });
+      expect(fit.knotY).toBeAllCloseRel(c.theta_quadprog!, 1e-7);
+      const basis = monotoneActiveSetBasis(fit.knotX, fit.knotY, fit.identified);
+      expect(basis.size).toBe(c.parameters);
+      const groupOf = Array.from({ length: basis.knots }, (_, j) => basis.col[basis.rowStart[j]!]! + 1);
+      expect(groupOf).toEqual(c.groups);
+      checkBands(c, c.knot_x!);
+    });
+  }
+});
+
+describe('INVERTBAND with knots = 2 equals the classical straight-line calibration interval (Eisenhart 1939; computed in R, gen_band.R)', () => {
+  for (const c of fixture.calibration) {
+    for (const set of c.sets) {
+      it(`${c.name} (${c.source}): level ${set.level}, ${set.replicates} replicate(s), ${set.intervals.length} targets to 1e-8 relative`, () => {
+        const model = fitBandModel(c.x, c.y, { knots: 2, weights: c.w ?? undefined });
+        const got = inverseBand(model, set.intervals.map((r) => r.target), set.level, set.replicates);
+        set.intervals.forEach((r, k) => {
+          const g = got[k]!;
+          expect(g.lower).not.toBeInstanceOf(RatchetError);
+          expect(g.upper).not.toBeInstanceOf(RatchetError);
+          expect(g.lower as number).toBeCloseRel(r.lower, 1e-8);
+          expect(g.x as number).toBeCloseRel(r.x, 1e-8);
+          expect(g.upper as number).toBeCloseRel(r.upper, 1e-8);
+        });
+      });
+    }
+  }
+});
+
+describe("Spearman's rank correlation against R cor(method = 'spearman')", () => {
+  for (const c of fixture.spearman) {
+    it(`${c.name} (${c.source}) to 1e-12`, () => {
+      expect(spearman(c.x, c.y)).toBeCloseRel(c.spearman, 1e-12);
+    });
+  }
+});
+
+describe('STATS sigma, df_resid and spearman against R (summary(lm)$sigma, df.residual, cor(method = "spearman"); gen_band.R)', () => {
+  for (const c of fixture.line) {
+    it(`${c.name}: knots = 2 fit gives R's sigma to 1e-9 and df_resid exactly`, () => {
+      const m = fitMonotone(c.x, c.y, { knots: 2, weights: c.w ?? undefined });
+      const s = spreadStatistics(c.x, c.y, m.fitted, m.levels, c.w ?? undefined);
+      expect(s.sigma!).toBeCloseRel(c.sigma, 1e-9);
+      expect(s.dfResid).toBe(c.df_resid);
+      expect(s.spearman!).toBeCloseRel(spearman(c.x, c.y), 1e-15);
+    });
+  }
+  for (const c of fixture.spearman) {
+    it(`${c.name}: spreadStatistics' spearman equals R's ${c.spearman.toFixed(6)} to 1e-12`, () => {
+      const m = fitMonotone(c.x, c.y, { direction: 'auto' });
+      expect(spreadStatistics(c.x, c.y, m.fitted, m.levels).spearman!).toBeCloseRel(c.spearman, 1e-12);
+    });
+  }
+});
+
+describe('direction check on R datasets (gen_band.R spearman cases)', () => {
+  const get = (name: string) => fixture.spearman.find((c) => c.name === name)!;
+  it("mtcars mpg ~ wt (R's rho -0.886) fitted 'up': warns and suggests 'down'", () => {
+    const c = get('mtcars');
+    const warning = checkDirection(c.x, c.y, 'up');
+    expect(warning).not.toBeNull();
+    expect(warning!.suggested).toBe('down');
+    expect(warning!.spearman).toBeCloseRel(c.spearman, 1e-12);
+    expect(warning!.pValue).toBeLessThan(1e-6);
+    expect(warning!.message).toBe("y falls as x rises (Spearman's rank correlation -0.89, 32 rows) but the fit is 'up'; try direction 'down'.");
+  });
+  it("mtcars fitted 'down' and cars dist ~ speed fitted 'up': no warning", () => {
+    expect(checkDirection(get('mtcars').x, get('mtcars').y, 'down')).toBeNull();
+    expect(checkDirection(get('cars').x, get('cars').y, 'up')).toBeNull();
+  });
+  it("cars fitted 'down' warns and suggests 'up'", () => {
+    expect(checkDirection(get('cars').x, get('cars').y, 'down')?.suggested).toBe('up');
+  });
+});
