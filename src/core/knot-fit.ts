@@ -8,7 +8,7 @@ import { resolveDirection } from './direction.js';
 import { solveMonotoneTridiagonal } from './monotone-qp.js';
 import { fail } from './errors.js';
 import { interpolateAt, intervalIndex, lerp } from './interpolate.js';
-import { scaleExponents, timesPowerOfTwo } from './scale.js';
+import { scaleExponents, scaleFromExtremes, timesPowerOfTwo } from './scale.js';
 
 /** Options of {@link knotRegression}. */
 export interface KnotFitOptions extends CommonFitOptions {
@@ -132,14 +132,16 @@ export function knotChecked(
 ): KnotFit {
   const n = xs.length;
   // Range of the rows that count, and the check for two distinct x.
-  weightedRange(xs, ws, rangeOut);
+  weightedRange(xs, ys, ws, rangeOut);
   const xmin = rangeOut[0]!;
   const xmax = rangeOut[1]!;
   if (rangeOut[2] !== 0) finiteArray('x', xs); // throws NON_FINITE naming the entry
   if (!(xmin < xmax)) fail('TOO_FEW_POINTS', 'x', `needs at least 2 distinct values with positive weight; got ${xmin === xmax ? 1 : 0}`);
   // y or weights far from 1 (1e-100-sized y with 1e-250 weights underflow in w·y), or weights spread
-  // over more than 2^600: fit the exactly rescaled problem (see src/core/scale.ts).
-  if (!rescaled && (!(xmax - xmin < HUGE) || scaleExponents(ys, ws).needed)) {
+  // over more than 2^600: fit the exactly rescaled problem (see src/core/scale.ts). The extremes
+  // come from the range pass above (a NaN y is caught by the assembly below).
+  const scales = scaleFromExtremes(rangeOut[3]!, rangeOut[4]!, rangeOut[5]!);
+  if (!rescaled && (!(xmax - xmin < HUGE) || scales.needed)) {
     return knotRescaled(xs, ys, ws, knots, direction, lower, upper, withFitted);
   }
   const t = typeof knots === 'number' ? evenKnots(xmin, xmax, knots) : knots;
@@ -178,7 +180,7 @@ export function knotChecked(
   const rough = positiveDefinite(rd, re) ? null : addRoughness(rd, re, idx, t);
   // A tie-break scaled to the heaviest rows would swamp light ones: with weights spread over more
   // than 2^20 (about 1e6), failing Cholesky pivots mean ill-conditioning, not a singular chain.
-  if (rough !== null && ws !== null && scaleExponents(ys, ws).spread > MAX_TIE_BREAK_SPREAD) illConditioned();
+  if (rough !== null && ws !== null && scales.spread > MAX_TIE_BREAK_SPREAD) illConditioned();
   const solution = solveMonotoneTridiagonal(rd, re, rc, lo, hi);
   let theta = solution.theta;
   if (rough === null && solution.pivotRatio < MIN_PIVOT_RATIO) illConditioned();
@@ -436,49 +438,67 @@ function evaluate(xs: Float64Array, t: Float64Array, even: boolean, values: Floa
 }
 
 /** Scratch for {@link weightedRange}'s three results. */
-const rangeOut = new Float64Array(3);
+const rangeOut = new Float64Array(6);
 
 /**
  * Writes into `out` the smallest and largest x among rows with positive weight (all rows when `ws`
- * is null), and a sum that is 0 exactly when every x is finite (v − v is NaN for NaN and
- * ±Infinity). O(n). Results go to a Float64Array rather than a returned tuple: accumulators that
- * escape into an array literal are boxed by V8, which made this loop 3× slower.
+ * is null), a sum that is 0 exactly when every x is finite (v − v is NaN for NaN and ±Infinity),
+ * and, for the scale check (scaleFromExtremes), the largest |y| and the largest and smallest
+ * weight of those rows. O(n), one pass. Results go to a Float64Array rather than a returned tuple:
+ * accumulators that escape into an array literal are boxed by V8, which made this loop 3× slower.
  */
-function weightedRange(xs: Float64Array, ws: Float64Array | null, out: Float64Array): void {
+function weightedRange(xs: Float64Array, ys: Float64Array, ws: Float64Array | null, out: Float64Array): void {
   if (ws === null) {
-    unitRange(xs, out);
+    unitRange(xs, ys, out);
     return;
   }
   let xmin = Infinity;
   let xmax = -Infinity;
   let finiteX = 0;
+  let maxY = 0;
+  let maxW = 0;
+  let minW = Infinity;
   for (let i = 0; i < xs.length; i++) {
     const v = xs[i]!;
     finiteX += v - v;
-    if (ws === null || ws[i]! > 0) {
+    const w = ws[i]!;
+    if (w > 0) {
       if (v < xmin) xmin = v;
       if (v > xmax) xmax = v;
+      const a = Math.abs(ys[i]!);
+      if (a > maxY) maxY = a;
+      if (w > maxW) maxW = w;
+      if (w < minW) minW = w;
     }
   }
   out[0] = xmin;
   out[1] = xmax;
   out[2] = finiteX;
+  out[3] = maxY;
+  out[4] = maxW;
+  out[5] = minW;
 }
 
 /** {@link weightedRange} for unit weights: every row counts. */
-function unitRange(xs: Float64Array, out: Float64Array): void {
+function unitRange(xs: Float64Array, ys: Float64Array, out: Float64Array): void {
   let xmin = Infinity;
   let xmax = -Infinity;
   let finiteX = 0;
+  let maxY = 0;
   for (let i = 0; i < xs.length; i++) {
     const v = xs[i]!;
     finiteX += v - v;
     xmin = v < xmin ? v : xmin;
     xmax = v > xmax ? v : xmax;
+    const a = Math.abs(ys[i]!);
+    maxY = a > maxY ? a : maxY;
   }
   out[0] = xmin;
   out[1] = xmax;
   out[2] = finiteX;
+  out[3] = maxY;
+  out[4] = 1;
+  out[5] = 1;
 }
 
 /** Sums beyond this (2^900) are rescaled before solving, so that no product can overflow. */
