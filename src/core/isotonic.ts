@@ -60,7 +60,8 @@ export interface IsotonicFit {
  * @param y responses, finite, length n.
  * @param options weights (default 1), direction (`'up'` default, `'down'`, `'auto'`), lower, upper.
  * @throws RatchetError EMPTY_INPUT (n = 0), LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_BOUNDS,
- *   BAD_OPTION (direction), TOO_FEW_POINTS (fewer than two distinct x with positive weight).
+ *   BAD_OPTION (direction), TOO_FEW_POINTS (fewer than two distinct x with positive weight),
+ *   NUMERICAL (positive weights spread over more than about 1e512, beyond the documented range).
  * @example isotonicRegression([1, 2, 3, 4], [1, 3, 2, 4]).fitted // → Float64Array [1, 2.5, 2.5, 4]
  * @see Robertson, Wright & Dykstra (1988), Order Restricted Statistical Inference, Wiley, ch. 1.
  */
@@ -90,8 +91,14 @@ export function isotonicRegression(
  * cross-multiplied comparisons), on y and w scaled by powers of two — exact, so the result is the
  * same to the last bit away from the subnormal range — with the largest |y| near 1 and every
  * weight at most 2^-32: then no block sum or cross product can overflow, for y or w near 1e308
- * too, nor underflow for tiny ones. Typed arrays of about 60 bytes per row in all, the result's
- * included (68 with weights).
+ * too, nor underflow for tiny ones. The factors come from {@link scaleExponents} (src/core/scale.ts),
+ * computed first: for data near 1 they are small powers of two; for y or weights near 1e±300 they
+ * are the exact rescaling, applied as y and w are gathered. Weights spread over more than 2^600
+ * take a pooled path instead (poolTies, then PAVA on block means: pavaSortedWide). Typed arrays
+ * of about 60 bytes per row in all, the result's included (68 with weights).
+ *
+ * @throws RatchetError TOO_FEW_POINTS (fewer than two distinct x with positive weight), NUMERICAL
+ *   (positive weights spread over more than about 1e512).
  */
 export function isotonicChecked(
   xs: Float64Array,
