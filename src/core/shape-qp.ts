@@ -168,9 +168,10 @@ function accAddProduct(a: number, b: number): void {
  * Accuracy and Stability of Numerical Algorithms, ch. 12). The step goes from the current point
  * toward θ*; a constraint outside W blocks only when θ* itself breaks it, and then it joins W.
  * When θ* is reached, the working constraint whose multiplier is most negative relative to its
- * own tolerance leaves W (tolerance: 1e-12 times the smallest bⱼ/|aⱼ| over its columns, bⱼ the
- * magnitudes of stationarity row j — relative to the terms the multiplier is made of, not to the
- * largest entry of c); a constraint dropped and re-added by the next step without movement is not
+ * tolerance leaves W. Tolerance: with ordinary weights (termShare 1) 1e-12 × the largest entry of
+ * c and Hθ, which keeps the degenerate problems of knots without data from chasing rounding;
+ * with weights far apart (termShare < 1) one relative to the terms the multiplier is made of (see
+ * MULTIPLIER_TOL), so a heavy row cannot mask a light row's multiplier; a constraint dropped and re-added by the next step without movement is not
  * dropped again until a step moves θ. When none leaves, θ is optimal and the multipliers certify
  * it (stationarity Hθ − c = Aᵀλ, λ ≥ 0, Aθ ≥ b, λᵢ(aᵢ·θ − bᵢ) = 0).
  *
@@ -216,6 +217,7 @@ export function solveBandedQp(
   const candidate = new Float64Array(m);
   const lambda = new Float64Array(nr);
   const settled = new Uint8Array(nr);
+  const hTheta = new Float64Array(m);
   let lastDropped = -1;
   const maxIterations = 20 * (m + nr) + 100;
   for (let iter = 1; iter <= maxIterations; iter++) {
@@ -252,12 +254,22 @@ export function solveBandedQp(
       }
     }
     theta.set(candidate);
+    // Ordinary weights (termShare 1, ratio below 2^20): a multiplier counts as negative below
+    // −1e-12 × the largest entry of c or Hθ — at most about 1e-6 of a light row's share, and it
+    // keeps knots without data (the tie-break's degenerate problems) from chasing rounding. Weights
+    // far apart use the relative tolerance, since that floor would hide the light rows.
+    let floor = 0;
+    if (termShare === 1) {
+      bandTimes(H, theta, hTheta);
+      for (let i = 0; i < m; i++) floor = Math.max(floor, Math.abs(c[i]!), Math.abs(hTheta[i]!));
+      floor *= MULTIPLIER_TOL;
+    }
     let worst = 0;
     let drop = -1;
     for (let k = 0; k < W.length; k++) {
       const r = W[k]!;
       if (settled[r]) continue;
-      const tol = size[k]!;
+      const tol = termShare === 1 ? floor : size[k]!;
       if (!(lam[k]! < -tol)) continue;
       const score = tol > 0 ? lam[k]! / tol : -Infinity;
       if (drop === -1 || score < worst) {

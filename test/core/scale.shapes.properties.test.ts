@@ -91,7 +91,7 @@ interface ShapeResult {
 /**
  * Worst violation of the KKT conditions in units of its tolerance (≤ 1: satisfied). Stationarity
  * row j, gⱼ + Σₖ aₖⱼλₖ with g = BᵀW(y − f), is compared with 1e-9 × the sum of the magnitudes of
- * its terms (Σᵢ wᵢ|Bᵢⱼ|(|yᵢ| + |fᵢ|) + Σₖ|aₖⱼλₖ|); feasibility aₖ·θ ≥ bₖ and complementarity with
+ * its terms (Σᵢ wᵢ|Bᵢⱼ|(|yᵢ| + |fᵢ|) + Σₖ|aₖⱼλₖ|) plus 1e-20 × the largest such sum; feasibility aₖ·θ ≥ bₖ and complementarity with
  * 1e-9 × Σ|aₖⱼθⱼ| (+ |bₖ|); multipliers must be ≥ 0.
  */
 function kktViolation(x: number[], y: number[], w: number[], f: ArrayLike<number>, s: ShapeResult): number {
@@ -122,7 +122,10 @@ function kktViolation(x: number[], y: number[], w: number[], f: ArrayLike<number
     worst = Math.max(worst, -dot / tol); // feasibility
     if (lam > 0) worst = Math.max(worst, Math.abs(dot) / tol); // complementarity
   });
-  for (let j = 0; j < m; j++) worst = Math.max(worst, Math.abs(g[j]!) / (1e-9 * a[j]! + 1e-300));
+  // A coefficient that no row reaches has only multiplier terms in its row; multipliers that are 0
+  // in exact arithmetic come out as about 1e-24 there, hence the floor 1e-20 × the largest row.
+  const floor = 1e-20 * Math.max(...a);
+  for (let j = 0; j < m; j++) worst = Math.max(worst, Math.abs(g[j]!) / (1e-9 * a[j]! + floor + 1e-300));
   return worst;
 }
 
