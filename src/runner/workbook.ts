@@ -237,6 +237,8 @@ export class EvaluatedWorkbook {
     } finally {
       stageForNextEngine(undefined);
     }
+    // The engine holds its own copy of the cells: let the grid go before the re-sizing passes.
+    for (const n of names) delete sheets[n];
     const book = new EvaluatedWorkbook(hf, wb, names);
     for (const a of formulas) book.noteFormulaCell({ sheet: hf.getSheetId(names[a.sheet]!)!, row: a.row, col: a.col });
     book.settle();
