@@ -58,6 +58,33 @@ export interface SizingState {
    * ({@link beginRecalculation}).
    */
   readonly ranges: Map<string, CellArg>;
+  /**
+   * Result sizes worked out before the engine was built (presize.ts), by formula cell
+   * ("sheet:row:col"): the size reserved for a call not yet learned there, so that a result
+   * enters the engine once with its final size. A wrong guess is only slower: the call then
+   * marks its cell for re-sizing like any other.
+   */
+  readonly presized: Map<string, Dims>;
+}
+
+/** Sizes and converted ranges for the next engine built ({@link stageForNextEngine}). */
+export interface Staged {
+  readonly sizes: Map<string, Dims>;
+  readonly ranges: Map<string, CellArg>;
+}
+
+let staged: Staged | undefined;
+
+/**
+ * Hands sizes and converted range arguments worked out before `HyperFormula.buildFromSheets` to
+ * the sizing state of the engine built next (the state is created when the build first calls a
+ * RATCHET function, or by {@link sizingStateOf} after it). Call immediately before the build and
+ * with `undefined` right after it. O(1).
+ * @param s the staged sizes ("sheet:row:col" → dims) and ranges ("sheet:r0:c0:r1:c1" → CellArg,
+ * exactly what {@link toCellArg} gives for those cells), or undefined to drop what was staged.
+ */
+export function stageForNextEngine(s: Staged | undefined): void {
+  staged = s;
 }
 
 const sizingByGraph = new WeakMap<object, SizingState>();
@@ -71,7 +98,8 @@ export function sizingStateOf(hf: HyperFormula): SizingState {
 function sizingFor(graph: object): SizingState {
   let s = sizingByGraph.get(graph);
   if (!s) {
-    s = { learned: new Map(), reserved: new Map(), dirty: new Set(), calls: 0, ranges: new Map() };
+    s = { learned: new Map(), reserved: new Map(), dirty: new Set(), calls: 0, ranges: staged?.ranges ?? new Map(), presized: staged?.sizes ?? new Map() };
+    staged = undefined;
     sizingByGraph.set(graph, s);
   }
   return s;
@@ -172,7 +200,12 @@ function wholeLines(arg: CellArg, columns: boolean): CellArg {
   return arg.map((row) => (row.length >= SHEET_COLS ? row : [...row, ...Array<CellValueIn>(SHEET_COLS - row.length).fill(null)]));
 }
 
-function dimsOf(r: CellResult): Dims {
+/**
+ * Rows × columns of a function's result: 1 × 1 for a scalar, else its rows and its widest row.
+ * O(rows).
+ * @example dimsOf([[1, 2], [3]]) // → { rows: 2, cols: 2 }
+ */
+export function dimsOf(r: CellResult): Dims {
   if (!Array.isArray(r)) return { rows: 1, cols: 1 };
   return { rows: r.length, cols: r.reduce((m, row) => Math.max(m, row.length), 0) };
 }
@@ -222,6 +255,7 @@ function cellKey(state: StateLike): string {
 
 let registered: FunctionPluginDefinition | undefined;
 let registeredNames: readonly string[] = [];
+let registeredById: ReadonlyMap<string, SheetFunction> = new Map();
 
 /**
  * Registers the given worksheet functions with HyperFormula (globally, replacing an earlier
@@ -305,7 +339,7 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
     sizeRatchet(ast: AstLike, state: StateLike): ArraySize {
       const sizing = sizingFor(this.dependencyGraph as unknown as object);
       const key = `${cellKey(state)}|${astKey(ast)}`;
-      const d = sizing.learned.get(key) ?? { rows: 1, cols: 1 };
+      const d = sizing.learned.get(key) ?? sizing.presized.get(cellKey(state)) ?? { rows: 1, cols: 1 };
       sizing.reserved.set(key, d);
       return d.rows === 1 && d.cols === 1 ? ArraySize.scalar() : new ArraySize(d.cols, d.rows);
     }
@@ -316,6 +350,12 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
   HyperFormula.registerFunctionPlugin(RatchetPlugin as unknown as FunctionPluginDefinition, { enGB: translations, enUS: translations });
   registered = RatchetPlugin as unknown as FunctionPluginDefinition;
   registeredNames = [...byId.keys()];
+  registeredById = byId;
+}
+
+/** The registered function called `name` ("RATCHET.FIT", any case), or undefined. O(1). */
+export function registeredFunction(name: string): SheetFunction | undefined {
+  return registeredById.get(name.toUpperCase());
 }
 
 /** Names currently registered (e.g. "RATCHET.FIT"). */
