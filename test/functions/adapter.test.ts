@@ -261,7 +261,7 @@ describe('STATS', () => {
     // Used rows y = 1, 3, 2, 4, 6 at x = 1, 2, 3, 4, 6; fit 1, 2.5, 2.5, 4, 6: SSE 0.5, MAE 1/5,
     // ȳ = 3.2, SST = 14.8, R² = 1 − 0.5/14.8.
     const out = cell('STATS', col(1, 3, 2, 4, null, 6), col(1, 2, 3, 4, 5, 6)) as [string, number][];
-    expect(out.map((r) => r[0])).toEqual(['n', 'dropped', 'knots', 'direction', 'r2', 'rmse', 'mae', 'sse', 'levels']);
+    expect(out.map((r) => r[0])).toEqual(['n', 'dropped', 'knots', 'direction', 'r2', 'rmse', 'mae', 'sse', 'levels', 'text_rows']);
     expect(out.slice(0, 4)).toEqual([['n', 5], ['dropped', 1], ['knots', 5], ['direction', 1]]);
     expect(out[4]![1]).toBeCloseRel(1 - 0.5 / 14.8, 1e-14);
     expect(out[5]![1]).toBeCloseRel(Math.sqrt(0.1), 1e-14);
