@@ -347,7 +347,7 @@ describe('Excel value conversion', () => {
 });
 
 describe('readers', () => {
-  it('parse ranges of 64+ cells once per argument object (identity memo); small ones every time', () => {
+  it('ranges of 64+ cells with the same cells give the remembered parse (content, not identity); small ones are parsed every time', () => {
     const big = col(...Array.from({ length: 64 }, (_, i) => (i === 5 ? null : i)));
     const a = readVector('known_ys', big);
     expect(readVector('known_xs', big)).toBe(a);
