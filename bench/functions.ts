@@ -68,5 +68,27 @@ export function run(emit: (r: BenchRecord) => void, options: { quick: boolean })
     }, () => 0, runs, 6);
     emit({ case: '1 PREDICT with 10,000 new x', n, knots, ms: spillMs, ratio: spillMs / floorMs });
   }
+  // Whole columns as Excel passes them (1,048,576 cells each; 1,000 data rows, blanks below):
+  // the first STATS call parses both columns, a second call with fresh copies compares them with
+  // the remembered parse. Printed as the cost per call; no goal (README.md, "How cells are read").
+  const ROWS = 1048576;
+  const wholeOf = (v: Float64Array): (number | null)[][] => {
+    const c: (number | null)[][] = Array.from(v.subarray(0, 1000), (t) => [t]);
+    while (c.length < ROWS) c.push([null]);
+    return c;
+  };
+  const stats = functionByName('STATS')!;
+  const addresses = { addresses: ['Data!B:B', 'Data!A:A'] };
+  const wy = wholeOf(y);
+  const wx = wholeOf(x);
+  clearCaches();
+  let t0 = performance.now();
+  sink += (stats.invoke([wy, wx], addresses) as number[][]).length;
+  emit({ case: 'STATS(B:B, A:A), first call', n: ROWS, knots: 0, ms: performance.now() - t0 });
+  const wy2 = wy.map((r) => [r[0]!]);
+  const wx2 = wx.map((r) => [r[0]!]);
+  t0 = performance.now();
+  sink += (stats.invoke([wy2, wx2], addresses) as number[][]).length;
+  emit({ case: 'STATS(B:B, A:A), fresh copies', n: ROWS, knots: 0, ms: performance.now() - t0 });
   if (sink === 42) console.log('');
 }
