@@ -6,12 +6,13 @@
  * known_x2s) alike, so a function with N inputs needs nothing new.
  */
 import { fail } from '../core/index.js';
-import type { Vector } from './cells.js';
+import { cellName, formatNumber, type Vector } from './cells.js';
 
-/** One data argument of a call: its parameter name (for messages) and its parsed cells. */
+/** One data argument of a call: its parameter name (for messages), its parsed cells and its range address when the host gave one. */
 export interface Column {
   readonly name: string;
   readonly vector: Vector;
+  readonly address?: string | undefined;
 }
 
 /** The rows of a call's data arguments where every one of them holds a number. */
@@ -24,6 +25,11 @@ export interface PairedRows {
   readonly used: Int32Array;
   /** Cells in each range (used rows plus rows left out). */
   readonly rows: number;
+  /**
+   * Rows left out because a data argument holds text or a logical there (a referenced range; see
+   * README.md, "How cells are read"); they are part of `rows - used.length` with the blank rows.
+   */
+  readonly textRows: number;
 }
 
 /** "a and b both" / "a, b and c all": the names a row needs, for messages. */
@@ -40,7 +46,7 @@ function needsAll(names: readonly string[]): string {
  *
  * @param columns the data arguments, at least one; every vector must have as many cells as the first.
  * @param weights optional weights, one per cell of the first column, each ≥ 0 or blank.
- * @returns the used rows' values, their positions and the cell count.
+ * @returns the used rows' values, their positions, the cell count and the rows left out for text.
  * @throws RatchetError LENGTH_MISMATCH (a column or the weights with another cell count, named by
  *   its parameter), BAD_WEIGHT (a negative weight), TOO_FEW_POINTS (fewer than 2 used rows; named
  *   by the first column).
@@ -58,7 +64,11 @@ export function pairRows(columns: readonly Column[], weights?: Column): PairedRo
   const wv = weights?.vector.values;
   if (wv !== undefined) {
     for (let i = 0; i < n; i++) {
-      if (wv[i]! < 0) fail('BAD_WEIGHT', weights!.name, `needs numbers ≥ 0; cell ${i + 1} is ${wv[i]}`);
+      if (wv[i]! < 0) {
+        const v = weights!.vector;
+        const at = cellName(weights!.address, v.rows, v.cols, v.cols === 1 ? i : 0, v.cols === 1 ? 0 : i);
+        fail('BAD_WEIGHT', weights!.name, `needs numbers ≥ 0; ${at} is ${formatNumber(wv[i]!)}`);
+      }
     }
   }
   const values = columns.map((c) => c.vector.values);
@@ -79,12 +89,24 @@ export function pairRows(columns: readonly Column[], weights?: Column): PairedRo
   if (m < 2) {
     const names = columns.map((c) => c.name);
     if (weights) names.push(weights.name);
-    fail('TOO_FEW_POINTS', lead.name, `needs at least 2 rows where ${needsAll(names)} hold numbers; got ${m}`);
+    const text = textRowsOf(weights ? [...columns, weights] : columns, n);
+    const note = text > 0 ? ` (${text} row${text === 1 ? '' : 's'} left out for text or logical cells)` : '';
+    fail('TOO_FEW_POINTS', lead.name, `needs at least 2 rows where ${needsAll(names)} hold numbers; got ${m}${note}`);
   }
   const pick = (v: Float64Array): Float64Array => {
     const out = new Float64Array(m);
     for (let k = 0; k < m; k++) out[k] = v[used[k]!]!;
     return out;
   };
-  return { columns: values.map(pick), weights: wv ? pick(wv) : undefined, used: used.slice(0, m), rows: n };
+  return { columns: values.map(pick), weights: wv ? pick(wv) : undefined, used: used.slice(0, m), rows: n, textRows: textRowsOf(weights ? [...columns, weights] : columns, n) };
+}
+
+/** Number of rows (below n) where at least one of `columns` left out a text or logical cell. O(left-out cells). */
+function textRowsOf(columns: readonly Column[], n: number): number {
+  const withText = columns.filter((c) => c.vector.leftOut.length > 0);
+  if (withText.length === 0) return 0;
+  if (withText.length === 1) return withText[0]!.vector.leftOut.filter((c) => c.index < n).length;
+  const rows = new Set<number>();
+  for (const c of withText) for (const cell of c.vector.leftOut) if (cell.index < n) rows.add(cell.index);
+  return rows.size;
 }

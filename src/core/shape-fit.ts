@@ -8,7 +8,7 @@ import { checkKnotCount, checkKnotPositions, evenKnots } from './knots.js';
 import { resolveDirection } from './direction.js';
 import { fail, isRatchetError } from './errors.js';
 import { intervalIndex } from './interpolate.js';
-import { bandTimes, solveBandedQp, sparseRow, type SparseRow, type SymmetricBand } from './shape-qp.js';
+import { bandTimes, solveBandedQp, sparseRow, twoProductError, type SparseRow, type SymmetricBand } from './shape-qp.js';
 import type { TableInterpolation } from './smooth-table.js';
 
 /** Curvature of a knot fit: 0 any, −1 concave (slopes never increase), 1 convex (never decrease). */
@@ -200,20 +200,41 @@ export function shapeChecked(
 
   // Normal equations H = BᵀWB (bands) and c = BᵀW(sign·y).
   const p = degree;
+  // Accumulated in twice the working precision (hi + lo, error-free products and sums), so that
+  // a heavy row's share does not round away the light rows' share of the same entry.
   const bands = Array.from({ length: p + 1 }, (_, k) => new Float64Array(m - k));
+  const lows = Array.from({ length: p + 1 }, (_, k) => new Float64Array(m - k));
   const c = new Float64Array(m);
+  const cLow = new Float64Array(m);
   const basis = new Float64Array(3);
+  let wMin = Infinity;
+  let wMax = 0;
   for (let i = 0; i < n; i++) {
     const w = ws === null ? 1 : ws[i]!;
     if (w === 0) continue;
+    if (w < wMin) wMin = w;
+    if (w > wMax) wMax = w;
     const first = basisAt(t, degree, xs[i]!, basis);
     const yi = sign * ys[i]!;
     for (let a = 0; a <= p; a++) {
-      const wa = w * basis[a]!;
-      c[first + a] = c[first + a]! + wa * yi;
-      for (let b = a; b <= p; b++) bands[b - a]![first + a] = bands[b - a]![first + a]! + wa * basis[b]!;
+      const ba = basis[a]!;
+      if (ba === 0) continue;
+      const wa = w * ba;
+      const waErr = twoProductError(w, ba, wa);
+      addTwo(c, cLow, first + a, wa, waErr, yi);
+      for (let b = a; b <= p; b++) addTwo(bands[b - a]!, lows[b - a]!, first + a, wa, waErr, basis[b]!);
     }
   }
+  // Renormalise each hi + lo pair so that hi is the correctly rounded sum.
+  const renormalise = (hi: Float64Array, lo: Float64Array): void => {
+    for (let j = 0; j < hi.length; j++) {
+      const s = hi[j]! + lo[j]!;
+      lo[j] = Number.isFinite(s) ? lo[j]! - (s - hi[j]!) : 0;
+      hi[j] = s;
+    }
+  };
+  bands.forEach((b, k) => renormalise(b, lows[k]!));
+  renormalise(c, cLow);
   for (const band of bands) for (const v of band) if (!Number.isFinite(v)) fail('NUMERICAL', 'x', 'needs values whose squares stay below about 1e300');
   for (const v of c) if (!Number.isFinite(v)) fail('NUMERICAL', 'y', 'needs values whose products with x stay below about 1e300');
   const identified = new Uint8Array(m);
@@ -242,7 +263,7 @@ export function shapeChecked(
   const hiRow = Number.isFinite(hi) ? rows.push(sparseRow([m - 1], [-1], -hi)) - 1 : -1;
 
   // Start: the best constant (Σc / 1ᵀH1), clipped to the bounds, every shape row working.
-  const H: SymmetricBand = { bands };
+  const H: SymmetricBand = { bands, low: lows };
   const ones = new Float64Array(m).fill(1);
   const h1 = bandTimes(H, ones);
   let num = 0;
@@ -267,11 +288,20 @@ export function shapeChecked(
   let sol: { theta: Float64Array; multipliers: Float64Array; active: Int32Array } | null = null;
   if (lo === hi) {
     sol = { theta: start, multipliers: new Float64Array(rows.length), active: Int32Array.from(working) };
+  } else if (wMax / wMin > WIDE_WEIGHTS) {
+    // Weights far apart: a small Cholesky pivot of the rounded H signals a heavy row, not knots
+    // without data, and the tie-break (sized to the heaviest rows) would swamp the light ones. The
+    // solver works on the twice-precise normal equations and refuses (NUMERICAL, with a message)
+    // when they do not determine the fit.
+    if (identified.includes(0)) {
+      fail('NUMERICAL', 'knots', 'needs rows near every knot when the weights span a ratio beyond about 1e6 (knots without data are filled by a tie-break sized to the heaviest rows, which would hide the light ones); remove the knots that no row reaches, or use fewer knots');
+    }
+    sol = solveBandedQp(H, c, rows, start, working, cLow, HEAVY_TERM_SHARE);
   } else if (positiveDefinite(bands)) {
     // Nearly singular H (rows a few ulps apart) can still defeat the KKT elimination: then the
     // tie-break below takes over.
     try {
-      sol = solveBandedQp(H, c, rows, start, working);
+      sol = solveBandedQp(H, c, rows, start, working, cLow);
     } catch (e) {
       if (!isRatchetError(e, 'NUMERICAL')) throw e;
     }
@@ -373,6 +403,26 @@ export function shapeChecked(
 
 /** Proximal passes after the tie-break. */
 const PROXIMAL_PASSES = 4;
+
+/**
+ * Weight ratio (2^20, about 1e6) beyond which the tie-break path is not taken: the same limit as
+ * the plain knot model's (docs/tolerances.md, "Scale and weights").
+ */
+const WIDE_WEIGHTS = 2 ** 20;
+
+/** Share ρ of a multiplier's term scale in its tolerance when the weights are far apart (see solveBandedQp). */
+const HEAVY_TERM_SHARE = 2 ** -40;
+
+/** hi[j] + lo[j] += (wa + waErr)·v, with the product's and the sum's rounding errors kept in lo. */
+function addTwo(hi: Float64Array, lo: Float64Array, j: number, wa: number, waErr: number, v: number): void {
+  const q = wa * v;
+  const qErr = twoProductError(wa, v, q) + waErr * v;
+  const h = hi[j]!;
+  const s = h + q;
+  const z = s - h;
+  hi[j] = s;
+  lo[j] = lo[j]! + ((h - (s - z)) + (q - z)) + qErr;
+}
 
 /**
  * The non-zero basis functions of a knot model at x (x clamped to [t₀, t_{K−1}]): writes their

@@ -12,7 +12,21 @@
  * Adding a function: DEVELOPERS.md, "Adding a worksheet function".
  */
 import { RatchetError, fail, isRatchetError } from '../core/index.js';
-import { nonBlank, readChoice, readKnots, readScalar, readVector, toGrid, type Vector } from '../adapter/cells.js';
+import {
+  DIRECT,
+  cellName,
+  describeCell,
+  isNumberText,
+  nonBlank,
+  readChoice,
+  readKnots,
+  readScalar,
+  readVector,
+  toGrid,
+  type CellSource,
+  type Vector,
+} from '../adapter/cells.js';
+import { splitAddress } from '../adapter/blanks.js';
 import { pairRows, type Column, type PairedRows } from '../adapter/rows.js';
 import type { CellArg, CellResult } from '../adapter/cell-types.js';
 import type { InvokeContext, ParamKind, ParamSpec, SheetFunction } from './types.js';
@@ -101,7 +115,20 @@ export class Args<N extends string = string> {
   constructor(
     private readonly slots: ReadonlyMap<string, Slot>,
     private readonly values: readonly CellArg[],
+    private readonly addresses?: readonly (string | null | undefined)[],
   ) {}
+
+  /** How argument `index` was passed: a reference with its address, or directly. */
+  private source(index: number): CellSource {
+    return sourceOf(this.addresses?.[index]);
+  }
+
+  /** The worksheet address of a reference argument, or undefined. */
+  address(name: N): string | undefined {
+    const s = this.slots.get(name);
+    if (s === undefined) throw new Error(`no parameter ${name}`);
+    return this.source(s.index).address;
+  }
 
   private slot(name: N, kinds: readonly ParamKind[]): Slot {
     const s = this.slots.get(name);
@@ -124,21 +151,28 @@ export class Args<N extends string = string> {
     return this.values[s.index];
   }
 
-  /** A `data` argument: one column or row of numbers, NaN for blanks. */
+  /**
+   * A `data` argument: one column or row of numbers, NaN for blanks. In a reference, text and
+   * logical cells are left out like blanks (listed in `leftOut`); given directly they are errors.
+   */
   data(name: N): Vector {
-    return readVector(name, this.values[this.slot(name, ['data']).index], 'line');
+    const i = this.slot(name, ['data']).index;
+    return readVector(name, this.values[i], 'line', this.source(i));
   }
 
   /** An optional `data` argument (weights): undefined when omitted, blank or "". */
   optionalData(name: N): Vector | undefined {
-    const v = this.values[this.slot(name, ['data']).index];
+    const i = this.slot(name, ['data']).index;
+    const v = this.values[i];
     if (v === undefined || v === null || v === '') return undefined;
-    return readVector(name, v, 'line');
+    return readVector(name, v, 'line', this.source(i));
   }
 
-  /** A `cells` or `table` argument: a cell or a range of any shape, NaN for blanks. */
+  /** A `cells` or `table` argument: a cell or a range of any shape, NaN for blanks (text is an error, named by address when known). */
   cells(name: N): Vector {
-    return readVector(name, this.values[this.slot(name, ['cells', 'table']).index], 'any');
+    const i = this.slot(name, ['cells', 'table']).index;
+    const address = this.source(i).address;
+    return readVector(name, this.values[i], 'any', address === undefined ? DIRECT : { reference: false, address });
   }
 
   /** A `knots` argument: 0 (classic fit), a knot count, or knot positions. */
@@ -170,10 +204,65 @@ export class Args<N extends string = string> {
    * (so the first bad argument is the one reported), ready for the cache and {@link pairData}.
    */
   rows(columns: readonly N[], weights?: N): DataArgs {
-    const cols = columns.map((name) => ({ name, vector: this.data(name) }));
+    const cols = columns.map((name) => ({ name, vector: this.data(name), address: this.address(name) }));
     const w = weights === undefined ? undefined : this.optionalData(weights);
-    return { columns: cols, weights: w === undefined ? undefined : { name: weights!, vector: w } };
+    return { columns: cols, weights: w === undefined ? undefined : { name: weights!, vector: w, address: this.address(weights!) } };
   }
+}
+
+/**
+ * How a host passed an argument, from its entry in {@link InvokeContext.addresses}: a worksheet
+ * reference when the entry is a sheet address (`Data!B2:B40`), else given directly. O(length).
+ * @example sourceOf('Data!B2:B9') // → { reference: true, address: 'Data!B2:B9' }
+ * @example sourceOf('') // → { reference: false }
+ */
+export function sourceOf(address: string | null | undefined): CellSource {
+  if (typeof address !== 'string' || address === '' || splitAddress(address) === undefined) return DIRECT;
+  return { reference: true, address };
+}
+
+/** One text or logical cell left out of a call's data, for the task pane's list. */
+export interface LeftOutEntry {
+  /** The parameter (`known_ys`). */
+  readonly argument: string;
+  /** The cell's address (`Data!B5`) when the host gave the range's address, else its position (`cell 4`). */
+  readonly cell: string;
+  /** The cell as the host passed it. */
+  readonly value: string | boolean;
+  /** A sentence for users: `Data!B5 holds the text "47.6" — convert it with VALUE to use it`. */
+  readonly message: string;
+}
+
+/**
+ * The text and logical cells that a call of `f` leaves out of its data arguments (every `data`
+ * parameter given as a reference), in parameter order then reading order — what the task pane
+ * lists under a fit. Reads the arguments as the call does (same messages if one is invalid).
+ * Cost O(cells of the data arguments).
+ * @param f a registered function.
+ * @param args the arguments by position, as for `invoke`.
+ * @param context the addresses of reference arguments (InvokeContext.addresses); without them
+ *   nothing is left out (text given directly is an error) and the list is empty.
+ * @throws RatchetError / InputCellError as the call would for an invalid data argument.
+ * @example leftOutCellsOf(functionByName('FIT')!, [[[1], ['47.6'], [3]], [[1], [2], [3]]], { addresses: ['Data!B2:B4', 'Data!A2:A4'] })
+ *   // → [{ argument: 'known_ys', cell: 'Data!B3', value: '47.6', message: 'Data!B3 holds the text "47.6" — convert it with VALUE to use it' }]
+ */
+export function leftOutCellsOf(f: Pick<SheetFunction, 'params'>, args: readonly CellArg[], context?: InvokeContext): LeftOutEntry[] {
+  const out: LeftOutEntry[] = [];
+  f.params.forEach((p, i) => {
+    if (p.kind !== 'data') return;
+    const source = sourceOf(context?.addresses?.[i]);
+    const arg = args[i];
+    if (!source.reference || arg === undefined || arg === null || arg === '') return;
+    const v = readVector(p.name, arg, 'line', source);
+    for (const c of v.leftOut) {
+      const r = v.cols === 1 ? c.index : 0;
+      const col = v.cols === 1 ? 0 : c.index;
+      const cell = cellName(source.address, v.rows, v.cols, r, col);
+      const hint = isNumberText(c.value) ? ' — convert it with VALUE to use it' : ' — its row is left out';
+      out.push({ argument: p.name, cell, value: c.value, message: `${cell} holds ${describeCell(c.value)}${hint}` });
+    }
+  });
+  return out;
 }
 
 /**
@@ -218,7 +307,8 @@ function renamed(e: unknown, names: ReadonlyMap<string, string>): unknown {
  * @returns a frozen {@link SheetFunction} whose `invoke` takes arguments by position.
  * @throws Error at definition time for a malformed spec (duplicate parameter names, a required
  *   parameter after an optional one, a choice without choices or default). `invoke` throws
- *   RatchetError BAD_OPTION for more arguments than parameters, and whatever `run` throws, with
+ *   RatchetError BAD_OPTION (`#VALUE!`) for more arguments than parameters (an omitted required
+ *   argument is reported by its own reader), and whatever `run` throws, with
  *   core argument names renamed; NUMERICAL when the result holds a non-finite number.
  * @example defineFunction({ name: 'TWICE', description: 'Twice x.', returnsArray: false,
  *   params: [{ name: 'x', kind: 'number', optional: false, description: 'A number.' }],
@@ -241,7 +331,7 @@ export function defineFunction<const N extends string>(spec: FunctionSpec<N>): S
     if (args.length > arity) fail('BAD_OPTION', fullName, `takes at most ${arity} arguments; got ${args.length}`);
     let result: CellResult;
     try {
-      result = spec.run(new Args<N>(slots, args), context);
+      result = spec.run(new Args<N>(slots, args, context?.addresses), context);
     } catch (e) {
       throw renamed(e, core);
     }

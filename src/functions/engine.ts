@@ -24,7 +24,7 @@ import {
 } from '../core/index.js';
 import { LruCache } from '../adapter/cache.js';
 import { hashFloat64, sameBits } from '../adapter/hash.js';
-import { Vector, sameVector } from '../adapter/cells.js';
+import { Vector, clearParsed, sameVector } from '../adapter/cells.js';
 import { pairData, type DataArgs } from './define.js';
 import type { InvokeContext } from './types.js';
 
@@ -57,9 +57,10 @@ export function cacheGeneration(): number {
   return generation;
 }
 
-/** Empties the one result cache (and every memo that depends on it). O(entries). */
+/** Empties the one result cache and every memo: the last request and the remembered parsed arguments. O(entries). */
 export function clearCaches(): void {
   resultCache.clear();
+  clearParsed();
   last = undefined;
   generation++;
 }
@@ -129,11 +130,13 @@ function dataParts(d: DataArgs): Part[] {
   return [...d.columns.map((c) => c.vector), d.weights?.vector];
 }
 
-/** A cached one-input fit: the model, the used rows and the number of cells. */
+/** A cached one-input fit: the model, the used rows, the number of cells and the rows left out for text. */
 export interface FitEntry {
   readonly model: MonotoneModel;
   readonly used: Int32Array;
   readonly rows: number;
+  /** Rows left out because a data argument holds text or a logical there (part of `rows - used.length`). */
+  readonly textRows: number;
 }
 
 /**
@@ -147,7 +150,7 @@ export function cachedFit(data: DataArgs, knots: number | Float64Array, directio
   return memo('fit', [...dataParts(data), knots, direction], () => {
     const p = pairData(data);
     const model = fitMonotone(p.columns[1]!, p.columns[0]!, { knots, direction, weights: p.weights });
-    const value: FitEntry = { model, used: p.used, rows: p.rows };
+    const value: FitEntry = { model, used: p.used, rows: p.rows, textRows: p.textRows };
     return { value, bytes: model.fitted.byteLength + model.knotX.byteLength * 2 + p.used.byteLength };
   });
 }

@@ -13,7 +13,10 @@
  *    {@link WORKER_CELL_THRESHOLD} cells — in a Web Worker with the same implementations, so the
  *    shared runtime (which also drives the task pane) is never blocked by a fit; CV and BESTK are
  *    cancelable: Excel cancels them when their inputs change, and the worker call is stopped;
- * 4. maps anything thrown to a CustomFunctions.Error with the one mapping of src/adapter/errors.ts.
+ * 4. passes the arguments' addresses (`invocation.parameterAddresses`) on: a data argument that
+ *    is a worksheet reference leaves its text and logical cells out, and messages name cells by
+ *    address (src/adapter/cells.ts);
+ * 5. maps anything thrown to a CustomFunctions.Error with the one mapping of src/adapter/errors.ts.
  */
 /// <reference types="office-js" />
 /// <reference types="custom-functions-runtime" />
@@ -64,14 +67,15 @@ export async function call(name: string, raw: readonly unknown[], invocation?: C
   const ErrorClass = CustomFunctions.Error as unknown as ExcelErrorConstructor;
   try {
     const converted: CellArg[] = raw.map(fromExcelArg);
-    const args = await resolveBlanks(converted, invocation?.parameterAddresses, readValueTypes);
+    const addresses = invocation?.parameterAddresses;
+    const args = await resolveBlanks(converted, addresses, readValueTypes);
     let result: CellResult;
     if (f.longWork || largestArgument(args) > WORKER_CELL_THRESHOLD) {
       const controller = new AbortController();
       if (f.longWork && invocation) (invocation as CustomFunctions.CancelableInvocation).onCanceled = () => controller.abort();
-      result = await workerClient().run(f.longWork ? 'cv' : 'fit', name, args, { signal: controller.signal });
+      result = await workerClient().run(f.longWork ? 'cv' : 'fit', name, args, { signal: controller.signal, addresses });
     } else {
-      result = f.invoke(args);
+      result = f.invoke(args, { addresses });
     }
     return toExcelResult(result, f.returnsArray);
   } catch (e) {
@@ -218,7 +222,7 @@ export async function bestKnotCount(known_ys: any[][], known_xs: any[][], candid
 }
 
 /**
- * Fit statistics as label/value rows: n, dropped, knots, direction, r2, rmse, mae, sse, levels.
+ * Fit statistics as label/value rows: n, dropped, knots, direction, r2, rmse, mae, sse, levels, text_rows.
  * @customfunction STATS STATS
  * @helpurl https://localhost:3000/help.html#ratchetstats
  * @requiresParameterAddresses

@@ -22,7 +22,7 @@ import {
 import { MAX_MAGNITUDE, MIN_MAGNITUDE, nonBlank, type Vector } from '../adapter/cells.js';
 import type { CellArg, CellOut, InvokeContext } from './types.js';
 import { defineFunction, positionsOf, type Args } from './define.js';
-import { cacheGeneration, cachedCrossValidation, cachedFit, type FitEntry } from './engine.js';
+import { cachedCrossValidation, cachedFit, type FitEntry } from './engine.js';
 import { PARAMS as P } from './params.js';
 
 /** Parameters of the fitting functions after their leading ones: knots, direction, weights. */
@@ -63,19 +63,6 @@ export const FIT = defineFunction({
   },
 });
 
-/** The model behind the previous PREDICT call and the argument objects it came from. */
-interface PredictMemo {
-  readonly ys: CellArg;
-  readonly xs: CellArg;
-  readonly knots: CellArg;
-  readonly direction: CellArg;
-  readonly weights: CellArg;
-  readonly generation: number;
-  readonly knotX: Float64Array;
-  readonly knotY: Float64Array;
-}
-let lastPredict: PredictMemo | undefined;
-
 /** A single finite new x in the accepted range, or NaN (then the general path reads the argument). */
 function singleNumber(arg: CellArg): number {
   let v: unknown = arg;
@@ -92,12 +79,12 @@ function singleNumber(arg: CellArg): number {
 
 /**
  * RATCHET.PREDICT(new_xs, known_ys, known_xs, [knots], [direction], [weights]).
- * Fast path: when the data and option arguments are the very objects (or equal scalars) of the
- * previous call — a host reusing one value array per range — the model is reused without reading
- * them again (arguments are never mutated after they are passed; see SheetFunction.invoke).
+ * Per-cell calls (one new x each) over the same data cost one fit: the data arguments are
+ * recognised by content (src/adapter/cells.ts) and the fit comes from the result cache, so a host
+ * may pass fresh or mutated arrays on every call and still never gets a stale curve.
  */
 const PREDICT_PARAMS = [P.newXs, ...FIT_PARAMS] as const;
-/** Parameter positions of PREDICT, for its per-call identity check (one lookup per argument). */
+/** Parameter positions of PREDICT (new_xs is read once per call). */
 const AT = positionsOf(PREDICT_PARAMS);
 
 export const PREDICT = defineFunction({
@@ -106,37 +93,11 @@ export const PREDICT = defineFunction({
   params: PREDICT_PARAMS,
   returnsArray: true,
   run(a) {
-    let knotX: Float64Array;
-    let knotY: Float64Array;
-    const m = lastPredict;
-    const raw = a.raw;
-    const ys = raw[AT.known_ys];
-    const xs = raw[AT.known_xs];
-    const single = singleNumber(raw[AT.new_xs]);
-    if (
-      m !== undefined &&
-      ys === m.ys &&
-      xs === m.xs &&
-      raw[AT.knots] === m.knots &&
-      raw[AT.direction] === m.direction &&
-      raw[AT.weights] === m.weights &&
-      m.generation === cacheGeneration()
-    ) {
-      knotX = m.knotX;
-      knotY = m.knotY;
-    } else {
-      // Read new_xs first so its errors come first, as on the general path.
-      if (single !== single) a.cells('new_xs');
-      const { entry } = fitOf(a);
-      knotX = entry.model.knotX;
-      knotY = entry.model.knotY;
-      lastPredict =
-        Array.isArray(ys) && Array.isArray(xs)
-          ? { ys, xs, knots: a.cell('knots'), direction: a.cell('direction'), weights: a.cell('weights'), generation: cacheGeneration(), knotX, knotY }
-          : undefined;
-    }
-    if (single === single) return [[interpolateAt(knotX, knotY, single)]];
-    const nx = a.cells('new_xs');
+    const single = singleNumber(a.raw[AT.new_xs]);
+    // Read new_xs first so its errors come first.
+    const nx = single === single ? undefined : a.cells('new_xs');
+    const { knotX, knotY } = fitOf(a).entry.model;
+    if (nx === undefined) return [[interpolateAt(knotX, knotY, single)]];
     const v = nx.values;
     return shaped(nx, (i) => {
       const x = v[i]!;
@@ -290,6 +251,7 @@ const STATS_ROWS: readonly (readonly [string, (e: FitEntry) => number])[] = [
   ['mae', (e) => e.model.stats.mae],
   ['sse', (e) => e.model.stats.sse],
   ['levels', (e) => e.model.levels],
+  ['text_rows', (e) => e.textRows],
 ];
 
 /** Row labels of the STATS table, in order. */
@@ -298,7 +260,7 @@ export const STATS_LABELS: readonly string[] = STATS_ROWS.map(([label]) => label
 /** RATCHET.STATS(known_ys, known_xs, [knots], [direction], [weights]). */
 export const STATS = defineFunction({
   name: 'STATS',
-  description: 'Fit statistics as label/value rows: n, dropped, knots, direction, r2, rmse, mae, sse, levels.',
+  description: 'Fit statistics as label/value rows: n, dropped, knots, direction, r2, rmse, mae, sse, levels, text_rows.',
   params: FIT_PARAMS,
   returnsArray: true,
   run(a) {

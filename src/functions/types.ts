@@ -48,10 +48,18 @@ export interface ParamSpec<N extends string = string> {
   readonly description: string;
 }
 
-/** Optional context of a call: cancellation and progress (used by CV and BESTK). */
+/** Optional context of a call: cancellation and progress (used by CV and BESTK), and where the arguments come from. */
 export interface InvokeContext {
   readonly signal?: AbortSignal | undefined;
   readonly onProgress?: ((fraction: number) => void) | undefined;
+  /**
+   * Per argument position, the worksheet address of an argument that is a reference
+   * (`Data!B2:B40`, `'Kiln data'!$B:$B`); undefined, null or "" for one given directly (a constant,
+   * an array constant, another formula's result). A data argument with an address leaves its text
+   * and logical cells out (README.md, "How cells are read"); messages name cells by address.
+   * Excel passes `invocation.parameterAddresses`, the runner the ranges it evaluated.
+   */
+  readonly addresses?: readonly (string | null | undefined)[] | undefined;
 }
 
 /** A worksheet function as hosts call it: derived from a spec by src/functions/define.ts. */
@@ -70,9 +78,9 @@ export interface SheetFunction {
    * Computes the result from the arguments in the order users type them (missing trailing
    * arguments may be left out). Throws on any problem; hosts turn what it throws into a cell
    * error through the one mapping in src/adapter/errors.ts `mapError` (never anywhere else).
-   * Argument arrays must not be mutated after they are passed: parsing is memoised by identity,
-   * so a host that passes the same array objects to many calls reads them once.
-   * `context` carries an optional AbortSignal and progress callback for long work.
+   * Arguments are remembered by content only (src/adapter/cells.ts), so a host may reuse or
+   * mutate its arrays between calls. `context` carries an optional AbortSignal and progress
+   * callback for long work, and the addresses of reference arguments.
    */
   invoke(args: readonly CellArg[], context?: InvokeContext): CellResult;
 }

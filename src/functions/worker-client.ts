@@ -31,6 +31,8 @@ interface Job {
   readonly id: number;
   readonly name: string;
   readonly args: CellArg[];
+  /** Addresses of reference arguments (InvokeContext.addresses), passed on to the worker. */
+  readonly addresses: (string | null | undefined)[] | undefined;
   readonly onProgress: ((fraction: number) => void) | undefined;
   readonly resolve: (r: CellResult) => void;
   readonly reject: (e: unknown) => void;
@@ -80,8 +82,13 @@ export class WorkerClient {
    * Runs `name` on `args` in the lane's worker. Resolves with the result; rejects with a
    * MappedCellError (the worker's mapped error) or a CANCELLED RatchetError.
    */
-  run(lane: Lane, name: string, args: CellArg[], options: { signal?: AbortSignal | undefined; onProgress?: ((f: number) => void) | undefined } = {}): Promise<CellResult> {
-    const { signal, onProgress } = options;
+  run(
+    lane: Lane,
+    name: string,
+    args: CellArg[],
+    options: { signal?: AbortSignal | undefined; onProgress?: ((f: number) => void) | undefined; addresses?: readonly (string | null | undefined)[] | undefined } = {},
+  ): Promise<CellResult> {
+    const { signal, onProgress, addresses } = options;
     if (signal?.aborted) {
       this.stats.cancelled++;
       return Promise.reject(cancelled());
@@ -91,7 +98,7 @@ export class WorkerClient {
       const onAbort = (): void => this.cancel(lane, id);
       signal?.addEventListener('abort', onAbort, { once: true });
       const cleanup = (): void => signal?.removeEventListener('abort', onAbort);
-      this.lanes[lane].queue.push({ id, name, args, onProgress, resolve, reject, cleanup });
+      this.lanes[lane].queue.push({ id, name, args, addresses: addresses?.slice(), onProgress, resolve, reject, cleanup });
       this.pump(lane);
     });
   }
@@ -159,7 +166,7 @@ export class WorkerClient {
       this.pump(lane);
       return;
     }
-    w.postMessage({ type: 'invoke', id: job.id, name: job.name, args: job.args, progress: job.onProgress !== undefined });
+    w.postMessage({ type: 'invoke', id: job.id, name: job.name, args: job.args, addresses: job.addresses, progress: job.onProgress !== undefined });
   }
 
   private receive(lane: Lane, msg: WorkerResponse): void {

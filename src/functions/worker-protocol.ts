@@ -13,6 +13,8 @@ export interface WorkerRequest {
   readonly id: number;
   readonly name: string;
   readonly args: CellArg[];
+  /** Addresses of reference arguments (InvokeContext.addresses); absent: every argument given directly. */
+  readonly addresses?: (string | null | undefined)[] | undefined;
   /** Send progress messages (fraction done) while it runs. */
   readonly progress?: boolean;
 }
@@ -32,7 +34,7 @@ export function handleRequest(req: WorkerRequest, post: (r: WorkerResponse) => v
     const f = functionByName(req.name);
     if (!f) throw new Error(`unknown function ${req.name}`);
     const onProgress = req.progress ? (fraction: number) => post({ type: 'progress', id: req.id, fraction }) : undefined;
-    const result = f.invoke(req.args, { onProgress });
+    const result = f.invoke(req.args, { onProgress, addresses: req.addresses });
     post({ type: 'result', id: req.id, ok: true, result });
   } catch (e) {
     post({ type: 'result', id: req.id, ok: false, error: mapError(e) });

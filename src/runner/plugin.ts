@@ -30,6 +30,8 @@ import {
 import type { CellArg, CellErrorInput, CellResult, CellValueIn, SheetFunction } from '../functions/types.js';
 import type { MappedError } from '../adapter/errors.js';
 import { NAMESPACE } from '../functions/registry.js';
+import { RatchetError } from '../core/index.js';
+import { columnLetters } from '../adapter/a1.js';
 
 /** The adapter's mapping from anything thrown to a cell error (src/adapter/errors.ts `mapError`). */
 export type ErrorMapper = (e: unknown) => MappedError;
@@ -58,6 +60,33 @@ export interface SizingState {
    * ({@link beginRecalculation}).
    */
   readonly ranges: Map<string, CellArg>;
+  /**
+   * Result sizes worked out before the engine was built (presize.ts), by formula cell
+   * ("sheet:row:col"): the size reserved for a call not yet learned there, so that a result
+   * enters the engine once with its final size. A wrong guess is only slower: the call then
+   * marks its cell for re-sizing like any other.
+   */
+  readonly presized: Map<string, Dims>;
+}
+
+/** Sizes and converted ranges for the next engine built ({@link stageForNextEngine}). */
+export interface Staged {
+  readonly sizes: Map<string, Dims>;
+  readonly ranges: Map<string, CellArg>;
+}
+
+let staged: Staged | undefined;
+
+/**
+ * Hands sizes and converted range arguments worked out before `HyperFormula.buildFromSheets` to
+ * the sizing state of the engine built next (the state is created when the build first calls a
+ * RATCHET function, or by {@link sizingStateOf} after it). Call immediately before the build and
+ * with `undefined` right after it. O(1).
+ * @param s the staged sizes ("sheet:row:col" → dims) and ranges ("sheet:r0:c0:r1:c1" → CellArg,
+ * exactly what {@link toCellArg} gives for those cells), or undefined to drop what was staged.
+ */
+export function stageForNextEngine(s: Staged | undefined): void {
+  staged = s;
 }
 
 const sizingByGraph = new WeakMap<object, SizingState>();
@@ -71,7 +100,8 @@ export function sizingStateOf(hf: HyperFormula): SizingState {
 function sizingFor(graph: object): SizingState {
   let s = sizingByGraph.get(graph);
   if (!s) {
-    s = { learned: new Map(), reserved: new Map(), dirty: new Set(), calls: 0, ranges: new Map() };
+    s = { learned: new Map(), reserved: new Map(), dirty: new Set(), calls: 0, ranges: staged?.ranges ?? new Map(), presized: staged?.sizes ?? new Map() };
+    staged = undefined;
     sizingByGraph.set(graph, s);
   }
   return s;
@@ -172,7 +202,12 @@ function wholeLines(arg: CellArg, columns: boolean): CellArg {
   return arg.map((row) => (row.length >= SHEET_COLS ? row : [...row, ...Array<CellValueIn>(SHEET_COLS - row.length).fill(null)]));
 }
 
-function dimsOf(r: CellResult): Dims {
+/**
+ * Rows × columns of a function's result: 1 × 1 for a scalar, else its rows and its widest row.
+ * O(rows).
+ * @example dimsOf([[1, 2], [3]]) // → { rows: 2, cols: 2 }
+ */
+export function dimsOf(r: CellResult): Dims {
   if (!Array.isArray(r)) return { rows: 1, cols: 1 };
   return { rows: r.length, cols: r.reduce((m, row) => Math.max(m, row.length), 0) };
 }
@@ -220,8 +255,54 @@ function cellKey(state: StateLike): string {
   return `${a.sheet}:${a.row}:${a.col}`;
 }
 
+/** The parts of HyperFormula's dependency graph and ASTs the address lookup reads. */
+interface GraphLike {
+  sheetMapping?: { getSheetName(id: number): string | undefined };
+}
+interface RangeLike {
+  start: { sheet: number; row: number; col: number };
+  end: { row: number; col: number };
+}
+
+/** TRUE or FALSE written bare (`=RATCHET.FIT(B1:B6,A1:A6,TRUE)`): HyperFormula parses it as a name. */
+function bareLogical(a: AstLike): boolean | undefined {
+  const name = (a as { expressionName?: unknown }).expressionName;
+  if (a.type !== 'NAMED_EXPRESSION' || typeof name !== 'string') return undefined;
+  const upper = name.toUpperCase();
+  return upper === 'TRUE' ? true : upper === 'FALSE' ? false : undefined;
+}
+
+/** Sheet name as written in a reference: quoted unless plain. */
+function sheetRef(name: string): string {
+  return /^[A-Za-z_][A-Za-z0-9_.]*$/.test(name) && !/^[A-Za-z]{1,3}\d+$/.test(name) ? name : `'${name.replace(/'/g, "''")}'`;
+}
+
+/**
+ * The worksheet address (`Data!B2:B40`) of an argument that is a reference — a range (also `B:B`)
+ * or a single cell — or undefined for anything else (constants, array constants, formula results).
+ * O(1).
+ */
+function addressOf(graph: GraphLike, a: AstLike, range: RangeLike | undefined, state: StateLike): string | undefined {
+  const sheetName = (id: number): string | undefined => graph.sheetMapping?.getSheetName(id);
+  const cell = (row: number, col: number): string => `${columnLetters(col + 1)}${row + 1}`;
+  if (range !== undefined && (a.type === 'CELL_RANGE' || a.type === 'COLUMN_RANGE' || a.type === 'ROW_RANGE')) {
+    const sheet = sheetName(range.start.sheet);
+    if (sheet === undefined) return undefined;
+    return `${sheetRef(sheet)}!${cell(range.start.row, range.start.col)}:${cell(range.end.row, range.end.col)}`;
+  }
+  if (a.type === 'CELL_REFERENCE') {
+    const ref = (a as { reference?: { toSimpleCellAddress?: (base: StateLike['formulaAddress']) => { sheet: number; row: number; col: number } } }).reference;
+    const at = ref?.toSimpleCellAddress?.(state.formulaAddress);
+    if (at === undefined || at.row < 0 || at.col < 0) return undefined;
+    const sheet = sheetName(at.sheet);
+    return sheet === undefined ? undefined : `${sheetRef(sheet)}!${cell(at.row, at.col)}`;
+  }
+  return undefined;
+}
+
 let registered: FunctionPluginDefinition | undefined;
 let registeredNames: readonly string[] = [];
+let registeredById: ReadonlyMap<string, SheetFunction> = new Map();
 
 /**
  * Registers the given worksheet functions with HyperFormula (globally, replacing an earlier
@@ -268,14 +349,22 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
       };
       const asts = ast.args ?? [];
       if (asts.length > fn.params.length) {
-        return errorOut(new CellError(ErrorType.NA, `${NAMESPACE}.${fn.name} takes at most ${fn.params.length} arguments; got ${asts.length}.`));
+        // The one mapping: too many arguments is an argument problem (#VALUE! with a message).
+        return errorOut(toHfError(toCellError(new RatchetError('BAD_OPTION', `${NAMESPACE}.${fn.name}`, `takes at most ${fn.params.length} arguments; got ${asts.length}`))));
       }
       const argState = { ...state, arraysFlag: true };
+      // Addresses of reference arguments ("Data!B2:B40"): text and logicals in data ranges are
+      // then left out, and messages name cells by address (InvokeContext.addresses).
+      const addresses: (string | undefined)[] = [];
       const args: CellArg[] = fn.params.map((_p, i) => {
         const a = asts[i];
         if (a === undefined || a.type === 'EMPTY') return undefined;
+        // A bare TRUE / FALSE is a logical, as in Excel (HyperFormula reads it as an unknown name).
+        const logical = bareLogical(a);
+        if (logical !== undefined) return logical;
         const v = this.evaluateAst(a as never, argState as never) as Internal;
         const range = v instanceof SimpleRangeValue ? v.range : undefined;
+        addresses[i] = addressOf(this.dependencyGraph as unknown as GraphLike, a, range, state);
         if (range === undefined) return toCellArg(v);
         const rk = `${range.start.sheet}:${range.start.row}:${range.start.col}:${range.end.row}:${range.end.col}`;
         let arg = sizing.ranges.get(rk);
@@ -287,7 +376,7 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
       });
       let result: CellResult;
       try {
-        result = fn.invoke(args);
+        result = fn.invoke(args, { addresses });
       } catch (e) {
         return errorOut(toHfError(toCellError(e)));
       }
@@ -305,7 +394,7 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
     sizeRatchet(ast: AstLike, state: StateLike): ArraySize {
       const sizing = sizingFor(this.dependencyGraph as unknown as object);
       const key = `${cellKey(state)}|${astKey(ast)}`;
-      const d = sizing.learned.get(key) ?? { rows: 1, cols: 1 };
+      const d = sizing.learned.get(key) ?? sizing.presized.get(cellKey(state)) ?? { rows: 1, cols: 1 };
       sizing.reserved.set(key, d);
       return d.rows === 1 && d.cols === 1 ? ArraySize.scalar() : new ArraySize(d.cols, d.rows);
     }
@@ -316,6 +405,12 @@ export function registerRatchetPlugin(functions: readonly SheetFunction[], toCel
   HyperFormula.registerFunctionPlugin(RatchetPlugin as unknown as FunctionPluginDefinition, { enGB: translations, enUS: translations });
   registered = RatchetPlugin as unknown as FunctionPluginDefinition;
   registeredNames = [...byId.keys()];
+  registeredById = byId;
+}
+
+/** The registered function called `name` ("RATCHET.FIT", any case), or undefined. O(1). */
+export function registeredFunction(name: string): SheetFunction | undefined {
+  return registeredById.get(name.toUpperCase());
 }
 
 /** Names currently registered (e.g. "RATCHET.FIT"). */

@@ -12,7 +12,8 @@ import ExcelJS from 'exceljs';
 import { DetailedCellError, HyperFormula, type RawCellContent, type SimpleCellAddress } from 'hyperformula';
 import { cellName, parseCellRef, parseRange, qualifiedName } from './address.js';
 import { callsRatchet, toStoredForm, toTypedForm } from './formula-text.js';
-import { beginRecalculation, sizingStateOf } from './plugin.js';
+import { beginRecalculation, sizingStateOf, stageForNextEngine } from './plugin.js';
+import { presize } from './presize.js';
 import { markDynamicArrays } from './dynamic-arrays.js';
 import { checkOutput, writeOutputSafely } from './safe-write.js';
 import { packageProblem } from './package-check.js';
@@ -226,10 +227,23 @@ export class EvaluatedWorkbook {
       }
       sheets[ws.name] = grid;
     }
-    const hf = HyperFormula.buildFromSheets(sheets, HF_CONFIG, namedRanges(wb));
+    // The engine numbers sheets in the order of the object's keys, which is workbook order unless
+    // a name looks like an array index ("2024"): only then are results sized inside the engine.
+    const ordered = names.every((n) => !/^(0|[1-9][0-9]*)$/.test(n));
+    stageForNextEngine(ordered ? presize(names.map((n) => sheets[n]!), names, formulas) : undefined);
+    let hf: HyperFormula;
+    try {
+      hf = HyperFormula.buildFromSheets(sheets, HF_CONFIG, namedRanges(wb));
+    } finally {
+      stageForNextEngine(undefined);
+    }
+    // The engine holds its own copy of the cells: let the grid go before the re-sizing passes.
+    for (const n of names) delete sheets[n];
     const book = new EvaluatedWorkbook(hf, wb, names);
     for (const a of formulas) book.noteFormulaCell({ sheet: hf.getSheetId(names[a.sheet]!)!, row: a.row, col: a.col });
     book.settle();
+    // Sizes worked out before the build are for the formulas read from the file only.
+    sizingStateOf(hf).presized.clear();
     return book;
   }
 
@@ -296,9 +310,14 @@ export class EvaluatedWorkbook {
         if (probed.has(k)) continue;
         probed.add(k);
         for (const key of [...sizing.learned.keys()]) if (key.startsWith(`${k}|`)) sizing.learned.delete(key);
+        sizing.presized.delete(k);
         todo.add(k);
       }
-      if (todo.size === 0) return;
+      if (todo.size === 0) {
+        // Converted ranges are not needed after a recalculation; drop them so their memory is freed.
+        beginRecalculation(this.hf);
+        return;
+      }
       this.keepRangesOf(todo);
       beginRecalculation(this.hf);
       this.hf.batch(() => {

@@ -261,7 +261,7 @@ describe('STATS', () => {
     // Used rows y = 1, 3, 2, 4, 6 at x = 1, 2, 3, 4, 6; fit 1, 2.5, 2.5, 4, 6: SSE 0.5, MAE 1/5,
     // ȳ = 3.2, SST = 14.8, R² = 1 − 0.5/14.8.
     const out = cell('STATS', col(1, 3, 2, 4, null, 6), col(1, 2, 3, 4, 5, 6)) as [string, number][];
-    expect(out.map((r) => r[0])).toEqual(['n', 'dropped', 'knots', 'direction', 'r2', 'rmse', 'mae', 'sse', 'levels']);
+    expect(out.map((r) => r[0])).toEqual(['n', 'dropped', 'knots', 'direction', 'r2', 'rmse', 'mae', 'sse', 'levels', 'text_rows']);
     expect(out.slice(0, 4)).toEqual([['n', 5], ['dropped', 1], ['knots', 5], ['direction', 1]]);
     expect(out[4]![1]).toBeCloseRel(1 - 0.5 / 14.8, 1e-14);
     expect(out[5]![1]).toBeCloseRel(Math.sqrt(0.1), 1e-14);
@@ -347,7 +347,7 @@ describe('Excel value conversion', () => {
 });
 
 describe('readers', () => {
-  it('parse ranges of 64+ cells once per argument object (identity memo); small ones every time', () => {
+  it('ranges of 64+ cells with the same cells give the remembered parse (content, not identity); small ones are parsed every time', () => {
     const big = col(...Array.from({ length: 64 }, (_, i) => (i === 5 ? null : i)));
     const a = readVector('known_ys', big);
     expect(readVector('known_xs', big)).toBe(a);

@@ -108,14 +108,14 @@ const ROWS: Row[] = [
     what: 'STATS of the classic fit (hand)',
     setup: BASE,
     formula: '=RATCHET.STATS(B1:B6,A1:A6)',
-    expected: [['n', 6], ['dropped', 0], ['knots', 5], ['direction', 1], ['r2', 1 - 1 / 17.5], ['rmse', Math.sqrt(1 / 6)], ['mae', 1 / 3], ['sse', 1], ['levels', 4]],
+    expected: [['n', 6], ['dropped', 0], ['knots', 5], ['direction', 1], ['r2', 1 - 1 / 17.5], ['rmse', Math.sqrt(1 / 6)], ['mae', 1 / 3], ['sse', 1], ['levels', 4], ['text_rows', 0]],
   },
   {
     what: 'STATS counts a dropped row and reports the direction chosen (hand)',
     setup: xy([6, 4, 5, 3, 1, null]),
     formula: '=RATCHET.STATS(B1:B6,A1:A6,0,0)',
     // Rows 1–5: 6, (4,5) → 4.5, 3, 1: SSE 0.5, RMSE √(0.5/5), MAE 1/5; ȳ = 3.8, SST = 14.8.
-    expected: [['n', 5], ['dropped', 1], ['knots', 5], ['direction', -1], ['r2', 1 - 0.5 / 14.8], ['rmse', Math.sqrt(0.1)], ['mae', 0.2], ['sse', 0.5], ['levels', 4]],
+    expected: [['n', 5], ['dropped', 1], ['knots', 5], ['direction', -1], ['r2', 1 - 0.5 / 14.8], ['rmse', Math.sqrt(0.1)], ['mae', 0.2], ['sse', 0.5], ['levels', 4], ['text_rows', 0]],
   },
   // ---- CV ----
   {
@@ -139,9 +139,24 @@ const ROWS: Row[] = [
   { what: 'BESTK one-SE rule, against the core (core)', setup: BASE, formula: '=RATCHET.BESTK(B1:B6,A1:A6,SEQUENCE(3,1,2),3,1,7)', expected: [[suggestKnots(coreCv.scores, 'one-se').knots]] },
   { what: 'BESTK minimum rule, against the core (core)', setup: BASE, formula: '=RATCHET.BESTK(B1:B6,A1:A6,SEQUENCE(3,1,2),3,1,7,1,,0)', expected: [[suggestKnots(coreCv.scores, 'min').knots]] },
   // ---- errors: argument problems are #VALUE! naming the argument ----
-  { what: 'text in a data range', setup: xy([1, 3, 'abc', 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: '#VALUE!', message: 'known_ys' },
-  { what: 'a number stored as text in a data range', setup: xy([1, 3, '2', 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: '#VALUE!', message: 'known_ys' },
-  { what: 'a logical in a data range', setup: xy([1, 3, true, 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: '#VALUE!', message: 'known_ys' },
+  // Text and logical cells in a referenced data range leave their row out, as blanks do (Excel's
+  // convention for SLOPE and CORREL) (common practice). Rows 1, 2, 4, 5, 6: y 1 3 4 6 5 → PAVA
+  // (hand) pools (6,5) to 5.5: 1 3 4 5.5 5.5, the text row empty.
+  { what: 'text in a referenced data range leaves its row out (hand)', setup: xy([1, 3, 'abc', 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: [[1], [3], [''], [4], [5.5], [5.5]] },
+  { what: 'a number stored as text in a referenced range leaves its row out (hand)', setup: xy([1, 3, '2', 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: [[1], [3], [''], [4], [5.5], [5.5]] },
+  { what: 'a logical in a referenced x range leaves its row out (hand)', setup: xy([1, 3, 2, 4, 6, 5], [1, 2, true, 4, 5, 6]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: [[1], [3], [''], [4], [5.5], [5.5]] },
+  {
+    what: 'STATS counts text rows in dropped and in text_rows (hand)',
+    setup: { ...xy([1, 3, 'n/a', 4, 6, null]), C1: 1, C2: 1, C3: 1, C4: true, C5: 1, C6: 1 },
+    formula: '=RATCHET.STATS(B1:B6,A1:A6,0,1,C1:C6)',
+    // Rows 1, 2, 5 used (row 3 text y, row 4 logical weight, row 6 blank y): y 1 3 6 rising, exact: SSE 0.
+    expected: [['n', 3], ['dropped', 3], ['knots', 3], ['direction', 1], ['r2', 1], ['rmse', 0], ['mae', 0], ['sse', 0], ['levels', 3], ['text_rows', 2]],
+  },
+  { what: 'text in an array constant stays an error', setup: BASE, formula: '=RATCHET.FIT({1;3;"abc";4;6;5},A1:A6)', expected: '#VALUE!', message: 'known_ys: needs numbers or blanks; cell 3 is the text "abc"' },
+  { what: 'a bare TRUE argument is named as a logical', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A6,TRUE)', expected: '#VALUE!', message: 'knots: needs a number; got the logical TRUE' },
+  { what: 'a bare FALSE as data is named as a logical', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A6,0,1,FALSE)', expected: '#VALUE!', message: 'the logical FALSE' },
+  { what: 'a negative weight is named by its address', setup: { ...BASE, C1: 1, C2: 1, C3: -0.123456789, C4: 1, C5: 1, C6: 1 }, formula: '=RATCHET.FIT(B1:B6,A1:A6,0,1,C1:C6)', expected: '#VALUE!', message: "weights: needs numbers ≥ 0; 'T__SHEET__'!C3 is -0.123457" },
+  { what: 'an error cell is named by its address', setup: xy([1, 3, { f: '1/0' }, 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: '#DIV/0!', message: "known_ys: 'T__SHEET__'!B3 holds the error #DIV/0!" },
   { what: 'mismatched sizes', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A5)', expected: '#VALUE!', message: 'known_xs' },
   { what: 'knots 1', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A6,1)', expected: '#VALUE!', message: 'knots' },
   { what: 'fractional knots', setup: BASE, formula: '=RATCHET.KNOTS(B1:B6,A1:A6,2.5)', expected: '#VALUE!', message: 'knots' },
@@ -181,7 +196,7 @@ const ROWS: Row[] = [
   { what: 'a #N/A cell inside a data range propagates', setup: xy([1, 3, { f: 'NA()' }, 4, 6, 5]), formula: '=RATCHET.STATS(B1:B6,A1:A6)', expected: '#N/A' },
   { what: 'a #NUM! cell inside a data range propagates', setup: xy([1, 3, { f: 'SQRT(-1)' }, 4, 6, 5]), formula: '=RATCHET.KNOTS(B1:B6,A1:A6)', expected: '#NUM!' },
   { what: 'an error cell inside new_xs propagates', setup: { ...BASE, C1: { f: '1/0' } }, formula: '=RATCHET.PREDICT(C1:C1,B1:B6,A1:A6)', expected: '#DIV/0!' },
-  { what: 'more arguments than the function takes (runner)', setup: TABLE, formula: '=RATCHET.EVAL(1,D1:E3,1)', expected: '#N/A', message: 'at most 2 arguments' },
+  { what: 'more arguments than the function takes is #VALUE! with a message (runner)', setup: TABLE, formula: '=RATCHET.EVAL(1,D1:E3,1)', expected: '#VALUE!', message: 'RATCHET.EVAL: takes at most 2 arguments; got 3' },
 ];
 
 describe('formulas and expected values, evaluated by the runner', () => {
@@ -199,7 +214,8 @@ describe('formulas and expected values, evaluated by the runner', () => {
     const at = `T${i + 1}!H1`;
     if (typeof row.expected === 'string') {
       expect(book.value(at)).toBe(row.expected);
-      if (row.message !== undefined) expect(book.message(at) ?? '').toContain(row.message);
+      // __SHEET__ stands for the row's sheet number (messages name cells as 'T7'!B3: quoted, as T7 alone reads as a cell).
+      if (row.message !== undefined) expect(book.message(at) ?? '').toContain(row.message.replace('__SHEET__', String(i + 1)));
     } else {
       expect(closeBlock(book.result(at), row.expected)).toBeUndefined();
     }
