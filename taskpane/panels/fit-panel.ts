@@ -61,7 +61,7 @@ export class FitPanel {
       const a = document.createElement('td');
       a.textContent = label;
       const b = document.createElement('td');
-      b.textContent = label === 'direction' ? (value === 1 ? 'rising (1)' : 'falling (−1)') : fmt(value);
+      b.textContent = typeof value === 'object' ? `${value.code} ${value.message}` : label === 'direction' ? (value === 1 ? 'rising (1)' : 'falling (−1)') : fmt(value);
       tr.append(a, b);
       t.append(tr);
     }
