@@ -1,4 +1,4 @@
-# The deterministic JSON writer of the R generators that source it (gen_band.R): jarr() forces an
+# The deterministic JSON writer of the R generators, which all source it: jarr() forces an
 # array, numbers are written with the shortest of %.15g / %.17g that reads back to the same double.
 # Not a generator itself (no gen_ prefix), so generate.sh does not run it.
 

@@ -20,7 +20,7 @@ import type { CellValueIn } from '../../src/functions/types.js';
 
 const CLASSIC: SurfaceSettings = { knots1: 0, knots2: 0, direction1: 1, direction2: 1 };
 
-// Issue 7's example as three columns of cells: x1 = column index, x2 = row index of Y.
+// The 3 × 3 worked example of docs/methods.md ("Surfaces") as three columns of cells: x1 = column index, x2 = row index of Y.
 const X1: CellValueIn[] = [0, 1, 2, 0, 1, 2, 0, 1, 2];
 const X2: CellValueIn[] = [0, 0, 0, 1, 1, 1, 2, 2, 2];
 const Y: CellValueIn[] = [1, 3, 2, 0, 2, 5, 4, 1, 6];
