@@ -1,44 +1,78 @@
 /**
- * Core benchmark: classic isotonic fits and knot fits on random unsorted data, a one-pass
- * baseline that sums x and y, and — when Debian's python3 has scikit-learn — scikit-learn's
- * IsotonicRegression.fit on the same data in the same run.
+ * Core benchmark (README, "Performance"): the classic isotonic fit against scikit-learn's
+ * IsotonicRegression.fit on the same data in the same run, its peak extra memory per row, and the
+ * knot fit against a one-pass baseline that sums x and y.
+ *
+ * - Classic fit: fitMonotone(x, y) on random unsorted x, and on x with many ties (1000 distinct
+ *   values), at 1e5 and 1e6 rows. scikit-learn 1.2.1 (Debian's /usr/bin/python3) reads the same
+ *   doubles from a temp file; each round starts a Python child that fits once to warm up and once
+ *   timed, and ours likewise fits once untimed before the timed fit. Rounds alternate ours /
+ *   scikit-learn's, 5 of them; min and median of the CPU time are
+ *   reported (ms), the ratio of the minima (goal ≤ 0.5) and of the medians, and the ratio of the
+ *   wall-time minima. Without that Python the bench says so and skips the ratios.
+ * - Memory: the typed arrays one fit allocates at the largest size, per row, result included
+ *   (bench/memory-child.ts, a fresh process; an upper bound of the peak), and for scikit-learn the
+ *   peak that Python's tracemalloc reports for one fit. Goal ≤ 80 bytes.
+ * - Knot fit, K = 20 evenly spaced, 1e5 and 1e6 rows: with fitted values, the knot table only
+ *   (fitted: false), and with a weights array of ones, each against the summing pass in alternating
+ *   rounds (goals ≤ 5, ≤ 3, and an array of ones no faster than no weights).
  */
 import { execFileSync } from 'node:child_process';
 import { existsSync, mkdtempSync, writeFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fitMonotone, knotRegression } from '../src/core/index.js';
-import { risingData, timeMs, type BenchRecord } from './harness.js';
+import { risingData, tiedData, timeRounds, warmTimed, type BenchRecord, type OwnTime, type Spread } from './harness.js';
 
 const PY = '/usr/bin/python3';
 
-/** Times sklearn's IsotonicRegression.fit on the given data (median of 5 after a warm-up), or null. */
-function sklearnMs(x: Float64Array, y: Float64Array): number | null {
-  if (!existsSync(PY)) return null;
-  const dir = mkdtempSync(join(tmpdir(), 'ratchet-bench-'));
-  try {
-    writeFileSync(join(dir, 'x.bin'), Buffer.from(x.buffer));
-    writeFileSync(join(dir, 'y.bin'), Buffer.from(y.buffer));
+/** A Python child on data written once to a temp directory; null when scikit-learn is missing. */
+class SklearnChild {
+  private readonly dir: string;
+  constructor(x: Float64Array, y: Float64Array) {
+    this.dir = mkdtempSync(join(tmpdir(), 'ratchet-bench-'));
+    writeFileSync(join(this.dir, 'x.bin'), Buffer.from(x.buffer, x.byteOffset, x.byteLength));
+    writeFileSync(join(this.dir, 'y.bin'), Buffer.from(y.buffer, y.byteOffset, y.byteLength));
+  }
+
+  /**
+   * 'time': "cpu wall" ms of one fit after a warm-up fit (time.process_time, time.perf_counter);
+   * 'memory': tracemalloc's peak during one fit, bytes per row.
+   */
+  run(mode: 'time' | 'memory'): string | null {
+    if (!existsSync(PY)) return null;
     const script = [
       'import sys, time, numpy as np',
       'try:',
       '    from sklearn.isotonic import IsotonicRegression',
       'except ImportError:',
       '    print("none"); sys.exit(0)',
-      `x = np.fromfile(${JSON.stringify(join(dir, 'x.bin'))}, dtype="<f8")`,
-      `y = np.fromfile(${JSON.stringify(join(dir, 'y.bin'))}, dtype="<f8")`,
-      'IsotonicRegression().fit(x, y)',
-      'ts = []',
-      'for _ in range(5):',
-      '    t0 = time.perf_counter(); IsotonicRegression().fit(x, y); ts.append(time.perf_counter() - t0)',
-      'ts.sort(); print(ts[2] * 1000)',
+      `x = np.fromfile(${JSON.stringify(join(this.dir, 'x.bin'))}, dtype="<f8")`,
+      `y = np.fromfile(${JSON.stringify(join(this.dir, 'y.bin'))}, dtype="<f8")`,
+      mode === 'time'
+        ? 'IsotonicRegression().fit(x, y); c0 = time.process_time(); t0 = time.perf_counter(); IsotonicRegression().fit(x, y); print((time.process_time() - c0) * 1000, (time.perf_counter() - t0) * 1000)'
+        : 'import tracemalloc; IsotonicRegression().fit(x[:70000], y[:70000]); tracemalloc.start(); m = IsotonicRegression().fit(x, y); print(tracemalloc.get_traced_memory()[1] / len(x))',
     ].join('\n');
-    const out = execFileSync(PY, ['-c', script], { encoding: 'utf8' }).trim();
-    return out === 'none' ? null : Number(out);
+    try {
+      const out = execFileSync(PY, ['-c', script], { encoding: 'utf8' }).trim();
+      return out === 'none' ? null : out;
+    } catch {
+      return null;
+    }
+  }
+
+  close(): void {
+    rmSync(this.dir, { recursive: true, force: true });
+  }
+}
+
+/** Typed-array bytes per row that one classic fit allocates, in a fresh Node process (see bench/memory-child.ts). */
+function oursMemory(n: number, kind: string): number | null {
+  try {
+    const child = join(import.meta.dirname, 'memory-child.ts');
+    return Number(execFileSync(process.execPath, [...process.execArgv, child, String(n), kind], { encoding: 'utf8' }).trim());
   } catch {
     return null;
-  } finally {
-    rmSync(dir, { recursive: true, force: true });
   }
 }
 
@@ -54,28 +88,86 @@ function sumPass(x: Float64Array, y: Float64Array): number {
 }
 
 export function run(emit: (r: BenchRecord) => void, options: { quick: boolean }): void {
-  const sizes = options.quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6];
+  const sizes = options.quick ? [1e4] : [1e5, 1e6];
+  let sink = 0;
+  let noPython = false;
+  for (const n of sizes) {
+    for (const [kind, data] of [['random', risingData(n)], ['ties', tiedData(n)]] as const) {
+      const { x, y } = data;
+      const sk = new SklearnChild(x, y);
+      let skMissing = false;
+      const t = timeRounds(
+        {
+          ours: () =>
+            warmTimed(() => {
+              sink += fitMonotone(x, y).levels;
+            }),
+          sklearn: (): OwnTime => {
+            const out = sk.run('time');
+            if (out === null) skMissing = true;
+            const [cpu, wall] = (out ?? '0 0').split(' ').map(Number);
+            return { cpu: cpu!, wall: wall! };
+          },
+        },
+        5,
+        1,
+      );
+      const o = t.ours!;
+      const rec: BenchRecord = { case: `classic fit, ${kind === 'random' ? 'random x' : 'x with many ties'}`, n, knots: 0, ms: o.min, median_ms: o.median };
+      if (skMissing) noPython = true;
+      else {
+        const s = t.sklearn!;
+        rec.sklearn_ms = s.min;
+        rec.sklearn_median_ms = s.median;
+        rec.ratio = o.min / s.min;
+        rec.ratio_median = o.median / s.median;
+        rec.wall_ratio = o.wallMin / s.wallMin;
+        rec.goal = 0.5;
+      }
+      if (n === sizes[sizes.length - 1]) {
+        const mem = oursMemory(n, kind);
+        if (mem !== null) rec.bytes_per_row = mem;
+        const skMem = skMissing ? null : sk.run('memory');
+        if (skMem !== null) rec.sklearn_bytes_per_row = Number(skMem);
+      }
+      sk.close();
+      emit(rec);
+    }
+  }
+  if (noPython) console.log(`(${PY} with scikit-learn not found: the ratios to scikit-learn were skipped)`);
+
   for (const n of sizes) {
     const { x, y } = risingData(n);
-    const runs = n >= 1e6 ? 5 : n <= 1e4 ? 41 : 9;
-    let sink = 0;
-    const sumMs = timeMs(() => {
-      sink += sumPass(x, y);
-    }, runs);
-    emit({ case: 'baseline: one pass summing x and y', n, knots: '-', ms: sumMs });
-    const classicMs = timeMs(() => fitMonotone(x, y), runs);
-    const sk = sklearnMs(x, y);
-    const rec: BenchRecord = { case: 'classic isotonic fit', n, knots: 0, ms: classicMs };
-    if (sk !== null) {
-      rec.sklearn_ms = sk;
-      rec.ratio_to_sklearn = classicMs / sk;
-    }
-    emit(rec);
-    for (const K of [10, 50]) {
-      const ms = timeMs(() => knotRegression(x, y, { knots: K }), runs);
-      const withStats = timeMs(() => fitMonotone(x, y, { knots: K }), runs);
-      emit({ case: "knot fit, evenly spaced", n, knots: K, ms, ratio_to_baseline: ms / sumMs, with_stats_ms: withStats });
-    }
-    if (sink === 0.5) console.log('');
+    const ones = new Float64Array(n).fill(1);
+    const t = timeRounds(
+      {
+        sum: () => {
+          sink += sumPass(x, y);
+        },
+        fitted: () => {
+          sink += knotRegression(x, y, { knots: 20 }).knotY[0]!;
+        },
+        table: () => {
+          sink += knotRegression(x, y, { knots: 20, fitted: false }).knotY[0]!;
+        },
+        ones: () => {
+          sink += knotRegression(x, y, { knots: 20, weights: ones }).knotY[0]!;
+        },
+        onesTable: () => {
+          sink += knotRegression(x, y, { knots: 20, weights: ones, fitted: false }).knotY[0]!;
+        },
+      },
+      n >= 1e6 ? 9 : 21,
+      3,
+    );
+    const base = t.sum!;
+    emit({ case: 'baseline: one pass summing x and y', n, knots: '-', ms: base.min, median_ms: base.median });
+    const row = (name: string, s: Spread, goal: number | string): void =>
+      emit({ case: name, n, knots: 20, ms: s.min, median_ms: s.median, ratio: s.min / base.min, ratio_median: s.median / base.median, wall_ratio: s.wallMin / base.wallMin, goal });
+    row('knot fit, fitted values', t.fitted!, 5);
+    row('knot fit, knot table only', t.table!, 3);
+    row('knot fit, weights all 1', t.ones!, `vs ${(t.fitted!.min / base.min).toPrecision(3)}`);
+    row('knot fit, table, weights all 1', t.onesTable!, `vs ${(t.table!.min / base.min).toPrecision(3)}`);
   }
+  if (sink === 0.5) console.log('');
 }

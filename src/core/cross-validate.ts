@@ -8,6 +8,8 @@ import { sortOrder } from './sort-order.js';
 import { checkShapeSpec, fitChecked, type KnotSpec, type ShapeSpec } from './model.js';
 import { smoothTableAt } from './smooth-table.js';
 import type { Curvature, Degree } from './shape-fit.js';
+import { knotChecked } from './knot-fit.js';
+import { fitStatistics } from './statistics.js';
 import { checkFolds, holdoutAssignment, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
 import { fail } from './errors.js';
@@ -165,6 +167,8 @@ interface Prepared {
   sx: Float64Array;
   sy: Float64Array;
   sw: Float64Array;
+  /** False when no weights were given: the fits then take their unit-weight paths. */
+  weighted: boolean;
   /** rowOf[k] = row-order index (among positive-weight rows) of sorted position k. */
   rowOf: Uint32Array;
   direction: DirectionOption;
@@ -240,7 +244,7 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
   const mean = sumWY / sumW;
   let sst = 0;
   for (let k = 0; k < n; k++) sst += sw[k]! * (sy[k]! - mean) ** 2;
-  return { n, sx, sy, sw, rowOf: order, direction, lower, upper, placement, shape, sst, yExp };
+  return { n, sx, sy, sw, weighted: options.weights !== undefined && options.weights !== null, rowOf: order, direction, lower, upper, placement, shape, sst, yExp };
 }
 
 /** Scores back in the units of y after {@link prepare}'s rescaling (R² has no units). */
@@ -305,6 +309,40 @@ function interpolateAscending(t: Float64Array, v: Float64Array, xs: Float64Array
   }
 }
 
+/**
+ * √(Σ w r² / Σ w) of the curve (t, v) at ascending `xs` against `ys` (w = 1 when `ws` is null), by
+ * one merge walk with the arithmetic of {@link interpolateAscending}; NaN when the plain sums are
+ * not trustworthy (overflow, or squares that may have underflowed), for the caller to recompute.
+ */
+function trainingRmse(t: Float64Array, v: Float64Array, xs: Float64Array, ys: Float64Array, ws: Float64Array | null): number {
+  const m = t.length;
+  const first = t[0]!;
+  const last = t[m - 1]!;
+  let j = 0;
+  let sse = 0;
+  let sw = 0;
+  let nonZero = false;
+  for (let i = 0; i < xs.length; i++) {
+    const x = xs[i]!;
+    let f: number;
+    if (x <= first) f = v[0]!;
+    else if (x >= last) f = v[m - 1]!;
+    else {
+      while (j + 1 <= m - 2 && t[j + 1]! <= x) j++;
+      const v0 = v[j]!;
+      const v1 = v[j + 1]!;
+      f = v0 === v1 ? v0 : v0 + ((x - t[j]!) / (t[j + 1]! - t[j]!)) * (v1 - v0);
+    }
+    const r = ys[i]! - f;
+    const w = ws === null ? 1 : ws[i]!;
+    sse += w * r * r;
+    sw += w;
+    if (r !== 0) nonZero = true;
+  }
+  if (!Number.isFinite(sse) || !Number.isFinite(sw) || (nonZero && !(sse > 2 ** -800))) return NaN;
+  return Math.sqrt(sse / sw);
+}
+
 /** Running sums of one candidate. */
 interface Accumulator {
   sse: number;
@@ -356,15 +394,44 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
       }
     }
     const direction: Direction = p.direction === 'auto' ? resolveDirection(tx, ty, undefined, 'auto') : p.direction;
+    const trainW = p.weighted ? tw : null;
+    // Plain knot candidates (no curvature or degree option) take the table-only path.
+    const plain = p.shape.curvature === 0 && p.shape.degree === 1;
     const pred = new Float64Array(m);
+    let spare: Float64Array | null = null;
     for (let c = 0; c < C; c++) {
       if (signal?.aborted) cancelled(done, total);
       const K = candidates[c]!;
-      const spec: KnotSpec = K === 0 ? 0 : p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
-      const model = fitChecked(tx, ty, tw, spec, direction, p.lower, p.upper, p.shape);
-      if (model.interpolation === 'quadratic') {
-        for (let i = 0; i < m; i++) pred[i] = smoothTableAt(model.knotX, model.knotY, 'quadratic', ex[i]!);
-      } else interpolateAscending(model.knotX, model.knotY, ex, pred);
+      let knotX: Float64Array;
+      let knotY: Float64Array;
+      let trainRmse: number;
+      if (K === 0 || !plain) {
+        // The classic fit, or a shaped knot fit (its own solver): the full model.
+        const spec: KnotSpec = K === 0 ? 0 : p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
+        const model = fitChecked(tx, ty, plain ? trainW : tw, spec, direction, p.lower, p.upper, p.shape);
+        knotX = model.knotX;
+        knotY = model.knotY;
+        trainRmse = model.stats.rmse;
+        if (model.interpolation === 'quadratic') {
+          for (let i = 0; i < m; i++) pred[i] = smoothTableAt(knotX, knotY, 'quadratic', ex[i]!);
+        } else interpolateAscending(knotX, knotY, ex, pred);
+      } else {
+        // The knot table only (no fitted values); the training RMSE from one merge walk over the
+        // training rows, which are in x order. y and w are already in prepare's rescaled units,
+        // so the walk's sums stay far from overflow and underflow; should they not, the scaled
+        // statistics of the full fitted values take over.
+        const spec: KnotSpec = p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
+        const fit = knotChecked(tx, ty, trainW, spec, direction, p.lower, p.upper, false, false);
+        knotX = fit.knotX;
+        knotY = fit.knotY;
+        trainRmse = trainingRmse(knotX, knotY, tx, ty, trainW);
+        if (Number.isNaN(trainRmse)) {
+          spare ??= new Float64Array(tx.length);
+          interpolateAscending(knotX, knotY, tx, spare);
+          trainRmse = fitStatistics(ty, spare, trainW ?? undefined).rmse;
+        }
+        interpolateAscending(knotX, knotY, ex, pred);
+      }
       let sse = 0;
       let sae = 0;
       let sumW = 0;
@@ -384,7 +451,7 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
       a.sse += sse;
       a.sae += sae;
       a.sw += sumW;
-      a.trainRmse += model.stats.rmse;
+      a.trainRmse += trainRmse;
       a.foldRmse.push(Math.sqrt(sse / sumW));
       done++;
       onProgress?.(done / total);

@@ -8,7 +8,7 @@ import { resolveDirection } from './direction.js';
 import { solveMonotoneTridiagonal } from './monotone-qp.js';
 import { fail } from './errors.js';
 import { interpolateAt, intervalIndex, lerp } from './interpolate.js';
-import { scaleExponents, timesPowerOfTwo } from './scale.js';
+import { scaleExponents, scaleFromExtremes, timesPowerOfTwo } from './scale.js';
 
 /** Options of {@link knotRegression}. */
 export interface KnotFitOptions extends CommonFitOptions {
@@ -17,6 +17,12 @@ export interface KnotFitOptions extends CommonFitOptions {
    * positive weight, or explicit strictly increasing knot positions (at least 2).
    */
   knots: number | ArrayLike<number>;
+  /**
+   * `true` (default): return the fitted value of every row. `false`: return the knot table only
+   * (`fitted` is then an empty array) — the knot values are exactly those of the full fit, and the
+   * pass that evaluates the curve at every row, and its n-sized array, are skipped.
+   */
+  fitted?: boolean;
 }
 
 /** Result of {@link knotRegression}. */
@@ -28,7 +34,7 @@ export interface KnotFit {
   readonly knotX: Float64Array;
   /** Fitted knot values θ₁ … θ_K (monotone in the direction used). */
   readonly knotY: Float64Array;
-  /** Fitted value for every input row, in input order. */
+  /** Fitted value for every input row, in input order (empty when the option `fitted` is false). */
   readonly fitted: Float64Array;
   /** Number of distinct knot values (groups of equal adjacent values): the model's effective size. */
   readonly levels: number;
@@ -50,7 +56,7 @@ export interface KnotFit {
  *
  * Method: one O(n) pass assembles the tridiagonal normal matrix H = BᵀWB and Bᵀ W y (no n × K
  * matrix); {@link solveMonotoneTridiagonal} solves the resulting QP exactly by an active-set method
- * whose subproblems are Thomas-algorithm solves; a second O(n) pass evaluates the fitted values.
+ * whose subproblems are Thomas-algorithm solves; a second O(n) pass evaluates the fitted values (skipped with `fitted: false`).
  *
  * Unidentified knots: a knot whose two neighbouring intervals hold no row with positive weight
  * does not affect the fit, so its value is not determined by the data. Ratchet fits the knots that
@@ -77,13 +83,15 @@ export interface KnotFit {
  *
  * @param x predictor values, finite, length n.
  * @param y responses, finite, length n.
- * @param options knots (required), weights (default 1), direction (`'up'` default, `'down'`,
- *   `'auto'`), lower, upper (bounds on the knot values).
+ * @param options knots (required), weights (default 1; absent weights take a faster path than
+ *   an array of ones), direction (`'up'` default, `'down'`, `'auto'`), lower, upper (bounds on the
+ *   knot values), fitted (default true; false returns the knot table only).
  * @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_BOUNDS,
  *   BAD_OPTION (direction), BAD_KNOTS (count not a whole number ≥ 2, positions not strictly
  *   increasing, or an x range too narrow — a few ulps — for K distinct even positions),
  *   TOO_FEW_POINTS (fewer than 2 distinct x with positive weight).
  * @example knotRegression([0, 1, 2, 3], [0, 2, 1, 3], { knots: 2 }).knotY // → Float64Array [0.3, 2.7]
+ * @example knotRegression([0, 1, 2, 3], [0, 2, 1, 3], { knots: 2, fitted: false }).fitted.length // → 0
  */
 export function knotRegression(x: ArrayLike<number>, y: ArrayLike<number>, options: KnotFitOptions): KnotFit {
   // Float64Array inputs are used in place (never written); their finiteness is checked inside the
@@ -102,13 +110,14 @@ export function knotRegression(x: ArrayLike<number>, y: ArrayLike<number>, optio
     knots = checkKnotPositions(knotsOption);
   } else return fail('BAD_KNOTS', 'knots', 'needs a knot count or a list of knot positions');
   const direction = resolveDirection(xs, ys, ws ?? undefined, options.direction);
-  return knotChecked(xs, ys, ws, knots, direction, lower, upper);
+  return knotChecked(xs, ys, ws, knots, direction, lower, upper, false, options.fitted !== false);
 }
 
 /**
  * {@link knotRegression} on validated copies with a resolved direction; `knots` is a checked
  * count or checked positions; `ws` null means unit weights (a faster path). Used by
- * cross-validation, which validates once.
+ * cross-validation, which validates once. `withFitted` false skips the fitted values (an empty
+ * array is returned for them); the knot table is the same either way.
  */
 export function knotChecked(
   xs: Float64Array,
@@ -119,18 +128,21 @@ export function knotChecked(
   lower: number,
   upper: number,
   rescaled = false,
+  withFitted = true,
 ): KnotFit {
   const n = xs.length;
   // Range of the rows that count, and the check for two distinct x.
-  weightedRange(xs, ws, rangeOut);
+  weightedRange(xs, ys, ws, rangeOut);
   const xmin = rangeOut[0]!;
   const xmax = rangeOut[1]!;
   if (rangeOut[2] !== 0) finiteArray('x', xs); // throws NON_FINITE naming the entry
   if (!(xmin < xmax)) fail('TOO_FEW_POINTS', 'x', `needs at least 2 distinct values with positive weight; got ${xmin === xmax ? 1 : 0}`);
   // y or weights far from 1 (1e-100-sized y with 1e-250 weights underflow in w·y), or weights spread
-  // over more than 2^600: fit the exactly rescaled problem (see src/core/scale.ts).
-  if (!rescaled && (!(xmax - xmin < HUGE) || scaleExponents(ys, ws).needed)) {
-    return knotRescaled(xs, ys, ws, knots, direction, lower, upper);
+  // over more than 2^600: fit the exactly rescaled problem (see src/core/scale.ts). The extremes
+  // come from the range pass above (a NaN y is caught by the assembly below).
+  const scales = scaleFromExtremes(rangeOut[3]!, rangeOut[4]!, rangeOut[5]!);
+  if (!rescaled && (!(xmax - xmin < HUGE) || scales.needed)) {
+    return knotRescaled(xs, ys, ws, knots, direction, lower, upper, withFitted);
   }
   const t = typeof knots === 'number' ? evenKnots(xmin, xmax, knots) : knots;
   const K = t.length;
@@ -145,7 +157,7 @@ export function knotChecked(
   const e = new Float64Array(K - 1);
   const c = new Float64Array(K);
   if (!assemble(xs, ys, ws, t, even, sign, d, e, c)) finiteArray('y', ys); // throws NON_FINITE
-  if (!rescaled && !moderate(d, c)) return knotRescaled(xs, ys, ws, knots, direction, lower, upper);
+  if (!rescaled && !moderate(d, c)) return knotRescaled(xs, ys, ws, knots, direction, lower, upper, withFitted);
 
   // Reduced problem over the identified knots (positive diagonal).
   const identified = new Uint8Array(K);
@@ -168,7 +180,7 @@ export function knotChecked(
   const rough = positiveDefinite(rd, re) ? null : addRoughness(rd, re, idx, t);
   // A tie-break scaled to the heaviest rows would swamp light ones: with weights spread over more
   // than 2^20 (about 1e6), failing Cholesky pivots mean ill-conditioning, not a singular chain.
-  if (rough !== null && ws !== null && scaleExponents(ys, ws).spread > MAX_TIE_BREAK_SPREAD) illConditioned();
+  if (rough !== null && ws !== null && scales.spread > MAX_TIE_BREAK_SPREAD) illConditioned();
   const solution = solveMonotoneTridiagonal(rd, re, rc, lo, hi);
   let theta = solution.theta;
   if (rough === null && solution.pivotRatio < MIN_PIVOT_RATIO) illConditioned();
@@ -212,8 +224,8 @@ export function knotChecked(
   for (let j = 1; j < K; j++) if (values[j] !== values[j - 1]) levels++;
   if (sign < 0) for (let j = 0; j < K; j++) values[j] = -values[j]!;
 
-  const fitted = new Float64Array(n);
-  evaluate(xs, t, even, values, fitted);
+  const fitted = new Float64Array(withFitted ? n : 0);
+  if (withFitted) evaluate(xs, t, even, values, fitted);
   return { method: 'knots', direction, knotX: t, knotY: values, fitted, levels, identified };
 }
 
@@ -255,6 +267,7 @@ function assemble(
   const last = K - 2;
   const scale = (K - 1) / (tK - t0);
   if (!even) return assembleExplicit(xs, ys, ws, t, sign, d, e, c);
+  if (ws === null) return assembleUnit(xs, ys, t, sign, d, e, c);
   for (let i = 0; i < n; i++) {
     const x = xs[i]!;
     let j = 0;
@@ -286,6 +299,50 @@ function assemble(
     c[j + 1] = c[j + 1]! + wu * yi;
   }
   return finiteY === 0;
+}
+
+/**
+ * {@link assemble} for unit weights and evenly spaced knots: the same arithmetic with w = 1 (so
+ * the same sums to the bit), without reading or testing a weight per row, and with the finiteness
+ * of y read off the K sums instead of a per-row test.
+ */
+function assembleUnit(xs: Float64Array, ys: Float64Array, t: Float64Array, sign: number, d: Float64Array, e: Float64Array, c: Float64Array): boolean {
+  const n = xs.length;
+  const K = t.length;
+  const t0 = t[0]!;
+  const tK = t[K - 1]!;
+  const last = K - 2;
+  const scale = (K - 1) / (tK - t0);
+  for (let i = 0; i < n; i++) {
+    const x = xs[i]!;
+    let j = 0;
+    let u = 0;
+    if (x >= tK) {
+      j = last;
+      u = 1;
+    } else if (x > t0) {
+      const p = (x - t0) * scale;
+      j = p | 0;
+      if (j > last) j = last;
+      u = p - j;
+      if (u < 1e-9 || u > 1 - 1e-9) {
+        if (x < t[j]!) j--;
+        else if (x >= t[j + 1]!) j++;
+        u = (x - t[j]!) / (t[j + 1]! - t[j]!);
+      }
+    }
+    const v = 1 - u;
+    const yi = sign * ys[i]!;
+    d[j] = d[j]! + v * v;
+    e[j] = e[j]! + v * u;
+    d[j + 1] = d[j + 1]! + u * u;
+    c[j] = c[j]! + v * yi;
+    c[j + 1] = c[j + 1]! + u * yi;
+  }
+  // A non-finite y makes some c entry NaN or infinite (0·∞ is NaN too); finite y can make one
+  // infinite only by overflow, which the caller tells apart (and then rescales).
+  for (let k = 0; k < K; k++) if (!Number.isFinite(c[k]!)) return false;
+  return true;
 }
 
 /** {@link assemble} for explicit knots (binary search per row); kept apart so each loop stays small. */
@@ -381,29 +438,67 @@ function evaluate(xs: Float64Array, t: Float64Array, even: boolean, values: Floa
 }
 
 /** Scratch for {@link weightedRange}'s three results. */
-const rangeOut = new Float64Array(3);
+const rangeOut = new Float64Array(6);
 
 /**
  * Writes into `out` the smallest and largest x among rows with positive weight (all rows when `ws`
- * is null), and a sum that is 0 exactly when every x is finite (v − v is NaN for NaN and
- * ±Infinity). O(n). Results go to a Float64Array rather than a returned tuple: accumulators that
- * escape into an array literal are boxed by V8, which made this loop 3× slower.
+ * is null), a sum that is 0 exactly when every x is finite (v − v is NaN for NaN and ±Infinity),
+ * and, for the scale check (scaleFromExtremes), the largest |y| and the largest and smallest
+ * weight of those rows. O(n), one pass. Results go to a Float64Array rather than a returned tuple:
+ * accumulators that escape into an array literal are boxed by V8, which made this loop 3× slower.
  */
-function weightedRange(xs: Float64Array, ws: Float64Array | null, out: Float64Array): void {
+function weightedRange(xs: Float64Array, ys: Float64Array, ws: Float64Array | null, out: Float64Array): void {
+  if (ws === null) {
+    unitRange(xs, ys, out);
+    return;
+  }
   let xmin = Infinity;
   let xmax = -Infinity;
   let finiteX = 0;
+  let maxY = 0;
+  let maxW = 0;
+  let minW = Infinity;
   for (let i = 0; i < xs.length; i++) {
     const v = xs[i]!;
     finiteX += v - v;
-    if (ws === null || ws[i]! > 0) {
+    const w = ws[i]!;
+    if (w > 0) {
       if (v < xmin) xmin = v;
       if (v > xmax) xmax = v;
+      const a = Math.abs(ys[i]!);
+      if (a > maxY) maxY = a;
+      if (w > maxW) maxW = w;
+      if (w < minW) minW = w;
     }
   }
   out[0] = xmin;
   out[1] = xmax;
   out[2] = finiteX;
+  out[3] = maxY;
+  out[4] = maxW;
+  out[5] = minW;
+}
+
+/** {@link weightedRange} for unit weights: every row counts. */
+function unitRange(xs: Float64Array, ys: Float64Array, out: Float64Array): void {
+  let xmin = Infinity;
+  let xmax = -Infinity;
+  let finiteX = 0;
+  let maxY = 0;
+  for (let i = 0; i < xs.length; i++) {
+    const v = xs[i]!;
+    finiteX += v - v;
+    xmin = v < xmin ? v : xmin;
+    xmax = v > xmax ? v : xmax;
+    const a = Math.abs(ys[i]!);
+    maxY = a > maxY ? a : maxY;
+  }
+  out[0] = xmin;
+  out[1] = xmax;
+  out[2] = finiteX;
+  out[3] = maxY;
+  out[4] = 1;
+  out[5] = 1;
 }
 
 /** Sums beyond this (2^900) are rescaled before solving, so that no product can overflow. */
@@ -440,6 +535,7 @@ function knotRescaled(
   direction: Direction,
   lower: number,
   upper: number,
+  withFitted: boolean,
 ): KnotFit {
   let mx = 0;
   for (let i = 0; i < xs.length; i++) mx = Math.max(mx, Math.abs(xs[i]!));
@@ -458,6 +554,7 @@ function knotRescaled(
     timesPowerOfTwo(lower, -ey),
     timesPowerOfTwo(upper, -ey),
     true,
+    withFitted,
   );
   const up = timesPowerOfTwo;
   return {

@@ -209,7 +209,7 @@ export function fitChecked(
   }
   const fit =
     spec === 0
-      ? isotonicChecked(xs, ys, ws ?? new Float64Array(xs.length).fill(1), direction, lower, upper)
+      ? isotonicChecked(xs, ys, ws, direction, lower, upper)
       : knotChecked(xs, ys, ws, spec, direction, lower, upper);
   return {
     method: fit.method,

@@ -53,6 +53,20 @@ export function scaleExponents(ys: ArrayLike<number>, ws: ArrayLike<number> | nu
       if (w < minW) minW = w;
     }
   }
+  return scaleFromExtremes(maxY, maxW, minW);
+}
+
+/**
+ * {@link scaleExponents} from extremes that a caller has already found in one of its own passes:
+ * the largest |y| and the largest and smallest weight among the rows with positive weight. O(1).
+ *
+ * @param maxY largest |y| of the rows that count, ≥ 0 (Infinity gives exponent 1023, i.e. rescaling).
+ * @param maxW largest positive weight; 0 when there is none; 1 for unit weights.
+ * @param minW smallest positive weight (ignored when maxW is 0); 1 for unit weights.
+ * @throws RatchetError NUMERICAL when maxW / minW exceeds 2^1700, as scaleExponents.
+ * @example scaleFromExtremes(14, 1e100, 1e-300) // → { yExp: 4, wExp: -331, spread: 1329, needed: true }
+ */
+export function scaleFromExtremes(maxY: number, maxW: number, minW: number): ScaleExponents {
   const yExp = exponentOf(maxY);
   const hi = exponentOf(maxW);
   const lo = maxW > 0 ? exponentOf(minW) : hi;

@@ -2,30 +2,64 @@
  * Stable ascending sort order of finite numbers by LSD radix sort on their IEEE-754 bits.
  */
 
-
 /**
  * Returns the permutation that sorts `values` ascending: `values[order[0]] ≤ values[order[1]] ≤ …`.
  * The sort is stable (equal values keep their input order) and treats −0 as equal to +0.
  *
  * Cost: O(n) time (one histogram pass, then up to four scatter passes over 16-bit digits of the
  * 64-bit key — eight over 8-bit digits below 65,536 elements — each skipped when all elements
- * share that digit), O(n) extra memory. A linear scan first returns the identity at once when `values` is already sorted.
+ * share that digit), O(n) extra memory (about 24 bytes per element). A linear scan first returns
+ * the identity at once when `values` is already sorted.
  *
  * @param values finite numbers (NaN is not allowed — callers validate first); not modified.
  * @returns a new Uint32Array of indices (empty for empty input).
  * @example sortOrder([3, 1, 2, 1]) // → Uint32Array [1, 3, 2, 0]
  */
 export function sortOrder(values: ArrayLike<number>): Uint32Array {
+  return sortRows(values, false).order;
+}
+
+/** Result of {@link sortRows}. */
+export interface SortedRows {
+  /** The stable ascending permutation (as {@link sortOrder}). */
+  order: Uint32Array;
+  /** `values` in ascending order with −0 turned into +0, or null when not asked for. */
+  sorted: Float64Array | null;
+  /**
+   * The radix sort's scratch buffers (n doubles' worth, and n indices), free for the caller to
+   * reuse; null when the input was sorted or short (no radix passes ran).
+   */
+  spare: Float64Array | null;
+  spareOrder: Uint32Array | null;
+}
+
+/**
+ * {@link sortOrder} that can also return the sorted values themselves, decoded from the radix
+ * keys the sort already moved into place — so a caller needs no random gather through the
+ * permutation to read x in order (at 10⁶ rows that gather costs about as much as a sort pass).
+ *
+ * Cost: as sortOrder; the sorted values reuse the key buffer (no extra memory).
+ *
+ * @param values finite numbers (callers validate first); not modified.
+ * @param withSorted true to return the sorted values too.
+ * @example sortRows([3, -0, 2], true).sorted // → Float64Array [0, 2, 3]
+ */
+export function sortRows(values: ArrayLike<number>, withSorted: boolean): SortedRows {
   const n = values.length;
-  const order = new Uint32Array(n);
   let sorted = true;
-  for (let i = 0; i < n; i++) {
-    order[i] = i;
-    if (i > 0 && values[i - 1]! > values[i]!) sorted = false;
+  for (let i = 1; i < n; i++) {
+    if (values[i - 1]! > values[i]!) {
+      sorted = false;
+      break;
+    }
   }
-  if (sorted || n < 2) return order;
+  if (sorted || n < 2) {
+    const order = identity(n);
+    return { order, sorted: withSorted ? gather(values, order) : null, spare: null, spareOrder: null };
+  }
   if (n < 64) {
     // Insertion sort is faster than four counting passes on tiny inputs (and stable).
+    const order = identity(n);
     for (let i = 1; i < n; i++) {
       const idx = order[i]!;
       const v = values[idx]!;
@@ -36,24 +70,7 @@ export function sortOrder(values: ArrayLike<number>): Uint32Array {
       }
       order[j + 1] = idx;
     }
-    return order;
-  }
-  // Map each double to a 64-bit unsigned key (hi, lo) whose unsigned order is the numeric order.
-  const f = new Float64Array(n);
-  for (let i = 0; i < n; i++) f[i] = values[i]! + 0; // + 0 turns −0 into +0
-  const u = new Uint32Array(f.buffer);
-  const lo = new Uint32Array(n);
-  const hi = new Uint32Array(n);
-  for (let i = 0; i < n; i++) {
-    const l = u[2 * i]!;
-    const h = u[2 * i + 1]!;
-    if (h & 0x80000000) {
-      hi[i] = ~h >>> 0;
-      lo[i] = ~l >>> 0;
-    } else {
-      hi[i] = (h | 0x80000000) >>> 0;
-      lo[i] = l;
-    }
+    return { order, sorted: withSorted ? gather(values, order) : null, spare: null, spareOrder: null };
   }
   // Digits of 16 bits (4 passes) for large inputs; of 8 bits (8 passes) below 65,536 elements,
   // where clearing and summing 65,536-bucket histograms would cost more than the passes.
@@ -62,18 +79,32 @@ export function sortOrder(values: ArrayLike<number>): Uint32Array {
   const mask = buckets - 1;
   const perWord = 32 / bits;
   const passes = 2 * perWord;
-  // All digit histograms in one pass (they do not depend on the order).
-  const counts = new Uint32Array(passes * buckets);
+  // Map each double to a 64-bit unsigned key whose unsigned order is the numeric order, stored
+  // as (low word, high word) pairs in one array so a scatter moves a key with one 8-byte stride;
+  // all digit histograms are counted in the same pass (they do not depend on the order).
+  const f = values instanceof Float64Array ? values : Float64Array.from(values);
+  const u = new Uint32Array(f.buffer, f.byteOffset, 2 * n);
+  let key: Uint32Array = new Uint32Array(2 * n);
+  const counts = histogramBuffer(passes * buckets);
   for (let i = 0; i < n; i++) {
-    const l = lo[i]!;
-    const h = hi[i]!;
+    let l = u[2 * i]!;
+    let h = u[2 * i + 1]!;
+    if (h & 0x80000000) {
+      const negativeZero = h === 0x80000000 && l === 0;
+      l = negativeZero ? 0 : ~l >>> 0;
+      h = negativeZero ? 0x80000000 : ~h >>> 0;
+    } else {
+      h = (h | 0x80000000) >>> 0;
+    }
+    key[2 * i] = l;
+    key[2 * i + 1] = h;
     for (let p = 0; p < perWord; p++) {
       counts[p * buckets + ((l >>> (p * bits)) & mask)]!++;
       counts[(p + perWord) * buckets + ((h >>> (p * bits)) & mask)]!++;
     }
   }
   // Exclusive prefix sums; a pass whose digit is the same for every element is skipped.
-  const needed: boolean[] = [];
+  const needed: number[] = [];
   for (let p = 0; p < passes; p++) {
     let sum = 0;
     let nonEmpty = 0;
@@ -83,31 +114,99 @@ export function sortOrder(values: ArrayLike<number>): Uint32Array {
       counts[b] = sum;
       sum += k;
     }
-    needed.push(nonEmpty > 1);
+    if (nonEmpty > 1) needed.push(p);
   }
-  // Stable scatter passes that carry the key words along with the indices, so every pass reads
-  // its input sequentially (gathering keys through the permutation would miss the cache).
-  let idx = order;
-  let keyLo = lo;
-  let keyHi = hi;
-  let spareIdx = new Uint32Array(n);
-  let spareLo = new Uint32Array(n);
-  let spareHi = new Uint32Array(n);
-  for (let pass = 0; pass < passes; pass++) {
-    if (!needed[pass]) continue;
-    const base = pass * buckets;
-    const onLo = pass < perWord;
-    const shift = (pass % perWord) * bits;
-    const key = onLo ? keyLo : keyHi;
-    for (let i = 0; i < n; i++) {
-      const at = counts[base + ((key[i]! >>> shift) & mask)]!++;
-      spareIdx[at] = idx[i]!;
-      if (onLo) spareLo[at] = keyLo[i]!; // the low word is needed only by the low-word passes
-      spareHi[at] = keyHi[i]!;
+  // Stable scatter passes that carry the keys along with the indices, so every pass reads its
+  // input sequentially (gathering keys through the permutation would miss the cache). The first
+  // pass takes the indices from its loop counter; the last decodes the keys as it writes them.
+  let idx: Uint32Array | null = null;
+  let spareIdx: Uint32Array = new Uint32Array(n);
+  let spareKey: Uint32Array = new Uint32Array(2 * n);
+  let spareOrder: Uint32Array | null = null;
+  for (let q = 0; q < needed.length; q++) {
+    const pass = needed[q]!;
+    const decode = withSorted && q === needed.length - 1;
+    scatter(key, idx, spareKey, spareIdx, counts, pass * buckets, pass < perWord ? 0 : 1, (pass % perWord) * bits, mask, decode);
+    const nextSpare = idx ?? new Uint32Array(n);
+    idx = spareIdx;
+    spareIdx = nextSpare;
+    [key, spareKey] = [spareKey, key];
+    spareOrder = spareIdx;
+  }
+  if (idx === null) {
+    // Every digit was shared: the values are all equal (then the input was sorted, handled above).
+    idx = identity(n);
+    spareOrder = spareIdx;
+    if (withSorted) decodeInPlace(key);
+  }
+  const spare = new Float64Array(spareKey.buffer, spareKey.byteOffset, n);
+  return { order: idx, sorted: withSorted ? new Float64Array(key.buffer, key.byteOffset, n) : null, spare, spareOrder };
+}
+
+/** The histogram buffer, kept between calls (1 MB at most): allocating it anew each time costs more. */
+let histograms: Uint32Array | null = null;
+
+/** A zeroed histogram buffer of `size` counts (reused; the sort is never re-entered while it runs). */
+function histogramBuffer(size: number): Uint32Array {
+  if (histograms === null || histograms.length < size) histograms = new Uint32Array(Math.max(size, 4 * 65536));
+  const h = histograms.subarray(0, size);
+  h.fill(0);
+  return h;
+}
+
+/** 0, 1, …, n − 1. */
+function identity(n: number): Uint32Array {
+  const order = new Uint32Array(n);
+  for (let i = 0; i < n; i++) order[i] = i;
+  return order;
+}
+
+/** Turns sort keys back into the doubles' bit patterns, in place. */
+function decodeInPlace(key: Uint32Array): void {
+  for (let i = 0; i < key.length; i += 2) {
+    const l = key[i]!;
+    const h = key[i + 1]!;
+    key[i] = h & 0x80000000 ? l : ~l >>> 0;
+    key[i + 1] = h & 0x80000000 ? (h & 0x7fffffff) >>> 0 : ~h >>> 0;
+  }
+}
+
+/**
+ * One stable counting-sort pass on the digit `(key word >>> shift) & mask`, moving keys and
+ * indices (`idx` null: the identity); with `decode`, the keys are written back as the doubles'
+ * bit patterns.
+ */
+function scatter(
+  key: Uint32Array,
+  idx: Uint32Array | null,
+  outKey: Uint32Array,
+  outIdx: Uint32Array,
+  counts: Uint32Array,
+  base: number,
+  word: number,
+  shift: number,
+  mask: number,
+  decode: boolean,
+): void {
+  const n = outIdx.length;
+  for (let i = 0; i < n; i++) {
+    const l = key[2 * i]!;
+    const h = key[2 * i + 1]!;
+    const at = counts[base + (((word === 0 ? l : h) >>> shift) & mask)]!++;
+    outIdx[at] = idx === null ? i : idx[i]!;
+    if (decode) {
+      outKey[2 * at] = h & 0x80000000 ? l : ~l >>> 0;
+      outKey[2 * at + 1] = h & 0x80000000 ? (h & 0x7fffffff) >>> 0 : ~h >>> 0;
+    } else {
+      outKey[2 * at] = l;
+      outKey[2 * at + 1] = h;
     }
-    [idx, spareIdx] = [spareIdx, idx];
-    [keyHi, spareHi] = [spareHi, keyHi];
-    if (onLo) [keyLo, spareLo] = [spareLo, keyLo];
   }
-  return idx;
+}
+
+/** `values` gathered through `order` into a new Float64Array, −0 turned into +0. */
+function gather(values: ArrayLike<number>, order: Uint32Array): Float64Array {
+  const out = new Float64Array(order.length);
+  for (let k = 0; k < order.length; k++) out[k] = values[order[k]!]! + 0;
+  return out;
 }
