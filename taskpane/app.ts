@@ -10,7 +10,7 @@ import type { FitView, CvRow } from './analysis.js';
 import type { CvSettings, FitSettings, FormulaKind } from './formulas.js';
 import type { SurfaceSettings } from './surface-view.js';
 import type { HeatmapView } from '../src/view/heat-scale.js';
-import { el, errorText } from './panels/dom.js';
+import { el, errorText, setShownDigits, setStatus } from './panels/dom.js';
 import type { Selection } from './panels/selection.js';
 import { FitPanel } from './panels/fit-panel.js';
 import { CvPanel, type CvState } from './panels/cv-panel.js';
@@ -66,6 +66,8 @@ export class App {
   newXsRef: string | undefined;
   /** Called after every refresh (Office mode keeps its insert buttons in step). */
   onRefresh: (() => void) | undefined;
+  /** A refused data choice (shown at its own field): the fit waits, its chart greyed. */
+  private inputProblem: string | undefined;
 
   constructor(mode: 'office' | 'preview', workerFactory: () => WorkerLike = createWorker) {
     this.mode = mode;
@@ -92,6 +94,11 @@ export class App {
     for (const id of ['cv-candidates', 'cv-folds', 'cv-repeats', 'cv-seed', 'cv-rule']) {
       el<HTMLElement>(id).addEventListener('change', () => this.updateFormulas());
     }
+    el<HTMLSelectElement>('digits').addEventListener('change', () => {
+      setShownDigits(Number(el<HTMLSelectElement>('digits').value));
+      this.refresh();
+      this.cv.redraw();
+    });
     el<HTMLButtonElement>('suggest').addEventListener('click', () => void this.suggest());
     el<HTMLButtonElement>('cancel').addEventListener('click', () => this.cancel());
     el<HTMLButtonElement>('use-suggestion').addEventListener('click', () => {
@@ -119,8 +126,18 @@ export class App {
     this.fit.status(text, error);
   }
 
+  /**
+   * Marks the data choice as refused (`message`, already shown at its field by the caller) or,
+   * with undefined, as fine again. While refused, the chart keeps the last good fit, greyed.
+   */
+  refuseInput(message: string | undefined): void {
+    this.inputProblem = message;
+    this.refresh();
+  }
+
   /** Replaces the data (undefined clears). Cross-validation results of other data are dropped. */
   setSelection(sel: Selection | undefined, keepCv = false): void {
+    this.inputProblem = undefined;
     this.selection = sel;
     if (!keepCv) this.cv.invalidate('');
     this.refresh();
@@ -154,7 +171,7 @@ export class App {
   /** Refits and redraws everything that depends on the data or the fit settings. */
   refresh(): void {
     const sel = this.selection;
-    this.fit.show(sel);
+    this.fit.show(sel, this.inputProblem);
     this.fit.renderStats();
     this.fit.renderKnotTable();
     this.surface.render(sel, this.fit.view?.points.length);
@@ -202,10 +219,9 @@ export class App {
 
   private async copy(): Promise<void> {
     if (await this.formulaPanel.copy()) {
-      this.cv.status('');
-      this.fit.status('Formulas copied: paste them into cells of the workbook that holds the data.');
+      setStatus('results-status', 'Formulas copied: paste them into cells of the workbook that holds the data.');
     } else {
-      this.fit.status('Copying was refused by the browser: the formulas are selected — press Ctrl+C (⌘C).');
+      setStatus('results-status', 'Copying was refused by the browser: the formulas are selected — press Ctrl+C (⌘C).');
     }
   }
 
