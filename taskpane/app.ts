@@ -16,6 +16,10 @@ import { FitPanel } from './panels/fit-panel.js';
 import { CvPanel, type CvState } from './panels/cv-panel.js';
 import { SurfacePanel } from './panels/surface-panel.js';
 import { FormulasPanel } from './panels/formulas-panel.js';
+import { layoutBlocks, paneBlocks, type BlockLayout, type FormulaBlock } from './layout.js';
+import { candidateCount } from './analysis.js';
+import { gridSpill } from './surface-view.js';
+import { showLeftOut } from './panels/left-out-panel.js';
 
 export type { Selection } from './panels/selection.js';
 export type { CvState } from './panels/cv-panel.js';
@@ -46,6 +50,12 @@ export interface Snapshot {
     readonly formula: string;
   } | null;
   readonly surfaceError: string | null;
+  /** Labels of the fit chart's x-axis ticks as drawn (dates for a date column). */
+  readonly xTicks: string[];
+  /** What "Copy formulas" put on the clipboard last (tab-separated block), or null. */
+  readonly copied: string | null;
+  /** The lines of the list of cells left out because they hold text or a logical value. */
+  readonly leftOut: string[];
 }
 
 
@@ -64,6 +74,8 @@ export class App {
   private readonly formulaPanel = new FormulasPanel();
   /** Extra formula options from the host (PREDICT's new_xs). */
   newXsRef: string | undefined;
+  /** Shape of PREDICT's new_xs when it is not the x column (Office mode: the new_xs range). */
+  newXsShape: { rows: number; cols: number } | undefined;
   /** Called after every refresh (Office mode keeps its insert buttons in step). */
   onRefresh: (() => void) | undefined;
   /** A refused data choice (shown at its own field): the fit waits, its chart greyed. */
@@ -174,6 +186,7 @@ export class App {
     this.fit.show(sel, this.inputProblem);
     this.fit.renderStats();
     this.fit.renderKnotTable();
+    showLeftOut(sel?.leftOut ?? []);
     this.surface.render(sel, this.fit.view?.points.length);
     this.updateFormulas();
     el<HTMLButtonElement>('download').disabled = this.fit.view === undefined;
@@ -217,13 +230,52 @@ export class App {
     this.cv.cancel(silent);
   }
 
+  /**
+   * The pane's formulas laid out so that no result collides with the next (layout.ts): each block
+   * gets the rows and columns its result spills — the knot table's K rows, as many rows as STATS
+   * returns now, CV's candidates plus a header, PREDICT the shape of its new x, GRID (K2 + 1) ×
+   * (K1 + 1) — with its label on the left. Undefined without a fit (the sizes are not known).
+   * @throws Error for a malformed candidates field.
+   */
+  blockLayout(): BlockLayout | undefined {
+    const view = this.fit.view;
+    const sel = this.selection;
+    const formulas = this.formulaPanel.formulas;
+    if (!view || !sel || formulas.KNOTS === undefined) return undefined;
+    const sizes = {
+      knotRows: view.knots.length,
+      candidates: candidateCount(view, this.cv.settings()),
+      newXs: this.newXsShape ?? { rows: sel.data.x.length, cols: 1 },
+    };
+    const blocks: FormulaBlock[] = paneBlocks(formulas, sizes).map((b) => (b.formula === formulas.STATS ? { ...b, rows: Math.max(b.rows, view.stats.length) } : b));
+    const surface = this.surface.view;
+    const grid = this.formulaPanel.gridText;
+    if (surface && grid !== undefined) blocks.push({ label: 'Surface table (GRID)', formula: grid, ...gridSpill(surface) });
+    return layoutBlocks(blocks);
+  }
+
   private async copy(): Promise<void> {
-    if (await this.formulaPanel.copy()) {
-      setStatus('results-status', 'Formulas copied: paste them into cells of the workbook that holds the data.');
+    let layout: BlockLayout | undefined;
+    try {
+      layout = this.blockLayout();
+    } catch (e) {
+      setStatus('results-status', errorText(e), true);
+      return;
+    }
+    if (!layout) {
+      setStatus('results-status', 'Choose data that fit without an error first: the block needs the size of each result.', true);
+      return;
+    }
+    this.copiedText = layout.text;
+    if (await this.formulaPanel.copy(layout.text)) {
+      setStatus('results-status', `Formulas copied as a block of ${layout.rows} rows × ${layout.cols} columns, a label beside each: click one empty cell of the workbook that holds the data and paste; each result has room to spill.`);
     } else {
-      setStatus('results-status', 'Copying was refused by the browser: the formulas are selected — press Ctrl+C (⌘C).');
+      setStatus('results-status', 'Copying was refused by the browser: the block is selected — press Ctrl+C (⌘C).', true);
     }
   }
+
+  /** The text "Copy formulas" put on the clipboard last (for the tests). */
+  private copiedText: string | null = null;
 
   /** Read-only view of what the charts and tables hold, for the end-to-end tests. */
   snapshot(): Snapshot {
@@ -267,6 +319,9 @@ export class App {
             }
           : null,
       surfaceError: this.surface.error,
+      xTicks: (this.fit.chart.chart.scales['x']?.ticks ?? []).map((t) => String(t.label)),
+      copied: this.copiedText,
+      leftOut: [...document.querySelectorAll('#left-out-list li')].map((li) => li.textContent ?? ''),
     });
   }
 

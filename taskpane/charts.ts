@@ -20,6 +20,7 @@ import {
 import type { CvRow, FitView } from './analysis.js';
 import { formatNumber } from '../src/view/number-format.js';
 import { shownDigits } from './panels/dom.js';
+import { formatSerial } from './dates.js';
 
 Chart.register(ScatterController, LineController, LinearScale, PointElement, LineElement, Filler, Legend, Tooltip, Title);
 
@@ -86,7 +87,7 @@ export class FitChart {
         plugins: {
           legend: { position: 'bottom', labels: { sort: (a, b) => (a.datasetIndex ?? 0) - (b.datasetIndex ?? 0) } },
           title: { display: false },
-          tooltip: { callbacks: { label: (c) => `${c.dataset.label}: (${num(c.parsed.x ?? NaN)}, ${num(c.parsed.y ?? NaN)})` } },
+          tooltip: { callbacks: { label: (c) => `${c.dataset.label}: (${this.xKind === 'date' ? formatSerial(c.parsed.x ?? NaN) : num(c.parsed.x ?? NaN)}, ${num(c.parsed.y ?? NaN)})` } },
         },
       },
     };
@@ -94,8 +95,12 @@ export class FitChart {
     this.theme();
   }
 
-  /** Shows a fit; `labels` name the axes. */
-  show(view: FitView | undefined, labels: { x: string; y: string }): void {
+  /** How the x axis and the tooltips show x: as numbers, or (serial day numbers) as dates. */
+  private xKind: 'number' | 'date' = 'number';
+
+  /** Shows a fit; `labels` name the axes; `xKind` "date" shows x (serial day numbers) as dates. */
+  show(view: FitView | undefined, labels: { x: string; y: string }, xKind: 'number' | 'date' = 'number'): void {
+    this.xKind = xKind;
     const d = this.chart.data.datasets;
     d[0]!.data = view ? view.points.map((q) => ({ x: q.x, y: q.y })) : [];
     const vertices = view ? view.knots.map(([x, y]) => ({ x, y })) : [];
@@ -105,6 +110,7 @@ export class FitChart {
     (d[2] as ChartDataset<'scatter', XY[]>).pointRadius = vertices.length > 40 ? 2.5 : 5;
     const sc = this.chart.options.scales!;
     (sc.x as { title: { text: string } }).title.text = labels.x;
+    (sc.x as { ticks: { callback?: unknown } }).ticks.callback = xKind === 'date' ? (v: number | string) => formatSerial(Number(v)) : undefined;
     (sc.y as { title: { text: string } }).title.text = labels.y;
     this.chart.update();
   }

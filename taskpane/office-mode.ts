@@ -13,6 +13,8 @@ import { insertFormula, type Confirm } from './insert.js';
 import { spillSize, type FormulaKind } from './formulas.js';
 import { candidateCount } from './analysis.js';
 import { gridSpill } from './surface-view.js';
+import { textCellsOf } from './panels/left-out-panel.js';
+import { freezeWorkbook, insertAll, insertPortableCurve } from './panels/handoff-panel.js';
 
 function el<T extends HTMLElement>(id: string): T {
   return document.getElementById(id) as T;
@@ -158,12 +160,20 @@ export class OfficeData {
     el<HTMLInputElement>('addr-newx').addEventListener('change', () => {
       const v = el<HTMLInputElement>('addr-newx').value.trim();
       app.newXsRef = v === '' ? undefined : this.absolute(v);
+      try {
+        app.newXsShape = v === '' ? undefined : areaSize(parseAddress(v));
+      } catch {
+        app.newXsShape = undefined;
+      }
       app.updateFormulas();
     });
     for (const b of document.querySelectorAll<HTMLButtonElement>('[data-insert]')) {
       b.addEventListener('click', safe(() => this.insert(b.dataset.insert as FormulaKind), (t) => this.insertStatus(t, true)));
     }
     el<HTMLButtonElement>('insert-grid').addEventListener('click', safe(() => this.insertGrid(), (t) => this.insertStatus(t, true)));
+    el<HTMLButtonElement>('insert-all').addEventListener('click', safe(() => this.insertAll(), (t) => this.insertStatus(t, true)));
+    el<HTMLButtonElement>('insert-portable').addEventListener('click', safe(() => this.insertPortable(), (t) => this.insertStatus(t, true)));
+    el<HTMLButtonElement>('freeze').addEventListener('click', safe(() => this.freeze(), (t) => this.insertStatus(t, true)));
     el<HTMLButtonElement>('confirm-yes').addEventListener('click', () => this.answer(true));
     el<HTMLButtonElement>('confirm-no').addEventListener('click', () => this.answer(false));
     el<HTMLDivElement>('confirm').addEventListener('keydown', (e) => {
@@ -206,6 +216,7 @@ export class OfficeData {
       labels: { x: `x (${x.ref})`, y: `y (${y.ref})` },
       description: `x = ${x.ref}, y = ${y.ref}${w ? `, weight = ${w.ref}` : ''}${x2 ? `, x2 = ${x2.ref}` : ''}`,
       fileStem: 'ratchet',
+      leftOut: [x, y, w, x2].flatMap((q) => (q ? textCellsOf(q.cells, q.area) : [])),
       x2: x2 ? { cells: x2.cells, ref: x2.ref, label: `x2 (${x2.ref})` } : undefined,
     };
     this.app.setSelection(sel, keepCv);
@@ -289,6 +300,59 @@ export class OfficeData {
     const inputs = [r.x.area, r.y.area, r.x2.area, ...(r.w ? [r.w.area] : [])];
     const outcome = await insertFormula(Excel, { formula, target, rows: size.rows, cols: size.cols, inputs }, this.confirm);
     this.insertStatus(outcome.message, !outcome.written);
+  }
+
+  /** The data ranges a result may not cover. */
+  private inputAreas(): Area[] {
+    const r = this.ranges;
+    return r ? [r.x.area, r.y.area, ...(r.w ? [r.w.area] : []), ...(r.x2 ? [r.x2.area] : [])] : [];
+  }
+
+  /** The target cell, or undefined after saying that one is needed. */
+  private targetCell(): string | undefined {
+    const target = el<HTMLInputElement>('target').value.trim();
+    if (target === '') this.insertStatus('Pick the top-left cell of the result first.', true);
+    return target === '' ? undefined : target;
+  }
+
+  /** "Insert all": every formula of the pane, laid out so that no result collides (asks before writing over anything). */
+  async insertAll(): Promise<void> {
+    this.insertStatus('');
+    const layout = this.ranges ? this.app.blockLayout() : undefined;
+    if (!layout) {
+      this.insertStatus('Choose data that fit without an error first.', true);
+      return;
+    }
+    const target = this.targetCell();
+    if (target === undefined) return;
+    const outcome = await insertAll(Excel, layout, target, this.inputAreas(), this.confirm);
+    this.insertStatus(outcome.written ? `Inserted ${layout.blocks.length} formulas with their labels in ${outcome.area}; each result has room to spill.` : outcome.message, !outcome.written);
+  }
+
+  /** "Portable curve": the knot table as values with INDEX/MATCH formulas beside it. */
+  async insertPortable(): Promise<void> {
+    this.insertStatus('');
+    const view = this.ranges ? this.app.currentFit() : undefined;
+    if (!view) {
+      this.insertStatus('Choose data that fit without an error first.', true);
+      return;
+    }
+    const target = this.targetCell();
+    if (target === undefined) return;
+    const outcome = await insertPortableCurve(Excel, view.knots, target, this.inputAreas(), this.confirm);
+    this.insertStatus(
+      outcome.written
+        ? `Wrote the knot table (${view.knots.length} knots) as values in ${outcome.area}, with formulas that need no add-in: type x values into the "new x" column.`
+        : outcome.message,
+      !outcome.written,
+    );
+  }
+
+  /** "Frozen values": replaces every RATCHET formula of the workbook by its values, after confirmation. */
+  async freeze(): Promise<void> {
+    this.insertStatus('');
+    const outcome = await freezeWorkbook(Excel, this.confirm);
+    this.insertStatus(outcome.message, outcome.replaced === 0);
   }
 
   /** Inserts one formula at the target cell (asks before writing over anything). */

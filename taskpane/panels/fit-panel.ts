@@ -75,7 +75,7 @@ export class FitPanel {
     const stale = this.view === undefined && this.lastGood !== undefined && this.error !== null;
     el<HTMLElement>('fit-chart-box').classList.toggle('stale', stale);
     const shown = this.view ?? (stale ? this.lastGood!.view : undefined);
-    this.chart.show(shown, this.view ? labels : stale ? this.lastGood!.labels : labels);
+    this.chart.show(shown, this.view ? labels : stale ? this.lastGood!.labels : labels, sel?.xKind);
     this.summarise(shown, stale);
   }
 
@@ -137,7 +137,7 @@ export class FitPanel {
  * @example fitSummary(view) // → "Fit chart: 28 points, 5 knots, rising, r2 0.9312."
  */
 export function fitSummary(view: FitView, stale = false): string {
-  const stat = (name: string): number | string | boolean | undefined => view.stats.find(([k]) => k === name)?.[1];
+  const stat = (name: string): unknown => view.stats.find(([k]) => k === name)?.[1];
   const d = stat('direction');
   const r2 = stat('r2');
   return (

@@ -58,14 +58,17 @@ export class FormulasPanel {
     return undefined;
   }
 
-  /** Copies every formula to the clipboard; true when the browser allowed it (else the text is selected). */
-  async copy(): Promise<boolean> {
+  /**
+   * Puts `text` (the laid-out block of layout.ts) on the clipboard; true when the browser allowed
+   * it, else the block is shown in the text area and selected for Ctrl+C.
+   */
+  async copy(text: string): Promise<boolean> {
     const area = el<HTMLTextAreaElement>('formulas');
-    const text = [...Object.values(this.formulas), ...(this.gridText === undefined ? [] : [this.gridText])].join('\n');
     try {
       await navigator.clipboard.writeText(text);
       return true;
     } catch {
+      area.value = text;
       area.focus();
       area.select();
       return false;

@@ -2,6 +2,7 @@
 import type { DataColumns } from '../analysis.js';
 import type { DataRefs } from '../formulas.js';
 import type { SecondInput } from '../surface-view.js';
+import type { LeftOutCell } from './left-out-panel.js';
 
 /** The data the pane works on, wherever they come from. */
 export interface Selection {
@@ -15,4 +16,8 @@ export interface Selection {
   readonly fileStem: string;
   /** A second input: the pane then also shows the fitted surface over (x, x2) as a heat-map. */
   readonly x2?: SecondInput | undefined;
+  /** "date" when the x cells are the serial day numbers of date cells: the chart shows them as dates. Default "number". */
+  readonly xKind?: 'number' | 'date' | undefined;
+  /** Data cells left out because they hold text or a logical value, with their addresses (listed by the pane). */
+  readonly leftOut?: readonly LeftOutCell[] | undefined;
 }

@@ -57,6 +57,12 @@
         getRange(address) {
           return rangeObject(ws, parse(address));
         },
+        getUsedRangeOrNullObject() {
+          if (cells.size === 0) return { isNullObject: true, load() {} };
+          const r = ws.getUsedRange();
+          r.isNullObject = false;
+          return r;
+        },
         getUsedRange() {
           let g = null;
           for (const key of cells.keys()) {
@@ -121,6 +127,19 @@
       get formulas() {
         return grid((cell) => (cell === undefined ? '' : cell.formula || cell.value));
       },
+      set values(v) {
+        for (let r = 0; r < v.length; r++) {
+          for (let c = 0; c < v[r].length; c++) ws.cells.set(name(g.r1 + r, g.c1 + c), { value: v[r][c] });
+        }
+      },
+      // The stub does not calculate: a formula's result is its own cell, or the area set with `spill`.
+      getSpillingToRangeOrNullObject() {
+        const cell = ws.cells.get(name(g.r1, g.c1));
+        if (!cell || !cell.spill) return { isNullObject: true, load() {} };
+        const r = rangeObject(ws, parse(cell.spill));
+        r.isNullObject = false;
+        return r;
+      },
       set formulas(f) {
         for (let r = 0; r < f.length; r++) {
           for (let c = 0; c < f[r].length; c++) {
@@ -152,6 +171,13 @@
         },
         getActiveWorksheet() {
           return sheetObject(selection.sheet);
+        },
+        load() {},
+        get items() {
+          return [...sheets.values()];
+        },
+        add(n) {
+          return sheetObject(n);
         },
       },
       tables: {
@@ -208,8 +234,11 @@
   window.__excelStub = {
     associated: 0,
     cleared: [],
-    set(sheetName, address, value, formula) {
-      sheetObject(sheetName).cells.set(address, formula ? { value, formula } : { value });
+    set(sheetName, address, value, formula, spill) {
+      sheetObject(sheetName).cells.set(address, formula ? (spill ? { value, formula, spill } : { value, formula }) : { value });
+    },
+    cellsOf(sheetName) {
+      return sheets.has(sheetName) ? Object.fromEntries(sheets.get(sheetName).cells) : null;
     },
     get(sheetName, address) {
       return sheetObject(sheetName).cells.get(address) || null;
