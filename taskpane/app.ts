@@ -10,7 +10,7 @@ import type { FitView, CvRow } from './analysis.js';
 import type { CvSettings, FitSettings, FormulaKind } from './formulas.js';
 import type { SurfaceSettings } from './surface-view.js';
 import type { HeatmapView } from '../src/view/heat-scale.js';
-import { el, errorText, setStatus } from './panels/dom.js';
+import { el, errorText, setShownDigits, setStatus } from './panels/dom.js';
 import type { Selection } from './panels/selection.js';
 import { FitPanel } from './panels/fit-panel.js';
 import { CvPanel, type CvState } from './panels/cv-panel.js';
@@ -78,6 +78,8 @@ export class App {
   newXsShape: { rows: number; cols: number } | undefined;
   /** Called after every refresh (Office mode keeps its insert buttons in step). */
   onRefresh: (() => void) | undefined;
+  /** A refused data choice (shown at its own field): the fit waits, its chart greyed. */
+  private inputProblem: string | undefined;
 
   constructor(mode: 'office' | 'preview', workerFactory: () => WorkerLike = createWorker) {
     this.mode = mode;
@@ -104,6 +106,11 @@ export class App {
     for (const id of ['cv-candidates', 'cv-folds', 'cv-repeats', 'cv-seed', 'cv-rule']) {
       el<HTMLElement>(id).addEventListener('change', () => this.updateFormulas());
     }
+    el<HTMLSelectElement>('digits').addEventListener('change', () => {
+      setShownDigits(Number(el<HTMLSelectElement>('digits').value));
+      this.refresh();
+      this.cv.redraw();
+    });
     el<HTMLButtonElement>('suggest').addEventListener('click', () => void this.suggest());
     el<HTMLButtonElement>('cancel').addEventListener('click', () => this.cancel());
     el<HTMLButtonElement>('use-suggestion').addEventListener('click', () => {
@@ -131,8 +138,18 @@ export class App {
     this.fit.status(text, error);
   }
 
+  /**
+   * Marks the data choice as refused (`message`, already shown at its field by the caller) or,
+   * with undefined, as fine again. While refused, the chart keeps the last good fit, greyed.
+   */
+  refuseInput(message: string | undefined): void {
+    this.inputProblem = message;
+    this.refresh();
+  }
+
   /** Replaces the data (undefined clears). Cross-validation results of other data are dropped. */
   setSelection(sel: Selection | undefined, keepCv = false): void {
+    this.inputProblem = undefined;
     this.selection = sel;
     if (!keepCv) this.cv.invalidate('');
     this.refresh();
@@ -166,7 +183,7 @@ export class App {
   /** Refits and redraws everything that depends on the data or the fit settings. */
   refresh(): void {
     const sel = this.selection;
-    this.fit.show(sel);
+    this.fit.show(sel, this.inputProblem);
     this.fit.renderStats();
     this.fit.renderKnotTable();
     showLeftOut(sel?.leftOut ?? []);
@@ -242,18 +259,18 @@ export class App {
     try {
       layout = this.blockLayout();
     } catch (e) {
-      setStatus('copy-status', errorText(e), true);
+      setStatus('results-status', errorText(e), true);
       return;
     }
     if (!layout) {
-      setStatus('copy-status', 'Choose data that fit without an error first: the block needs the size of each result.', true);
+      setStatus('results-status', 'Choose data that fit without an error first: the block needs the size of each result.', true);
       return;
     }
     this.copiedText = layout.text;
     if (await this.formulaPanel.copy(layout.text)) {
-      setStatus('copy-status', `Formulas copied as a block of ${layout.rows} rows × ${layout.cols} columns, a label beside each: click one empty cell of the workbook that holds the data and paste; each result has room to spill.`);
+      setStatus('results-status', `Formulas copied as a block of ${layout.rows} rows × ${layout.cols} columns, a label beside each: click one empty cell of the workbook that holds the data and paste; each result has room to spill.`);
     } else {
-      setStatus('copy-status', 'Copying was refused by the browser: the block is selected — press Ctrl+C (⌘C).', true);
+      setStatus('results-status', 'Copying was refused by the browser: the block is selected — press Ctrl+C (⌘C).', true);
     }
   }
 

@@ -18,6 +18,8 @@ import {
   type ChartDataset,
 } from 'chart.js';
 import type { CvRow, FitView } from './analysis.js';
+import { formatNumber } from '../src/view/number-format.js';
+import { shownDigits } from './panels/dom.js';
 import { formatSerial } from './dates.js';
 
 Chart.register(ScatterController, LineController, LinearScale, PointElement, LineElement, Filler, Legend, Tooltip, Title);
@@ -51,7 +53,12 @@ function palette(): Palette {
   };
 }
 
-const numberFormat = new Intl.NumberFormat('en', { maximumSignificantDigits: 6 });
+/** A number on a chart (tooltips, value ticks): the digits the pane shows. */
+const num = (v: number): string => formatNumber(v, shownDigits());
+/** Tick labels: at most the digits shown, and Chart.js's own step-aware rounding when shorter. */
+const tick = (v: number | string): string => (typeof v === 'number' ? num(v) : v);
+/** Ticks small enough for a 320 px pane. */
+const TICK_FONT = { size: 11 };
 
 /** The fit chart. */
 export class FitChart {
@@ -74,13 +81,13 @@ export class FitChart {
         parsing: false,
         normalized: true,
         scales: {
-          x: { type: 'linear', title: { display: true, text: 'x' }, grid: {}, ticks: {} },
-          y: { type: 'linear', title: { display: true, text: 'y' }, grid: {}, ticks: {} },
+          x: { type: 'linear', title: { display: true, text: 'x' }, grid: {}, ticks: { font: TICK_FONT, maxRotation: 0, autoSkipPadding: 8, callback: tick } },
+          y: { type: 'linear', title: { display: true, text: 'y' }, grid: {}, ticks: { font: TICK_FONT, callback: tick } },
         },
         plugins: {
           legend: { position: 'bottom', labels: { sort: (a, b) => (a.datasetIndex ?? 0) - (b.datasetIndex ?? 0) } },
           title: { display: false },
-          tooltip: { callbacks: { label: (c) => `${c.dataset.label}: (${this.xKind === 'date' ? formatSerial(c.parsed.x ?? NaN) : numberFormat.format(c.parsed.x ?? NaN)}, ${numberFormat.format(c.parsed.y ?? NaN)})` } },
+          tooltip: { callbacks: { label: (c) => `${c.dataset.label}: (${this.xKind === 'date' ? formatSerial(c.parsed.x ?? NaN) : num(c.parsed.x ?? NaN)}, ${num(c.parsed.y ?? NaN)})` } },
         },
       },
     };
@@ -142,14 +149,19 @@ export interface CvView {
   readonly threshold: number;
 }
 
-/** x position of a candidate on the CV chart (the classic fit, 0, sits left of the smallest count). */
-function knotTick(k: number): string {
-  return k === 0 ? 'classic' : String(k);
+/**
+ * The label of a knot-count tick on the CV chart: "classic" for 0 only when the classic fit is
+ * one of the candidates shown (`classic`), the count otherwise.
+ */
+export function knotTick(k: number, classic: boolean): string {
+  return k === 0 && classic ? 'classic' : String(k);
 }
 
 /** The cross-validation chart. */
 export class CvChart {
   readonly chart: Chart<'line', XY[]>;
+  /** True when the classic fit (0) is among the candidates drawn. */
+  private classic = false;
   constructor(canvas: HTMLCanvasElement) {
     const p = palette();
     const config: ChartConfiguration<'line', XY[]> = {
@@ -169,13 +181,13 @@ export class CvChart {
         responsive: true,
         parsing: false,
         scales: {
-          x: { type: 'linear', title: { display: true, text: 'knot count' }, grid: {}, ticks: { precision: 0, callback: (v) => knotTick(Number(v)) } },
-          y: { type: 'linear', title: { display: true, text: 'cv_rmse' }, grid: {}, ticks: {} },
+          x: { type: 'linear', title: { display: true, text: 'knot count' }, grid: {}, ticks: { precision: 0, font: TICK_FONT, maxRotation: 0, callback: (v) => knotTick(Number(v), this.classic) } },
+          y: { type: 'linear', title: { display: true, text: 'cv_rmse' }, grid: {}, ticks: { font: TICK_FONT, callback: tick } },
         },
         plugins: {
           title: { display: true, text: 'No cross-validation yet' },
           legend: { position: 'bottom', labels: { filter: (item) => item.text !== 'cv_rmse − cv_se', sort: (a, b) => (a.datasetIndex ?? 0) - (b.datasetIndex ?? 0) } },
-          tooltip: { callbacks: { label: (c) => `${c.dataset.label}: ${numberFormat.format(c.parsed.y ?? NaN)} at ${knotTick(c.parsed.x ?? NaN)}` } },
+          tooltip: { callbacks: { label: (c) => `${c.dataset.label}: ${num(c.parsed.y ?? NaN)} at ${knotTick(c.parsed.x ?? NaN, this.classic)}` } },
         },
       },
     };
@@ -187,6 +199,7 @@ export class CvChart {
   show(view: CvView | undefined): void {
     const d = this.chart.data.datasets;
     const rows = view ? [...view.rows].sort((a, b) => a.knots - b.knots) : [];
+    this.classic = rows.some((r) => r.knots === 0);
     d[0]!.data = rows.map((r) => ({ x: r.knots, y: r.cvRmse + r.cvSe }));
     d[1]!.data = rows.map((r) => ({ x: r.knots, y: r.cvRmse - r.cvSe }));
     d[2]!.data = rows.map((r) => ({ x: r.knots, y: r.cvRmse }));
@@ -212,6 +225,10 @@ export class CvChart {
     sc.x.min = rows.length > 0 ? undefined : 2;
     sc.x.max = rows.length > 0 ? undefined : 20;
     this.chart.update();
+    const summary = cvSummary(view);
+    this.chart.canvas.setAttribute('aria-label', summary);
+    const p = document.getElementById('cv-chart-summary');
+    if (p) p.textContent = summary;
   }
 
   /** Re-reads the theme colours. */
@@ -226,4 +243,21 @@ export class CvChart {
     applyAxisTheme(this.chart, p);
     this.chart.update();
   }
+}
+
+/**
+ * The CV chart in one sentence, for its text alternative: candidates, the suggestion and its
+ * cv_rmse (to the digits shown), the rule.
+ * @example cvSummary(undefined) // → "Cross-validation chart: no cross-validation yet."
+ */
+export function cvSummary(view: CvView | undefined): string {
+  if (!view || view.rows.length === 0) return 'Cross-validation chart: no cross-validation yet.';
+  const ks = view.rows.map((r) => r.knots);
+  const best = view.rows.find((r) => r.knots === view.best);
+  return (
+    `Cross-validation chart: cv_rmse of ${ks.length} candidates from ${Math.min(...ks)} to ${Math.max(...ks)} knots; ` +
+    `suggested ${view.best === 0 ? 'the classic fit (0)' : `${view.best} knots`}` +
+    (best ? ` with cv_rmse ${num(best.cvRmse)} ± ${num(best.cvSe)}` : '') +
+    ` by the ${view.rule === 1 ? 'one-standard-error rule' : 'minimum cv_rmse'}.`
+  );
 }

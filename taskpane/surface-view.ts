@@ -10,6 +10,7 @@ import { columnArg, run } from './analysis.js';
 import type { DataColumns } from './analysis.js';
 import type { DataRefs, DirectionCode } from './formulas.js';
 import { heatColour, heatmapFromGrid, hex, type HeatmapView } from '../src/view/heat-scale.js';
+import { DEFAULT_DIGITS, formatNumber } from '../src/view/number-format.js';
 
 /** The second input as the pane holds it. */
 export interface SecondInput {
@@ -46,10 +47,11 @@ export function gridArgs(data: DataColumns, x2: readonly CellValueIn[], s: Surfa
 /**
  * The fitted lattice of y over (x, x2) with these settings, as RATCHET.GRID returns it, ready to
  * draw. Cost: one GRID call (cached by content in the functions) plus O(K1·K2).
+ * @param digits significant digits of the cells' text, 1 … 17; default 4 (values keep full precision).
  * @throws CellFailure (analysis.ts) with the code and message a cell would show.
  */
-export function computeSurface(data: DataColumns, x2: readonly CellValueIn[], s: SurfaceSettings): HeatmapView {
-  return heatmapFromGrid(run('GRID', gridArgs(data, x2, s)));
+export function computeSurface(data: DataColumns, x2: readonly CellValueIn[], s: SurfaceSettings, digits: number = DEFAULT_DIGITS): HeatmapView {
+  return heatmapFromGrid(run('GRID', gridArgs(data, x2, s)), digits);
 }
 
 /** The formula text, e.g. `=RATCHET.GRID(Data!$C$2:$C$49,Data!$A$2:$A$49,Data!$B$2:$B$49,4,3,1,1)`. */
@@ -84,12 +86,16 @@ function cell(tag: 'th' | 'td', text: string, attrs: Record<string, string> = {}
  * Draws `view` into `table` in the layout of RATCHET.GRID on a sheet: x1 knots across (header
  * row), x2 knots down (row headers), values inside. Each value cell has its number as text, a
  * background from the scale and black or white text, and `data-value` with the full-precision
- * number; axis headers name both inputs. The legend gets swatches from the lowest to the highest value.
+ * number; axis headers name both inputs; knots and legend numbers have `digits` significant digits
+ * (default 4). The legend gets swatches from the lowest to the highest value. Lattices wider than
+ * 6 columns get the compact style (smaller cells) so that 10 × 10 fits a 350 px pane.
  */
-export function renderHeatmap(table: HTMLTableElement, legend: HTMLElement, view: HeatmapView, labels: { x1: string; x2: string; y: string }): void {
+export function renderHeatmap(table: HTMLTableElement, legend: HTMLElement, view: HeatmapView, labels: { x1: string; x2: string; y: string }, digits: number = DEFAULT_DIGITS): void {
+  const f = (v: number): string => formatNumber(v, digits);
   const K1 = view.knots1.length;
   const K2 = view.knots2.length;
   table.replaceChildren();
+  table.classList.toggle('compact', K1 > 6);
   const caption = document.createElement('caption');
   caption.textContent = `Fitted ${labels.y}, ${K1} × ${K2} knots`;
   const head = document.createElement('thead');
@@ -97,12 +103,12 @@ export function renderHeatmap(table: HTMLTableElement, legend: HTMLElement, view
   // The corner names the column of x2 knots below it; the spanning header names the x1 knots.
   r1.append(cell('th', `${labels.x2} ↓`, { rowspan: '2', scope: 'col', class: 'axis corner' }), cell('th', `${labels.x1} →`, { colspan: String(K1), scope: 'colgroup', class: 'axis' }));
   const r2 = document.createElement('tr');
-  for (const k of view.knots1) r2.append(cell('th', String(k), { scope: 'col' }));
+  for (const k of view.knots1) r2.append(cell('th', f(k), { scope: 'col', 'data-value': String(k) }));
   head.append(r1, r2);
   const body = document.createElement('tbody');
   view.cells.forEach((row, b) => {
     const tr = document.createElement('tr');
-    tr.append(cell('th', String(view.knots2[b]!), { scope: 'row' }));
+    tr.append(cell('th', f(view.knots2[b]!), { scope: 'row', 'data-value': String(view.knots2[b]!) }));
     for (const c of row) {
       const td = cell('td', c.text, { 'data-value': String(c.value), class: 'heat' });
       // CSSOM properties (not a style attribute): allowed under the preview's style-src 'self'.
@@ -116,7 +122,7 @@ export function renderHeatmap(table: HTMLTableElement, legend: HTMLElement, view
 
   legend.replaceChildren();
   const lo = document.createElement('span');
-  lo.textContent = `${labels.y}: ${String(Number(view.min.toPrecision(6)))} (pale)`;
+  lo.textContent = `${labels.y}: ${f(view.min)} (pale)`;
   const bar = document.createElement('span');
   bar.className = 'heat-bar';
   bar.setAttribute('aria-hidden', 'true');
@@ -126,6 +132,6 @@ export function renderHeatmap(table: HTMLTableElement, legend: HTMLElement, view
     bar.append(sw);
   }
   const hi = document.createElement('span');
-  hi.textContent = `${String(Number(view.max.toPrecision(6)))} (dark)`;
+  hi.textContent = `${f(view.max)} (dark)`;
   legend.append(lo, bar, hi);
 }

@@ -16,6 +16,7 @@ import type { SampleData } from './samples.js';
 import { parseRange } from '../../src/runner/address.js';
 import { suggestSurfaceKnots } from '../../src/core/index.js';
 import { heatColour, heatmapFromGrid, hex, type HeatmapView } from '../../src/view/heat-scale.js';
+import { formatNumber } from '../../src/view/number-format.js';
 
 /** What the demo computed for one sample with one input. */
 export interface CurveDemoResult {
@@ -178,8 +179,8 @@ export function heatmapSvg(p: { title: string; xLabel: string; x2Label: string; 
   }
   const bottom = m.top + K2 * ch;
   for (let a = 0; a < K1; a++) parts.push(`<text x="${(m.left + (a + 0.5) * cw).toFixed(1)}" y="${bottom + 18}" text-anchor="middle">${fmt(g.knots1[a]!)}</text>`);
-  parts.push(`<text x="${m.left + (K1 * cw) / 2}" y="${H - 18}" text-anchor="middle">${esc(p.xLabel)} (knots)</text>`);
-  parts.push(`<text transform="translate(${m.left - 56} ${m.top + (K2 * ch) / 2}) rotate(-90)" text-anchor="middle">${esc(p.x2Label)} (knots)</text>`);
+  parts.push(`<text x="${m.left + (K1 * cw) / 2}" y="${H - 18}" text-anchor="middle">knots of ${esc(p.xLabel)}</text>`);
+  parts.push(`<text transform="translate(${m.left - 56} ${m.top + (K2 * ch) / 2}) rotate(-90)" text-anchor="middle">knots of ${esc(p.x2Label)}</text>`);
   // Colour bar: lowest value at the bottom, highest at the top.
   const bx = m.left + K1 * cw + 28;
   const bh = K2 * ch;
@@ -193,19 +194,34 @@ export function heatmapSvg(p: { title: string; xLabel: string; x2Label: string; 
   return `${parts.join('\n')}\n`;
 }
 
+/** Numbers in the pictures and the printout: 4 significant digits, as the task pane shows them. */
 function fmt(v: number): string {
-  if (!Number.isFinite(v)) return String(v);
-  return String(Number(v.toPrecision(6)));
+  return formatNumber(v);
 }
 
-/** "Nice" tick positions covering [lo, hi]: about `count` steps of 1, 2 or 5 × 10^k. */
-export function niceTicks(lo: number, hi: number, count = 6): number[] {
+/**
+ * "Nice" tick positions covering [lo, hi]: about `count` steps of 1, 2 or 5 × 10^k, and at least
+ * `min` ticks (the step is made finer, 5 → 2 → 1 → 0.5 …, until there are). Cost O(ticks).
+ * @param count steps aimed at; default 6. @param min fewest ticks; default 4.
+ * @example niceTicks(863.2, 1256.8) // → [900, 1000, 1100, 1200]
+ */
+export function niceTicks(lo: number, hi: number, count = 6, min = 4): number[] {
   if (!(hi > lo)) return [lo];
   const raw = (hi - lo) / count;
-  const mag = 10 ** Math.floor(Math.log10(raw));
-  const step = [1, 2, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
-  const out: number[] = [];
-  for (let t = Math.ceil(lo / step) * step; t <= hi + step * 1e-9; t += step) out.push(Number(t.toPrecision(12)));
+  let mag = 10 ** Math.floor(Math.log10(raw));
+  const mults = [1, 2, 5];
+  let i = mults.findIndex((m) => m * mag >= raw);
+  if (i < 0) [i, mag] = [0, mag * 10];
+  const ticks = (step: number): number[] => {
+    const out: number[] = [];
+    for (let t = Math.ceil(lo / step) * step; t <= hi + step * 1e-9; t += step) out.push(Number(t.toPrecision(12)));
+    return out;
+  };
+  let out = ticks(mults[i]! * mag);
+  for (let guard = 0; out.length < min && guard < 30; guard++) {
+    if (--i < 0) [i, mag] = [2, mag / 10];
+    out = ticks(mults[i]! * mag);
+  }
   return out;
 }
 

@@ -21,8 +21,19 @@ export type CellValueIn = CellScalar | CellErrorInput;
 /** One argument: a scalar, a 2-D range (rows of cells), or undefined when omitted. */
 export type CellArg = CellValueIn | CellValueIn[][] | undefined;
 
+/**
+ * An error in one cell of a result (e.g. a read-back limit the band does not reach: `#N/A` in that
+ * cell only, the rest of the result stays readable). `code` is a worksheet error code the hosts can
+ * return ('#VALUE!', '#N/A', '#NUM!', '#DIV/0!', '#NULL!'), `message` what the cell needs.
+ */
+export interface CellErrorOut {
+  readonly kind: 'error';
+  readonly code: '#VALUE!' | '#N/A' | '#NUM!' | '#DIV/0!' | '#NULL!';
+  readonly message: string;
+}
+
 /** One cell of a result. Empty string "" stands for a cell left visibly empty. */
-export type CellOut = number | string | boolean;
+export type CellOut = number | string | boolean | CellErrorOut;
 
 /** A function's result: a scalar or a 2-D array that spills. */
 export type CellResult = CellOut | CellOut[][];

@@ -3,7 +3,7 @@
  * host-neutral cell shapes of src/adapter/cell-types.ts. Pure: no host APIs (the Excel entry passes
  * the constructors it needs).
  */
-import type { CellArg, CellResult, CellValueIn } from './cell-types.js';
+import type { CellArg, CellErrorOut, CellOut, CellResult, CellValueIn } from './cell-types.js';
 import { mapError, type MappedError } from './errors.js';
 
 /** One Excel cell value as the runtime delivers it: number, string, boolean, null, or an error object. */
@@ -46,9 +46,17 @@ export function fromExcelArg(v: unknown): CellArg {
 }
 
 /** Converts a result for a matrix-typed (spilling) or scalar Excel result. */
-export function toExcelResult(result: CellResult, matrix: boolean): CellResult {
-  if (!matrix) return Array.isArray(result) ? (result[0]?.[0] ?? '') : result;
-  return Array.isArray(result) ? result : [[result]];
+export function toExcelResult(result: CellResult, matrix: boolean, ErrorClass?: ExcelErrorConstructor): unknown {
+  const cell = (v: CellOut): unknown => (typeof v === 'object' ? errorObject(v, ErrorClass) : v);
+  if (!matrix) return cell(Array.isArray(result) ? (result[0]?.[0] ?? '') : result);
+  return Array.isArray(result) ? result.map((row) => row.map(cell)) : [[cell(result)]];
+}
+
+/** An error cell of a result as Excel's error object (the message for #VALUE! and #N/A only). */
+function errorObject(v: CellErrorOut, ErrorClass: ExcelErrorConstructor | undefined): unknown {
+  if (ErrorClass === undefined) return v;
+  const withMessage = v.code === '#VALUE!' || v.code === '#N/A';
+  return withMessage ? new ErrorClass(v.code as never, v.message) : new ErrorClass(v.code as never);
 }
 
 /** Constructor of CustomFunctions.Error (passed in so this module stays free of host globals). */

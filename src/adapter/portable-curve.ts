@@ -123,15 +123,25 @@ export const PORTABLE_HEADER: readonly string[] = ['knot x', 'fitted value', '',
  *   on (undefined: no sheet prefix, same sheet). Column `col` + 4 must exist.
  * @param newXRows how many "new x" rows to prepare, a whole number ≥ 1; default 10.
  * @throws RatchetError BAD_KNOTS / NON_FINITE naming `knots` for a table the formula could not read
- *   correctly; BAD_OPTION naming `at` or `newXRows`.
+ *   correctly — among them the table of a smooth fit (rows with a third column 2, as RATCHET.KNOTS
+ *   gives it for degree 2): the portable formula draws straight lines between rows and would not
+ *   reproduce that curve, so it is refused rather than approximated; BAD_OPTION naming `at` or
+ *   `newXRows`.
  * @example portableCurveBlock([[1, 10], [3, 14]], { row: 1, col: 4 }, 1).slice(0, 4)
  * // → [{ dr: 0, dc: 0, value: 'knot x' }, { dr: 0, dc: 1, value: 'fitted value' }, { dr: 0, dc: 3, value: 'new x' }, { dr: 0, dc: 4, value: 'predicted' }]
  */
 export function portableCurveBlock(
-  knots: readonly (readonly [number, number])[],
+  knots: readonly (readonly [number, number] | readonly [number, number, number])[],
   at: { readonly row: number; readonly col: number; readonly sheet?: string | undefined },
   newXRows = 10,
 ): PortableCell[] {
+  if (knots.some((k) => k.length > 2 && k[2] !== 1)) {
+    fail(
+      'BAD_KNOTS',
+      'knots',
+      'needs a piecewise-linear table (two columns, or a third column of 1s): the portable formula reads straight lines between rows and does not reproduce a smooth (degree 2) curve; hand off a degree 1 fit, or read the smooth table with RATCHET.EVAL',
+    );
+  }
   checkKnotTable(
     knots.map((k) => k[0]),
     knots.map((k) => k[1]),

@@ -9,6 +9,8 @@ import { knotRegression, type KnotFit } from './knot-fit.js';
 import { intervalIndex, lerp } from './interpolate.js';
 import { invertChecked } from './invert.js';
 import { studentTQuantile } from './student-t.js';
+import { checkCurvature, checkDegree, shapeRegression, type Curvature, type Degree } from './shape-fit.js';
+import { nullSpaceBasis } from './shape-qp.js';
 
 /**
  * The active set of a constrained knot fit as a reduced design: θ = Z β with Z a sparse K × p
@@ -573,4 +575,67 @@ function edgeRoot(
     if (best === null || (side < 0 ? u > best : u < best)) best = u;
   }
   return best;
+}
+
+/** Options of {@link fitShapedBandModel}: those of {@link fitBandModel} plus the shape. */
+export interface ShapedBandFitOptions extends BandFitOptions {
+  /** −1 concave, 0 any (default), 1 convex. */
+  curvature?: Curvature | undefined;
+  /** 1 piecewise linear (default). Degree 2 (smooth) has no band yet and is refused. */
+  degree?: Degree | undefined;
+}
+
+/**
+ * The band model of any knot fit the worksheet offers: the plain knot model as
+ * {@link fitBandModel}, and a concave or convex one (curvature ±1, degree 1) conditional on its
+ * active set — the active shape rows of {@link shapeRegression} define the null-space basis Z
+ * ({@link nullSpaceBasis}), on which the shaped optimum is the plain weighted least-squares fit
+ * (docs/shapes.md, "For bands conditional on the active set"), so
+ * Var f(x) = σ̂² b(x)ᵀZ(ZᵀBᵀWBZ)⁻¹Zᵀb(x) with p = columns of Z.
+ *
+ * Cost: the fit, plus O(K²·a) for the null space of a active rows and O(K·m²) for the banded
+ * factorisation (m the bandwidth of ZᵀHZ). Inputs are not modified.
+ *
+ * @param x, y the data (finite, same length n ≥ 1).
+ * @param options knots (≥ 2 or positions; 0 refused as in {@link checkBandKnots}), weights, direction,
+ *   curvature (−1, 0 default, 1), degree (1 default; 2 refused).
+ * @throws RatchetError BAD_KNOTS (classic fit), BAD_OPTION (degree 2: the smooth fit has no band;
+ *   curvature or degree outside their sets), and the errors of {@link fitBandModel}.
+ * @example fitShapedBandModel([1, 2, 3, 4], [1, 3, 2, 4], { knots: 2, curvature: 1 }).sigma // → 0.9486832980505138 (a line: no active row)
+ */
+export function fitShapedBandModel(x: ArrayLike<number>, y: ArrayLike<number>, options: ShapedBandFitOptions): BandModel {
+  const curvature = checkCurvature(options.curvature);
+  const degree = checkDegree(options.degree);
+  const knots = checkBandKnots(options.knots);
+  if (degree === 2) {
+    fail('BAD_OPTION', 'degree', 'needs 1 (piecewise linear) for a band: the smooth fit (degree 2) has no band or read-back interval yet');
+  }
+  if (curvature === 0) return fitBandModel(x, y, options);
+  const xs = finiteArray('x', x);
+  sameLength('x', xs.length, 'y', y);
+  const ys = finiteArray('y', y);
+  if (xs.length === 0) fail('EMPTY_INPUT', 'x', 'needs at least one value; got none');
+  const ws = options.weights === undefined ? null : weightArray(xs.length, options.weights);
+  const fit = shapeRegression(xs, ys, { knots, weights: ws ?? undefined, direction: options.direction, curvature, degree: 1 });
+  const K = fit.knotX.length;
+  const activeRows = Array.from(fit.active, (i) => fit.constraints[i]!);
+  const columns = nullSpaceBasis(K, activeRows);
+  if (columns.length === 0) fail('TOO_FEW_POINTS', 'known_ys', 'needs a fit with at least one free parameter for a band');
+  // Z in compressed rows; entries below rounding of the basis are dropped.
+  const rowStart = new Int32Array(K + 1);
+  const col: number[] = [];
+  const val: number[] = [];
+  for (let j = 0; j < K; j++) {
+    rowStart[j] = col.length;
+    for (let c = 0; c < columns.length; c++) {
+      const v = columns[c]![j]!;
+      if (Math.abs(v) > 1e-14) {
+        col.push(c);
+        val.push(v);
+      }
+    }
+  }
+  rowStart[K] = col.length;
+  const basis: ActiveSetBasis = { knots: K, size: columns.length, rowStart, col: Int32Array.from(col), val: Float64Array.from(val) };
+  return bandModelChecked(xs, ys, ws, fit.knotX, fit.knotY, fit.direction, basis);
 }

@@ -18,4 +18,6 @@ export { suggestKnots } from './scores.js';
 export { crossValidate, defaultCandidates, type CrossValidationOptions, type CrossValidationResult } from './cross-validate.js';
 export { fitSurface, predictSurface, type SurfaceModel, type AxisDirection } from './surface.js';
 export { crossValidateSurface, suggestSurfaceKnots, type SurfaceCrossValidationOptions, type SurfaceCrossValidationResult } from './surface-cv.js';
-export { fitBandModel, bandAt } from './band.js';
+export { fitBandModel, fitShapedBandModel, bandAt, inverseBand, type BandModel, type BandKind, type InverseInterval } from './band.js';
+export { spearman } from './direction.js';
+export { evaluateTable, invertTable, type TableInterpolation } from './smooth-table.js';

@@ -86,13 +86,17 @@ function monotonePiece(tx: ArrayLike<number>, ty: ArrayLike<number>, j: number):
   return left >= -tol && right >= -tol;
 }
 
-/** The parabola through (x0, y0), (x1, y1), (x2, y2) at x, Lagrange form. */
+/**
+ * The parabola through (x0, y0), (x1, y1), (x2, y2) at x, Lagrange form in the share
+ * u = (x − x0)/(x2 − x0) and p = (x1 − x0)/(x2 − x0), so that products of tiny widths (tables
+ * spanning 1e-280) cannot underflow to 0/0.
+ */
 function parabola(x0: number, x1: number, x2: number, y0: number, y1: number, y2: number, x: number): number {
   if (y0 === y1 && y1 === y2) return y0;
-  const a = x - x0;
-  const b = x - x1;
-  const c = x - x2;
-  return (y0 * b * c) / ((x0 - x1) * (x0 - x2)) + (y1 * a * c) / ((x1 - x0) * (x1 - x2)) + (y2 * a * b) / ((x2 - x0) * (x2 - x1));
+  const h = x2 - x0;
+  const u = (x - x0) / h;
+  const p = (x1 - x0) / h;
+  return (y0 * (u - p) * (u - 1)) / p + (y1 * u * (u - 1)) / (p * (p - 1)) + (y2 * u * (u - p)) / (1 - p);
 }
 
 /**

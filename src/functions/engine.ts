@@ -12,7 +12,11 @@ import {
   crossValidate,
   crossValidateSurface,
   fitMonotone,
+  fitShapedBandModel,
   fitSurface,
+  type BandModel,
+  type Curvature,
+  type Degree,
   type AxisDirection,
   type CrossValidationOptions,
   type CrossValidationResult,
@@ -130,6 +134,15 @@ function dataParts(d: DataArgs): Part[] {
   return [...d.columns.map((c) => c.vector), d.weights?.vector];
 }
 
+/** Curvature and degree of a knot fit, as the core takes them (0 and 1: the plain model). */
+export interface Shape {
+  readonly curvature: Curvature;
+  readonly degree: Degree;
+}
+
+/** The plain shape: any curvature, piecewise linear. */
+export const PLAIN: Shape = Object.freeze({ curvature: 0, degree: 1 });
+
 /** A cached one-input fit: the model, the used rows, the number of cells and the rows left out for text. */
 export interface FitEntry {
   readonly model: MonotoneModel;
@@ -146,12 +159,25 @@ export interface FitEntry {
  * @param direction 'up', 'down' or 'auto'.
  * @throws RatchetError from the pairing and the core (core argument names).
  */
-export function cachedFit(data: DataArgs, knots: number | Float64Array, direction: DirectionOption): FitEntry {
-  return memo('fit', [...dataParts(data), knots, direction], () => {
+export function cachedFit(data: DataArgs, knots: number | Float64Array, direction: DirectionOption, shape: Shape = PLAIN): FitEntry {
+  return memo('fit', [...dataParts(data), knots, direction, shape.curvature, shape.degree], () => {
     const p = pairData(data);
-    const model = fitMonotone(p.columns[1]!, p.columns[0]!, { knots, direction, weights: p.weights });
+    const model = fitMonotone(p.columns[1]!, p.columns[0]!, { knots, direction, weights: p.weights, curvature: shape.curvature, degree: shape.degree });
     const value: FitEntry = { model, used: p.used, rows: p.rows, textRows: p.textRows };
     return { value, bytes: model.fitted.byteLength + model.knotX.byteLength * 2 + p.used.byteLength };
+  });
+}
+
+/**
+ * The band model (σ̂, degrees of freedom and variance factors conditional on the active set) of the
+ * knot fit of the data with these options, cached like {@link cachedFit}.
+ * @throws RatchetError from the pairing and the core (knots 0, degree 2, too few rows).
+ */
+export function cachedBand(data: DataArgs, knots: number | Float64Array, direction: DirectionOption, shape: Shape): BandModel {
+  return memo('band', [...dataParts(data), knots, direction, shape.curvature, shape.degree], () => {
+    const p = pairData(data);
+    const model = fitShapedBandModel(p.columns[1]!, p.columns[0]!, { knots, direction, weights: p.weights, curvature: shape.curvature, degree: shape.degree });
+    return { value: model, bytes: model.knotX.byteLength * 4 };
   });
 }
 
@@ -181,10 +207,10 @@ function givenOptions(req: CvRequest): { folds?: number; repeats?: number; seed?
 }
 
 /** Cross-validation of one-input data (known_ys, known_xs, weights), cached like {@link cachedFit}. */
-export function cachedCrossValidation(data: DataArgs, req: CvRequest, direction: DirectionOption, ctx?: InvokeContext): CrossValidationResult {
-  return memo('cv', [...dataParts(data), req.candidates, req.folds, req.repeats, req.seed, direction], () => {
+export function cachedCrossValidation(data: DataArgs, req: CvRequest, direction: DirectionOption, ctx?: InvokeContext, shape: Shape = PLAIN): CrossValidationResult {
+  return memo('cv', [...dataParts(data), req.candidates, req.folds, req.repeats, req.seed, direction, shape.curvature, shape.degree], () => {
     const p = pairData(data);
-    const o: CrossValidationOptions = { direction, ...givenOptions(req), ...progressOptions(ctx) };
+    const o: CrossValidationOptions = { direction, ...givenOptions(req), ...progressOptions(ctx), curvature: shape.curvature, degree: shape.degree };
     if (req.candidates !== undefined) o.candidates = req.candidates;
     if (p.weights !== undefined) o.weights = p.weights;
     const result = crossValidate(p.columns[1]!, p.columns[0]!, o);

@@ -77,7 +77,7 @@ export async function call(name: string, raw: readonly unknown[], invocation?: C
     } else {
       result = f.invoke(args, { addresses });
     }
-    return toExcelResult(result, f.returnsArray);
+    return toExcelResult(result, f.returnsArray, ErrorClass) as CellResult;
   } catch (e) {
     throw toExcelError(e, ErrorClass);
   }
@@ -93,11 +93,13 @@ export async function call(name: string, raw: readonly unknown[], invocation?: C
  * @param [knots] Omitted or 0: classic fit at every distinct x. A whole number K ≥ 2: K evenly spaced knots. A range of ≥ 2 increasing numbers: knot positions.
  * @param [direction] 1 rising (default), -1 falling, 0 pick from the data (sign of the rank correlation).
  * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
+ * @param [curvature] Knot model only: 0 any (default), -1 concave (slopes never increase), 1 convex (slopes never decrease).
+ * @param [degree] Knot model only: 1 piecewise linear (default), 2 smooth monotone curve (quadratic B-spline).
  * @param invocation Supplied by Excel: parameter addresses.
  * @returns The spilled result.
  */
-export async function fit(known_ys: any[][], known_xs: any[][], knots?: any[][], direction?: any, weights?: any[][], invocation?: CustomFunctions.Invocation): Promise<any[][]> {
-  return call('FIT', [known_ys, known_xs, knots, direction, weights], invocation) as Promise<any[][]>;
+export async function fit(known_ys: any[][], known_xs: any[][], knots?: any[][], direction?: any, weights?: any[][], curvature?: any, degree?: any, invocation?: CustomFunctions.Invocation): Promise<any[][]> {
+  return call('FIT', [known_ys, known_xs, knots, direction, weights, curvature, degree], invocation) as Promise<any[][]>;
 }
 
 /**
@@ -111,15 +113,17 @@ export async function fit(known_ys: any[][], known_xs: any[][], knots?: any[][],
  * @param [knots] Omitted or 0: classic fit at every distinct x. A whole number K ≥ 2: K evenly spaced knots. A range of ≥ 2 increasing numbers: knot positions.
  * @param [direction] 1 rising (default), -1 falling, 0 pick from the data (sign of the rank correlation).
  * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
+ * @param [curvature] Knot model only: 0 any (default), -1 concave (slopes never increase), 1 convex (slopes never decrease).
+ * @param [degree] Knot model only: 1 piecewise linear (default), 2 smooth monotone curve (quadratic B-spline).
  * @param invocation Supplied by Excel: parameter addresses.
  * @returns The spilled result.
  */
-export async function predict(new_xs: any[][], known_ys: any[][], known_xs: any[][], knots?: any[][], direction?: any, weights?: any[][], invocation?: CustomFunctions.Invocation): Promise<any[][]> {
-  return call('PREDICT', [new_xs, known_ys, known_xs, knots, direction, weights], invocation) as Promise<any[][]>;
+export async function predict(new_xs: any[][], known_ys: any[][], known_xs: any[][], knots?: any[][], direction?: any, weights?: any[][], curvature?: any, degree?: any, invocation?: CustomFunctions.Invocation): Promise<any[][]> {
+  return call('PREDICT', [new_xs, known_ys, known_xs, knots, direction, weights, curvature, degree], invocation) as Promise<any[][]>;
 }
 
 /**
- * The fitted model as a table: one row per knot, two columns (knot x, fitted value).
+ * The fitted model as a table: one row per knot, two columns (knot x, fitted value); a smooth fit adds midpoints and a third column of 2s.
  * @customfunction KNOTS KNOTS
  * @helpurl https://localhost:3000/help.html#ratchetknots
  * @requiresParameterAddresses
@@ -128,15 +132,17 @@ export async function predict(new_xs: any[][], known_ys: any[][], known_xs: any[
  * @param [knots] Omitted or 0: classic fit at every distinct x. A whole number K ≥ 2: K evenly spaced knots. A range of ≥ 2 increasing numbers: knot positions.
  * @param [direction] 1 rising (default), -1 falling, 0 pick from the data (sign of the rank correlation).
  * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
+ * @param [curvature] Knot model only: 0 any (default), -1 concave (slopes never increase), 1 convex (slopes never decrease).
+ * @param [degree] Knot model only: 1 piecewise linear (default), 2 smooth monotone curve (quadratic B-spline).
  * @param invocation Supplied by Excel: parameter addresses.
  * @returns The spilled result.
  */
-export async function knots(known_ys: any[][], known_xs: any[][], knots?: any[][], direction?: any, weights?: any[][], invocation?: CustomFunctions.Invocation): Promise<any[][]> {
-  return call('KNOTS', [known_ys, known_xs, knots, direction, weights], invocation) as Promise<any[][]>;
+export async function knots(known_ys: any[][], known_xs: any[][], knots?: any[][], direction?: any, weights?: any[][], curvature?: any, degree?: any, invocation?: CustomFunctions.Invocation): Promise<any[][]> {
+  return call('KNOTS', [known_ys, known_xs, knots, direction, weights, curvature, degree], invocation) as Promise<any[][]>;
 }
 
 /**
- * Reads a knot table at each new x: straight lines between knots, flat beyond the ends. No refit.
+ * Reads a knot table at each new x: straight lines between knots (a parabola per interval for a smooth table), flat beyond the ends. No refit.
  * @customfunction EVAL EVAL
  * @helpurl https://localhost:3000/help.html#ratcheteval
  * @requiresParameterAddresses
@@ -192,11 +198,13 @@ export async function quantileKnotPositions(known_xs: any[][], count: any, invoc
  * @param [seed] Whole number for the shuffle; 0 means no shuffle (blocks in row order). Default 1.
  * @param [direction] 1 rising (default), -1 falling, 0 pick from the data (sign of the rank correlation).
  * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
+ * @param [curvature] Knot model only: 0 any (default), -1 concave (slopes never increase), 1 convex (slopes never decrease).
+ * @param [degree] Knot model only: 1 piecewise linear (default), 2 smooth monotone curve (quadratic B-spline).
  * @param invocation Supplied by Excel: parameter addresses and cancellation.
  * @returns The spilled result.
  */
-export async function crossValidation(known_ys: any[][], known_xs: any[][], candidates?: any[][], folds?: any, repeats?: any, seed?: any, direction?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
-  return call('CV', [known_ys, known_xs, candidates, folds, repeats, seed, direction, weights], invocation) as Promise<any[][]>;
+export async function crossValidation(known_ys: any[][], known_xs: any[][], candidates?: any[][], folds?: any, repeats?: any, seed?: any, direction?: any, weights?: any[][], curvature?: any, degree?: any, invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return call('CV', [known_ys, known_xs, candidates, folds, repeats, seed, direction, weights, curvature, degree], invocation) as Promise<any[][]>;
 }
 
 /**
@@ -214,15 +222,17 @@ export async function crossValidation(known_ys: any[][], known_xs: any[][], cand
  * @param [direction] 1 rising (default), -1 falling, 0 pick from the data (sign of the rank correlation).
  * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
  * @param [rule] 1 one-standard-error rule: fewest knots within one SE of the best (default); 0 the minimum.
+ * @param [curvature] Knot model only: 0 any (default), -1 concave (slopes never increase), 1 convex (slopes never decrease).
+ * @param [degree] Knot model only: 1 piecewise linear (default), 2 smooth monotone curve (quadratic B-spline).
  * @param invocation Supplied by Excel: parameter addresses and cancellation.
  * @returns The suggested knot count.
  */
-export async function bestKnotCount(known_ys: any[][], known_xs: any[][], candidates?: any[][], folds?: any, repeats?: any, seed?: any, direction?: any, weights?: any[][], rule?: any, invocation?: CustomFunctions.CancelableInvocation): Promise<number> {
-  return call('BESTK', [known_ys, known_xs, candidates, folds, repeats, seed, direction, weights, rule], invocation) as Promise<number>;
+export async function bestKnotCount(known_ys: any[][], known_xs: any[][], candidates?: any[][], folds?: any, repeats?: any, seed?: any, direction?: any, weights?: any[][], rule?: any, curvature?: any, degree?: any, invocation?: CustomFunctions.CancelableInvocation): Promise<number> {
+  return call('BESTK', [known_ys, known_xs, candidates, folds, repeats, seed, direction, weights, rule, curvature, degree], invocation) as Promise<number>;
 }
 
 /**
- * Fit statistics as label/value rows: n, dropped, knots, direction, r2, rmse, mae, sse, levels, text_rows.
+ * Fit statistics as label/value rows: n, dropped, knots, direction, r2, rmse, mae, sse, levels, text_rows, sigma, df_resid, spearman.
  * @customfunction STATS STATS
  * @helpurl https://localhost:3000/help.html#ratchetstats
  * @requiresParameterAddresses
@@ -231,11 +241,57 @@ export async function bestKnotCount(known_ys: any[][], known_xs: any[][], candid
  * @param [knots] Omitted or 0: classic fit at every distinct x. A whole number K ≥ 2: K evenly spaced knots. A range of ≥ 2 increasing numbers: knot positions.
  * @param [direction] 1 rising (default), -1 falling, 0 pick from the data (sign of the rank correlation).
  * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
+ * @param [curvature] Knot model only: 0 any (default), -1 concave (slopes never increase), 1 convex (slopes never decrease).
+ * @param [degree] Knot model only: 1 piecewise linear (default), 2 smooth monotone curve (quadratic B-spline).
  * @param invocation Supplied by Excel: parameter addresses.
  * @returns The spilled result.
  */
-export async function statistics(known_ys: any[][], known_xs: any[][], knots?: any[][], direction?: any, weights?: any[][], invocation?: CustomFunctions.Invocation): Promise<any[][]> {
-  return call('STATS', [known_ys, known_xs, knots, direction, weights], invocation) as Promise<any[][]>;
+export async function statistics(known_ys: any[][], known_xs: any[][], knots?: any[][], direction?: any, weights?: any[][], curvature?: any, degree?: any, invocation?: CustomFunctions.Invocation): Promise<any[][]> {
+  return call('STATS', [known_ys, known_xs, knots, direction, weights, curvature, degree], invocation) as Promise<any[][]>;
+}
+
+/**
+ * Lower edge, fitted value and upper edge of the knot model’s confidence or prediction band at each new x.
+ * @customfunction BAND BAND
+ * @helpurl https://localhost:3000/help.html#ratchetband
+ * @requiresParameterAddresses
+ * @param new_xs Inputs at which to read the curve: a cell or a range of any shape; blanks stay blank.
+ * @param known_ys Observed values: one column or one row. Rows with a blank here, in known_xs or in weights are left out.
+ * @param known_xs Inputs, one per known_ys cell (a column or a row). Blank cells leave their row out.
+ * @param [knots] Omitted or 0: classic fit at every distinct x. A whole number K ≥ 2: K evenly spaced knots. A range of ≥ 2 increasing numbers: knot positions.
+ * @param [direction] 1 rising (default), -1 falling, 0 pick from the data (sign of the rank correlation).
+ * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
+ * @param [level] Confidence level, strictly between 0 and 1. Default 0.95.
+ * @param [kind] 1 confidence band for the curve (default), 2 prediction band for one new observation of weight 1.
+ * @param [curvature] Knot model only: 0 any (default), -1 concave (slopes never increase), 1 convex (slopes never decrease).
+ * @param [degree] Knot model only: 1 piecewise linear (default), 2 smooth monotone curve (quadratic B-spline).
+ * @param invocation Supplied by Excel: parameter addresses.
+ * @returns The spilled result.
+ */
+export async function band(new_xs: any[][], known_ys: any[][], known_xs: any[][], knots?: any[][], direction?: any, weights?: any[][], level?: any, kind?: any, curvature?: any, degree?: any, invocation?: CustomFunctions.Invocation): Promise<any[][]> {
+  return call('BAND', [new_xs, known_ys, known_xs, knots, direction, weights, level, kind, curvature, degree], invocation) as Promise<any[][]>;
+}
+
+/**
+ * Lower x, read-back x and upper x of the calibration interval for each target y (the x whose prediction band contains it).
+ * @customfunction INVERTBAND INVERTBAND
+ * @helpurl https://localhost:3000/help.html#ratchetinvertband
+ * @requiresParameterAddresses
+ * @param target_ys Curve values to read back: a cell or a range; blanks stay blank.
+ * @param known_ys Observed values: one column or one row. Rows with a blank here, in known_xs or in weights are left out.
+ * @param known_xs Inputs, one per known_ys cell (a column or a row). Blank cells leave their row out.
+ * @param [knots] Omitted or 0: classic fit at every distinct x. A whole number K ≥ 2: K evenly spaced knots. A range of ≥ 2 increasing numbers: knot positions.
+ * @param [direction] 1 rising (default), -1 falling, 0 pick from the data (sign of the rank correlation).
+ * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
+ * @param [level] Confidence level, strictly between 0 and 1. Default 0.95.
+ * @param [replicates] Number of new measurements averaged into each target, ≥ 1. Default 1.
+ * @param [curvature] Knot model only: 0 any (default), -1 concave (slopes never increase), 1 convex (slopes never decrease).
+ * @param [degree] Knot model only: 1 piecewise linear (default), 2 smooth monotone curve (quadratic B-spline).
+ * @param invocation Supplied by Excel: parameter addresses.
+ * @returns The spilled result.
+ */
+export async function invertBand(target_ys: any[][], known_ys: any[][], known_xs: any[][], knots?: any[][], direction?: any, weights?: any[][], level?: any, replicates?: any, curvature?: any, degree?: any, invocation?: CustomFunctions.Invocation): Promise<any[][]> {
+  return call('INVERTBAND', [target_ys, known_ys, known_xs, knots, direction, weights, level, replicates, curvature, degree], invocation) as Promise<any[][]>;
 }
 
 /**

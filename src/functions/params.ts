@@ -100,6 +100,56 @@ export const PARAMS = {
     ],
     description: '1 one-standard-error rule: fewest knots within one SE of the best (default); 0 the minimum.',
   },
+  curvature: {
+    name: 'curvature',
+    kind: 'choice',
+    optional: true,
+    default: 'any',
+    choices: [
+      { code: 0, value: 'any', label: 'any' },
+      { code: -1, value: 'concave', label: 'concave' },
+      { code: 1, value: 'convex', label: 'convex' },
+    ],
+    description: 'Knot model only: 0 any (default), -1 concave (slopes never increase), 1 convex (slopes never decrease).',
+  },
+  degree: {
+    name: 'degree',
+    kind: 'choice',
+    optional: true,
+    default: 'linear',
+    choices: [
+      { code: 1, value: 'linear', label: 'piecewise linear' },
+      { code: 2, value: 'smooth', label: 'smooth (quadratic)' },
+    ],
+    description: 'Knot model only: 1 piecewise linear (default), 2 smooth monotone curve (quadratic B-spline).',
+  },
+  level: {
+    name: 'level',
+    kind: 'number',
+    optional: true,
+    default: '0.95',
+    range: 'strictly between 0 and 1',
+    description: 'Confidence level, strictly between 0 and 1. Default 0.95.',
+  },
+  bandKind: {
+    name: 'kind',
+    kind: 'choice',
+    optional: true,
+    default: 'confidence',
+    choices: [
+      { code: 1, value: 'confidence', label: 'confidence band for the curve' },
+      { code: 2, value: 'prediction', label: 'prediction band for one new observation' },
+    ],
+    description: '1 confidence band for the curve (default), 2 prediction band for one new observation of weight 1.',
+  },
+  replicates: {
+    name: 'replicates',
+    kind: 'number',
+    optional: true,
+    default: '1',
+    range: 'a number ≥ 1',
+    description: 'Number of new measurements averaged into each target, ≥ 1. Default 1.',
+  },
   // Surfaces (two inputs).
   newX1s: {
     name: 'new_x1s',

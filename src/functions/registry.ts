@@ -6,14 +6,14 @@
  * adding it to this list (DEVELOPERS.md, "Adding a worksheet function").
  */
 import type { SheetFunction } from './types.js';
-import { BESTK, CV, EVAL, FIT, INVERT, KNOTS, PREDICT, QKNOTS, STATS } from './implementations.js';
+import { BAND, BESTK, CV, EVAL, FIT, INVERT, INVERTBAND, KNOTS, PREDICT, QKNOTS, STATS } from './implementations.js';
 import { CVGRID, GRID, SURFACE } from './surface-functions.js';
 import { NAMESPACE } from './define.js';
 
 export { NAMESPACE, HELP_BASE, helpUrlOf, signatureOf } from './define.js';
 
 /** Every RATCHET function, in the order of the reference. */
-export const SHEET_FUNCTIONS: readonly SheetFunction[] = Object.freeze([FIT, PREDICT, KNOTS, EVAL, INVERT, QKNOTS, CV, BESTK, STATS, SURFACE, GRID, CVGRID]);
+export const SHEET_FUNCTIONS: readonly SheetFunction[] = Object.freeze([FIT, PREDICT, KNOTS, EVAL, INVERT, QKNOTS, CV, BESTK, STATS, BAND, INVERTBAND, SURFACE, GRID, CVGRID]);
 
 const byName = new Map(SHEET_FUNCTIONS.map((f) => [f.name, f]));
 const prefix = `${NAMESPACE}.`;

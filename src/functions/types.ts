@@ -7,7 +7,7 @@
  */
 import type { CellArg, CellResult } from '../adapter/cell-types.js';
 
-export type { CellScalar, CellErrorInput, CellValueIn, CellArg, CellOut, CellResult } from '../adapter/cell-types.js';
+export type { CellScalar, CellErrorInput, CellErrorOut, CellValueIn, CellArg, CellOut, CellResult } from '../adapter/cell-types.js';
 
 /**
  * How an argument is read (src/functions/define.ts, `Args`):

@@ -27,7 +27,7 @@ import {
   type FunctionPluginDefinition,
   type ImplementedFunctions,
 } from 'hyperformula';
-import type { CellArg, CellErrorInput, CellResult, CellValueIn, SheetFunction } from '../functions/types.js';
+import type { CellArg, CellErrorInput, CellOut, CellResult, CellValueIn, SheetFunction } from '../functions/types.js';
 import type { MappedError } from '../adapter/errors.js';
 import { NAMESPACE } from '../functions/registry.js';
 import { RatchetError } from '../core/index.js';
@@ -214,10 +214,11 @@ export function dimsOf(r: CellResult): Dims {
 
 /** A (non-empty) result → HyperFormula value; ragged rows are padded with "". */
 function fromResult(r: CellResult, scalarCell: boolean): Internal {
-  if (!Array.isArray(r)) return r;
+  if (!Array.isArray(r)) return typeof r === 'object' ? toHfError(r) : r;
   const d = dimsOf(r);
-  if (scalarCell && d.rows === 1 && d.cols === 1) return r[0]![0]!;
-  return SimpleRangeValue.onlyValues(r.map((row) => (row.length === d.cols ? [...row] : [...row, ...Array<string>(d.cols - row.length).fill('')])));
+  const cell = (v: CellOut): number | string | boolean | CellError => (typeof v === 'object' ? toHfError(v) : v);
+  if (scalarCell && d.rows === 1 && d.cols === 1) return cell(r[0]![0]!);
+  return SimpleRangeValue.onlyValues(r.map((row) => (row.length === d.cols ? row.map(cell) : [...row.map(cell), ...Array<string>(d.cols - row.length).fill('')])));
 }
 
 /** A block of `d` filled with one value (an error held for one pass while a result is re-sized). */

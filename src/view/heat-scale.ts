@@ -13,6 +13,7 @@
  * the numbers stay legible in light and dark themes.
  */
 import type { CellResult } from '../functions/types.js';
+import { DEFAULT_DIGITS, formatNumber } from './number-format.js';
 
 /** An sRGB colour, each channel 0 … 255. */
 export interface Rgb {
@@ -136,10 +137,13 @@ export interface HeatmapView {
   readonly max: number;
 }
 
-/** A number as the pane shows it: integers as they are, others to 8 significant digits. */
-export function cellText(v: number): string {
-  if (Number.isInteger(v)) return String(v);
-  return String(Number(v.toPrecision(8)));
+/**
+ * A heat-map value as the pane shows it: `digits` significant digits (see formatNumber).
+ * @param digits 1 … 17; default 4.
+ * @example cellText(28.679391) // → "28.68"
+ */
+export function cellText(v: number, digits: number = DEFAULT_DIGITS): string {
+  return formatNumber(v, digits);
 }
 
 /**
@@ -148,9 +152,10 @@ export function cellText(v: number): string {
  * get t = 0 when the surface is flat). Cost O(K1·K2).
  * @throws Error when the table is not shaped like a GRID result (fewer than 2 rows or 2 columns,
  *   a non-number where a knot or value belongs, ragged rows).
+ * @param digits significant digits of the cells' text, 1 … 17; default 4 (values keep full precision).
  * @example heatmapFromGrid([['', 1, 2], [10, 0.5, 3]]).cells[0].map((c) => c.text) // → ['0.5', '3']
  */
-export function heatmapFromGrid(table: CellResult | readonly (readonly unknown[])[]): HeatmapView {
+export function heatmapFromGrid(table: CellResult | readonly (readonly unknown[])[], digits: number = DEFAULT_DIGITS): HeatmapView {
   const g = (Array.isArray(table) ? table : [[table]]) as readonly (readonly unknown[])[];
   if (g.length < 2 || (g[0]?.length ?? 0) < 2) throw new Error('not a GRID table: needs a header row and at least one row of values');
   const width = g[0]!.length;
@@ -175,7 +180,7 @@ export function heatmapFromGrid(table: CellResult | readonly (readonly unknown[]
     row.map((value) => {
       const t = span > 0 ? (value - min) / span : 0;
       const bg = heatColour(t);
-      return { value, text: cellText(value), t, background: hex(bg), color: hex(textColourOn(bg)) };
+      return { value, text: cellText(value, digits), t, background: hex(bg), color: hex(textColourOn(bg)) };
     }),
   );
   return { knots1, knots2, values, cells, min, max };

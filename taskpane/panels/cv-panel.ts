@@ -53,6 +53,15 @@ export class CvPanel {
     };
   }
 
+  /** Re-renders the summary of the last run (the digits shown changed). */
+  private summary: (() => string) | undefined;
+
+  /** Redraws the chart and the run's summary line with the digits shown now. */
+  redraw(): void {
+    this.chart.show(this.view);
+    if (this.summary && this.state === 'done') this.status(this.summary());
+  }
+
   /** Shows a status message in the cross-validation section. */
   status(text: string, error = false): void {
     setStatus('cv-status', text, error);
@@ -119,12 +128,13 @@ export class CvPanel {
       const b = this.view.best;
       const r = rows.find((q) => q.knots === b);
       const ms = Math.round(performance.now() - started);
-      this.status(
+      const few = (this.host.rowsUsed() ?? 0) < 30;
+      this.summary = () =>
         `Suggested knot count: ${b === 0 ? '0 (classic fit)' : b} by the ${rule === 1 ? 'one-standard-error rule' : 'minimum cv_rmse'}` +
           (r ? ` (cv_rmse ${fmt(r.cvRmse)} ± ${fmt(r.cvSe)})` : '') +
           `; ${rows.length} candidates, ${cv.folds} folds × ${cv.repeats} repeat${cv.repeats === 1 ? '' : 's'}, ${ms} ms.` +
-          ((this.host.rowsUsed() ?? 0) < 30 ? ' Few points: this choice is noisy.' : ''),
-      );
+          (few ? ' Few points: this choice is noisy.' : '');
+      this.status(this.summary());
       el<HTMLButtonElement>('use-suggestion').disabled = false;
     } catch (e) {
       if (this.abort !== abort) return;

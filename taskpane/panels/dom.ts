@@ -5,6 +5,7 @@
 import { MappedCellError } from '../../src/adapter/errors.js';
 import { isRatchetError } from '../../src/core/index.js';
 import { CellFailure } from '../analysis.js';
+import { DEFAULT_DIGITS, formatNumber } from '../../src/view/number-format.js';
 
 /** The element with this id. @throws Error when the page lacks it (a broken page). */
 export function el<T extends HTMLElement>(id: string): T {
@@ -13,11 +14,36 @@ export function el<T extends HTMLElement>(id: string): T {
   return e as T;
 }
 
-/** A cell value for a table: whole numbers as they are, others to 8 significant digits. */
+let digits = DEFAULT_DIGITS;
+
+/** Significant digits the pane shows now (the "Digits shown" control; default 4). */
+export function shownDigits(): number {
+  return digits;
+}
+
+/** Sets the digits shown (1 … 17); the caller redraws. @throws RangeError outside 1 … 17. */
+export function setShownDigits(d: number): void {
+  formatNumber(0, d);
+  digits = d;
+}
+
+/** A value as the pane shows it: numbers to the digits shown (formatNumber), other values as text. */
 export function fmt(v: number | string | boolean): string {
-  if (typeof v !== 'number') return String(v);
-  if (Number.isInteger(v)) return String(v);
-  return String(Number(v.toPrecision(8)));
+  return formatNumber(v, digits);
+}
+
+/**
+ * Shows (or clears, with undefined) the message of a field: in the element `${id}-msg` beside it,
+ * with `aria-invalid` on the field for an error. A warning leaves the field valid.
+ */
+export function fieldMessage(id: string, text: string | undefined, kind: 'error' | 'warning' = 'error'): void {
+  const f = el<HTMLElement>(id);
+  const m = el<HTMLElement>(`${id}-msg`);
+  m.textContent = text ?? '';
+  m.classList.toggle('error', text !== undefined && kind === 'error');
+  m.classList.toggle('warning', text !== undefined && kind === 'warning');
+  if (text !== undefined && kind === 'error') f.setAttribute('aria-invalid', 'true');
+  else f.removeAttribute('aria-invalid');
 }
 
 /** What the pane shows for an error: the cell error code and message where there is one. */

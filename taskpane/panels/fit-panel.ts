@@ -5,7 +5,8 @@
 import { computeFit, knotTableCsv, type FitView } from '../analysis.js';
 import { FitChart } from '../charts.js';
 import type { DirectionCode, FitSettings } from '../formulas.js';
-import { el, errorText, fmt, setStatus } from './dom.js';
+import { el, errorText, fieldMessage, fmt, setStatus } from './dom.js';
+import { knotCountWarning, readKnotField } from '../guards.js';
 import type { Selection } from './selection.js';
 
 /** The fit section of the pane. */
@@ -20,10 +21,17 @@ export class FitPanel {
     this.chart = new FitChart(el<HTMLCanvasElement>('fit-chart'));
   }
 
-  /** Reads the fit controls. */
+  /** The last fit drawn without an error: kept on the chart, greyed, while an input is wrong. */
+  private lastGood: { view: FitView; labels: { x: string; y: string } } | undefined;
+
+  /**
+   * Reads the fit controls. A knot field the pane does not accept (1, 2.5, text) reads as its
+   * number so that formulas show what was typed; {@link show} refuses to fit it.
+   */
   settings(): FitSettings {
-    const raw = el<HTMLInputElement>('knots').value.trim();
-    const knots = raw === '' ? 0 : Number(raw);
+    const raw = el<HTMLInputElement>('knots').value;
+    const k = readKnotField(raw);
+    const knots = k.ok ? k.knots : Number(raw.trim());
     const direction = Number(el<HTMLSelectElement>('direction').value) as DirectionCode;
     return { knots, direction };
   }
@@ -34,13 +42,24 @@ export class FitPanel {
   }
 
   /** Refits `sel` with the current settings and redraws the chart and both tables. */
-  show(sel: Selection | undefined): void {
+  show(sel: Selection | undefined, inputProblem?: string): void {
     this.view = undefined;
     this.error = null;
-    if (sel) {
+    const k = readKnotField(el<HTMLInputElement>('knots').value);
+    fieldMessage('knots', k.ok ? undefined : k.message);
+    if (inputProblem !== undefined) {
+      // A refused input (shown at its own field): keep the last good fit, greyed.
+      this.error = inputProblem;
+    } else if (!k.ok) {
+      this.error = k.message;
+    } else if (sel) {
       try {
-        this.view = computeFit(sel.data, this.settings());
-        const n = this.view.points.length;
+        const view = computeFit(sel.data, this.settings());
+        this.view = view;
+        const n = view.points.length;
+        const distinct = new Set(view.points.map((p) => p.x)).size;
+        const warning = knotCountWarning(k.knots, distinct);
+        if (warning !== undefined) fieldMessage('knots', warning, 'warning');
         this.status(`${sel.description}: ${n} rows used${n < 15 ? ' — few points: expect a noisy cross-validation' : ''}.`);
       } catch (e) {
         this.error = errorText(e);
@@ -49,10 +68,25 @@ export class FitPanel {
     } else {
       this.status('Choose the data to fit.');
     }
-    this.chart.show(this.view, sel?.labels ?? { x: 'x', y: 'y' }, sel?.xKind);
+    if (this.error !== null && (inputProblem !== undefined || !k.ok)) this.status('The chart shows the last good fit, greyed, until the input is fixed.');
+    const labels = sel?.labels ?? { x: 'x', y: 'y' };
+    if (this.view) this.lastGood = { view: this.view, labels };
+    else if (sel === undefined) this.lastGood = undefined;
+    const stale = this.view === undefined && this.lastGood !== undefined && this.error !== null;
+    el<HTMLElement>('fit-chart-box').classList.toggle('stale', stale);
+    const shown = this.view ?? (stale ? this.lastGood!.view : undefined);
+    this.chart.show(shown, this.view ? labels : stale ? this.lastGood!.labels : labels, sel?.xKind);
+    this.summarise(shown, stale);
   }
 
-  /** Redraws the statistics table. */
+  /** The chart's text alternative: knot count, direction and r2 of the fit drawn. */
+  summarise(view: FitView | undefined = this.view, stale = false): void {
+    const text = view === undefined ? 'No fit drawn.' : fitSummary(view, stale);
+    el<HTMLCanvasElement>('fit-chart').setAttribute('aria-label', text);
+    el<HTMLElement>('fit-chart-summary').textContent = text;
+  }
+
+  /** Redraws the statistics table (numbers to the digits shown). */
   renderStats(): void {
     const t = el<HTMLTableElement>('stats');
     t.replaceChildren();
@@ -61,7 +95,7 @@ export class FitPanel {
       const a = document.createElement('td');
       a.textContent = label;
       const b = document.createElement('td');
-      b.textContent = label === 'direction' ? (value === 1 ? 'rising (1)' : 'falling (−1)') : fmt(value);
+      b.textContent = typeof value === 'object' ? `${value.code} ${value.message}` : label === 'direction' ? (value === 1 ? 'rising (1)' : 'falling (−1)') : fmt(value);
       tr.append(a, b);
       t.append(tr);
     }
@@ -95,4 +129,19 @@ export class FitPanel {
     a.remove();
     setTimeout(() => URL.revokeObjectURL(url), 10000);
   }
+}
+
+/**
+ * A fit in one sentence, for the chart's text alternative: points, knots, direction and r2 (r2 to
+ * the digits shown).
+ * @example fitSummary(view) // → "Fit chart: 28 points, 5 knots, rising, r2 0.9312."
+ */
+export function fitSummary(view: FitView, stale = false): string {
+  const stat = (name: string): unknown => view.stats.find(([k]) => k === name)?.[1];
+  const d = stat('direction');
+  const r2 = stat('r2');
+  return (
+    `${stale ? 'Last good fit (greyed; the input is wrong now)' : 'Fit chart'}: ${view.points.length} points, ${view.knots.length} knots, ` +
+    `${d === 1 ? 'rising' : d === -1 ? 'falling' : 'direction unknown'}${typeof r2 === 'number' ? `, r2 ${fmt(r2)}` : ''}.`
+  );
 }

@@ -5,7 +5,8 @@
 import type { DirectionCode } from '../formulas.js';
 import { HEATMAP_MAX_CELLS, computeSurface, knotField, renderHeatmap, type SurfaceSettings } from '../surface-view.js';
 import type { HeatmapView } from '../../src/view/heat-scale.js';
-import { el, errorText } from './dom.js';
+import { el, errorText, fieldMessage, shownDigits } from './dom.js';
+import { readKnotField } from '../guards.js';
 import type { Selection } from './selection.js';
 
 /** The surface section of the pane. */
@@ -36,8 +37,21 @@ export class SurfacePanel {
     }
     section.hidden = false;
     const s = el<HTMLDivElement>('surface-status');
+    const scroll = table.parentElement!;
+    const k1 = readKnotField(el<HTMLInputElement>('knots1').value, 'Knots along x');
+    const k2 = readKnotField(el<HTMLInputElement>('knots2').value, 'Knots along x2');
+    fieldMessage('knots1', k1.ok ? undefined : k1.message);
+    fieldMessage('knots2', k2.ok ? undefined : k2.message);
+    scroll.classList.toggle('stale', !k1.ok || !k2.ok);
+    if (!k1.ok || !k2.ok) {
+      // Keep the last heat-map drawn (greyed) until the field is fixed.
+      this.error = (!k1.ok ? k1.message : '') + (!k2.ok ? `${!k1.ok ? ' ' : ''}${k2.message}` : '');
+      s.textContent = table.rows.length > 0 ? 'The heat-map shows the last good surface, greyed, until the knot fields are fixed.' : '';
+      s.classList.remove('error');
+      return;
+    }
     try {
-      const view = computeSurface(sel.data, sel.x2.cells, this.settings());
+      const view = computeSurface(sel.data, sel.x2.cells, this.settings(), shownDigits());
       const values = view.knots1.length * view.knots2.length;
       if (values > HEATMAP_MAX_CELLS) {
         table.replaceChildren();
@@ -47,7 +61,7 @@ export class SurfacePanel {
         return;
       }
       this.view = view;
-      renderHeatmap(table, legend, view, { x1: sel.labels.x, x2: sel.x2.label, y: sel.labels.y });
+      renderHeatmap(table, legend, view, { x1: sel.labels.x, x2: sel.x2.label, y: sel.labels.y }, shownDigits());
       s.textContent =
         `Surface over ${sel.labels.x} and ${sel.x2.label}: ${view.knots1.length} × ${view.knots2.length} = ${values} values` +
         (rows !== undefined && values >= rows / 2 ? ` from about ${rows} rows — at least one value per two rows: expect over-fit.` : '.');

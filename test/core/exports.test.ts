@@ -22,9 +22,10 @@ describe('src/core/index.ts', () => {
   it('exports exactly the runtime names the outer layers import', () => {
     expect(Object.keys(core).sort()).toEqual([
       'RatchetError', 'SplitMix64', 'bandAt', 'checkKnotTable', 'crossValidate', 'crossValidateSurface',
-      'defaultCandidates', 'fail', 'fitBandModel', 'fitMonotone', 'fitSurface', 'interpolate', 'interpolateAt',
-      'invertAt', 'invertChecked', 'isRatchetError', 'kFoldAssignment', 'knotRegression', 'predict',
-      'predictSurface', 'quantileKnots', 'suggestKnots', 'suggestSurfaceKnots',
+      'defaultCandidates', 'evaluateTable', 'fail', 'fitBandModel', 'fitMonotone', 'fitShapedBandModel', 'fitSurface',
+      'interpolate', 'interpolateAt', 'inverseBand', 'invertAt', 'invertChecked', 'invertTable', 'isRatchetError',
+      'kFoldAssignment', 'knotRegression', 'predict', 'predictSurface', 'quantileKnots', 'spearman', 'suggestKnots',
+      'suggestSurfaceKnots',
     ]);
   });
 

@@ -161,7 +161,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: real data in (browser preview)', () =
     await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().points.length === 30);
     await setValue(page, '#knots', '5');
     await page.click('#copy');
-    await page.waitForFunction(() => /block of/.test(document.getElementById('copy-status')?.textContent ?? ''));
+    await page.waitForFunction(() => /block of/.test(document.getElementById('results-status')?.textContent ?? ''));
     const s = await snap(page);
     expect(s.copied).not.toBeNull();
     // The CSV opened in a spreadsheet: title A1, header row 3, data A4:B33 on sheet "wear"; paste at D1.

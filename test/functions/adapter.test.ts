@@ -222,7 +222,10 @@ describe('knot tables (EVAL, INVERT)', () => {
     expect(cell('EVAL', 0.5, [...table, [null, null], ['', '']])).toEqual([[0.5]]);
   });
   it('malformed tables are #VALUE!', () => {
-    expect(cell('EVAL', 1, [[0, 0, 0], [1, 1, 1]])).toEqual(err('#VALUE!', 'knot_table: needs exactly two columns (knot x, value); got 3.'));
+    expect(cell('EVAL', 1, [[0, 0, 0, 0], [1, 1, 1, 1]])).toEqual(err('#VALUE!', 'knot_table: needs two columns (knot x, value) or three (knot x, value, degree 1 or 2); got 4.'));
+    expect(cell('EVAL', 1, [[0, 0, 0], [1, 1, 1]])).toEqual(err('#VALUE!', 'knot_table: needs the degree 1 or 2 in its third column; row 1 has 0.'));
+    expect(cell('EVAL', 1, [[0, 0, 2], [1, 1, 1], [2, 2, 2]])).toEqual(err('#VALUE!', 'knot_table: needs the same degree in every row of its third column; row 2 has 1, earlier rows 2.'));
+    expect(cell('EVAL', 1, [[0, 0, 2], [1, 1, 2]])).toEqual(err('#VALUE!', 'knot_table: needs an odd number of rows, at least 3 (knots and midpoints), when its third column says 2; got 2.'));
     expect(cell('EVAL', 1, [[0, 0], [0, 1]])).toEqual(err('#VALUE!', 'knot_table: needs strictly increasing positions; position 2 (0) is not above 0.'));
     expect(cell('EVAL', 1, [[0, 0], [1, null]])).toEqual(err('#VALUE!', 'knot_table: needs a position and a value in every row; row 2 has a blank.'));
     expect(cell('EVAL', 1, [[null, null]])).toEqual(err('#VALUE!', 'knot_table: needs at least 1 knot row; got 0.'));
@@ -261,13 +264,26 @@ describe('STATS', () => {
     // Used rows y = 1, 3, 2, 4, 6 at x = 1, 2, 3, 4, 6; fit 1, 2.5, 2.5, 4, 6: SSE 0.5, MAE 1/5,
     // ȳ = 3.2, SST = 14.8, R² = 1 − 0.5/14.8.
     const out = cell('STATS', col(1, 3, 2, 4, null, 6), col(1, 2, 3, 4, 5, 6)) as [string, number][];
-    expect(out.map((r) => r[0])).toEqual(['n', 'dropped', 'knots', 'direction', 'r2', 'rmse', 'mae', 'sse', 'levels', 'text_rows']);
+    expect(out.map((r) => r[0])).toEqual(['n', 'dropped', 'knots', 'direction', 'r2', 'rmse', 'mae', 'sse', 'levels', 'text_rows', 'sigma', 'df_resid', 'spearman']);
     expect(out.slice(0, 4)).toEqual([['n', 5], ['dropped', 1], ['knots', 5], ['direction', 1]]);
     expect(out[4]![1]).toBeCloseRel(1 - 0.5 / 14.8, 1e-14);
     expect(out[5]![1]).toBeCloseRel(Math.sqrt(0.1), 1e-14);
     expect(out[6]![1]).toBeCloseRel(0.2, 1e-14);
     expect(out[7]![1]).toBeCloseRel(0.5, 1e-14);
     expect(out[8]).toEqual(['levels', 4]);
+    // σ̂ = √(SSE / (n − levels)) = √(0.5 / 1); Spearman: ranks of y 1, 3, 2, 4, 5 against 1 … 5,
+    // Σd² = 2, ρ = 1 − 6·2/(5·24) = 0.9 (hand computed).
+    expect(out[9]).toEqual(['text_rows', 0]);
+    expect(out[10]![1]).toBeCloseRel(Math.sqrt(0.5), 1e-14);
+    expect(out[11]).toEqual(['df_resid', 1]);
+    expect(out[12]![1]).toBeCloseRel(0.9, 1e-14);
+  });
+  it('sigma is #N/A with a message when no degree of freedom is left; spearman #N/A for constant y', () => {
+    const out = cell('STATS', col(1, 2), col(1, 2)) as [string, unknown][];
+    expect(out[10]).toEqual(['sigma', { kind: 'error', code: '#N/A', message: 'known_ys: needs more rows with positive weight (2) than fitted levels (2) to estimate the scatter.' }]);
+    expect(out[11]).toEqual(['df_resid', 0]);
+    const flat = cell('STATS', col(1, 1, 1), col(1, 2, 3)) as [string, unknown][];
+    expect(flat[12]).toEqual(['spearman', { kind: 'error', code: '#N/A', message: 'known_ys: needs x and y that both vary among the rows with positive weight for a rank correlation.' }]);
   });
   it('direction 0 reports the direction chosen', () => {
     const out = cell('STATS', col(4, 2, 3, 1), XS, null, 0) as [string, number][];

@@ -87,7 +87,7 @@ describe('defineFunction', () => {
 
   it('signatureOf writes optional parameters in brackets', () => {
     expect(signatureOf(SUMS)).toBe('RATCHET.SUMS(known_ys, known_x1s, known_x2s, [direction1], [weights])');
-    expect(SHEET_FUNCTIONS.map((f) => f.name)).toEqual(['FIT', 'PREDICT', 'KNOTS', 'EVAL', 'INVERT', 'QKNOTS', 'CV', 'BESTK', 'STATS', 'SURFACE', 'GRID', 'CVGRID']);
+    expect(SHEET_FUNCTIONS.map((f) => f.name)).toEqual(['FIT', 'PREDICT', 'KNOTS', 'EVAL', 'INVERT', 'QKNOTS', 'CV', 'BESTK', 'STATS', 'BAND', 'INVERTBAND', 'SURFACE', 'GRID', 'CVGRID']);
   });
 });
 

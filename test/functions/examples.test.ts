@@ -68,7 +68,7 @@ describe('function reference examples (README.md)', () => {
     expect(cell('BESTK', hardness, hours, col(0, 2, 3), 3, 1, 0, undefined, undefined, 0)).toBe(0);
   });
   it('STATS', () => {
-    for (const line of ['| n | 6 |', '| dropped | 0 |', '| knots | 6 |', '| direction | 1 |', '| r2 | 0.967105 |', '| rmse | 0.645497 |', '| mae | 0.5 |', '| sse | 2.5 |', '| levels | 4 |', '| text_rows | 0 |']) {
+    for (const line of ['| n | 6 |', '| dropped | 0 |', '| knots | 6 |', '| direction | 1 |', '| r2 | 0.967105 |', '| rmse | 0.645497 |', '| mae | 0.5 |', '| sse | 2.5 |', '| levels | 4 |', '| text_rows | 0 |', '| sigma | 1.11803 |', '| df_resid | 2 |', '| spearman | 0.885714 |']) {
       documented(line);
     }
     // Hand check: residuals 0, 1, −1, 0.5, −0.5, 0 → SSE 2.5, MAE 3/6; ȳ = 15, SST = 76, R² = 1 − 2.5/76.
@@ -83,6 +83,10 @@ describe('function reference examples (README.md)', () => {
       ['sse', 2.5],
       ['levels', 4],
       ['text_rows', 0],
+      // σ̂ = √(2.5 / (6 − 4)); Spearman of x 1 … 6 against y ranks (hand computed from the table).
+      ['sigma', Number(Math.sqrt(2.5 / 2).toPrecision(6))],
+      ['df_resid', 2],
+      ['spearman', 0.885714],
     ]);
   });
   it('the error-message example of the Errors table', () => {

@@ -65,18 +65,18 @@ const addresses = (n: number) => ['Data!B2:B5', 'Data!A2:A5', ...Array.from({ le
 describe('blank detection in the shared runtime (office-addin-mock)', () => {
   it('a 0 whose cell is Empty is a blank: its row is left out', async () => {
     mockExcel([['Double'], ['Empty'], ['Double'], ['Double']]);
-    const out = await entry.fit(ysWithZero, xs, undefined, undefined, undefined, { parameterAddresses: addresses(5) });
+    const out = await entry.fit(ysWithZero, xs, undefined, undefined, undefined, undefined, undefined, { parameterAddresses: addresses(5) });
     expect(out).toEqual([[1], [''], [2], [4]]);
     expect(reads).toEqual(['sheet Data', 'range B2:B5']); // only the argument with a 0 is read
   });
   it('a typed 0 stays 0', async () => {
     mockExcel([['Double'], ['Double'], ['Double'], ['Double']]);
-    const out = await entry.fit(ysWithZero, xs, undefined, undefined, undefined, { parameterAddresses: addresses(5) });
+    const out = await entry.fit(ysWithZero, xs, undefined, undefined, undefined, undefined, undefined, { parameterAddresses: addresses(5) });
     expect(out).toEqual([[0.5], [0.5], [2], [4]]);
   });
   it('no addresses (array constants, formula results): the values policy', async () => {
     mockExcel([['Empty'], ['Empty'], ['Empty'], ['Empty']]);
-    const out = await entry.fit(ysWithZero, xs, undefined, undefined, undefined, {});
+    const out = await entry.fit(ysWithZero, xs, undefined, undefined, undefined, undefined, undefined, {});
     expect(out).toEqual([[0.5], [0.5], [2], [4]]);
     expect(reads).toEqual([]);
   });
@@ -130,8 +130,8 @@ describe('long work runs in the worker and can be cancelled', () => {
     const s0 = { ...client.stats };
     const first: { onCanceled?: () => void } = {};
     const second: { onCanceled?: () => void } = {};
-    const p1 = entry.crossValidation(y, x, undefined, 5, 2, 3, undefined, undefined, first);
-    const p2 = entry.bestKnotCount(y, x, undefined, 5, 2, 3, undefined, undefined, undefined, second);
+    const p1 = entry.crossValidation(y, x, undefined, 5, 2, 3, undefined, undefined, undefined, undefined, first);
+    const p2 = entry.bestKnotCount(y, x, undefined, 5, 2, 3, undefined, undefined, undefined, undefined, undefined, second);
     // Let both calls reach the worker client (microtasks only: the in-process worker runs on a timer).
     for (let i = 0; i < 50 && client.pending('cv') < 2; i++) await Promise.resolve();
     expect(client.pending('cv')).toBe(2);

@@ -110,6 +110,20 @@ function argsFor(name: string, count: number): fc.Arbitrary<CellArg[]> {
     }));
   const targets = fc.array(cleanIn(1), { minLength: 1, maxLength: 5 }).map((xs) => xs.map((v) => [v]) as CellArg);
   switch (name) {
+    case 'BAND':
+    case 'INVERTBAND':
+      // Mostly the knot model (knots 2 to 5), where the band is defined; sometimes anything.
+      return fc.oneof(
+        { weight: 1, arbitrary: fc.tuple(dataFirst(1), targets).map(([a, t]) => [t, ...a.slice(1)]) },
+        {
+          weight: 3,
+          arbitrary: fc.tuple(dataFirst(1), targets, fc.integer({ min: 2, max: 5 })).map(([a, t, k]) => {
+            const b = [t, ...a.slice(1)];
+            b[3] = k;
+            return b;
+          }),
+        },
+      );
     case 'PREDICT':
       return fc.tuple(dataFirst(1), targets).map(([a, t]) => [t, ...a.slice(1)]);
     case 'EVAL':
@@ -121,6 +135,9 @@ function argsFor(name: string, count: number): fc.Arbitrary<CellArg[]> {
       );
     case 'QKNOTS':
       return fc.oneof(base, fc.tuple(pair, option).map(([[, x], c]) => [x, c]));
+    case 'BESTK':
+      // Half the grids leave curvature and degree (the last two) omitted, as formulas written before them.
+      return fc.oneof(dataFirst(0), dataFirst(0).map((a) => [...a.slice(0, -2), undefined, undefined]));
     default:
       return dataFirst(0);
   }
@@ -131,7 +148,9 @@ function check(ok: boolean, what: string): void {
 }
 
 function assertResult(name: string, args: CellArg[], r: CellResult): void {
-  const okCell = (v: unknown) => (typeof v === 'number' && Number.isFinite(v)) || typeof v === 'string' || typeof v === 'boolean';
+  // An error cell (a read-back limit the band does not reach, a statistic the data do not define) is #N/A with a message.
+  const errorCell = (v: unknown) => typeof v === 'object' && v !== null && (v as { code?: unknown }).code === '#N/A' && String((v as { message?: unknown }).message).length > 0;
+  const okCell = (v: unknown) => (typeof v === 'number' && Number.isFinite(v)) || typeof v === 'string' || typeof v === 'boolean' || errorCell(v);
   if (Array.isArray(r)) {
     check(r.length > 0, 'empty result');
     const w = r[0]!.length;
@@ -143,8 +162,14 @@ function assertResult(name: string, args: CellArg[], r: CellResult): void {
   const shapeOf = (a: CellArg) => (Array.isArray(a) ? `${a.length}x${(a[0] as unknown[]).length}` : '1x1');
   const dims = Array.isArray(r) ? `${r.length}x${r[0]!.length}` : '1x1';
   if (['FIT', 'PREDICT', 'EVAL', 'INVERT'].includes(name)) check(dims === shapeOf(args[0]), `shape ${dims} vs ${shapeOf(args[0])}`);
-  if (name === 'KNOTS') check(dims.endsWith('x2'), 'KNOTS needs two columns');
+  if (name === 'KNOTS') check(dims.endsWith('x2') || (dims.endsWith('x3') && args[6] === 2), 'KNOTS needs two columns (three for degree 2)');
   if (name === 'STATS') check(dims === `${STATS_LABELS.length}x2`, 'STATS shape');
+  if (name === 'BAND' || name === 'INVERTBAND') {
+    const a = args[0];
+    const n = Array.isArray(a) ? a.length * (a[0] as unknown[]).length : 1;
+    const row = Array.isArray(a) && a.length === 1 && (a[0] as unknown[]).length > 1;
+    check(dims === (row ? `3x${n}` : `${n}x3`), `${name} shape ${dims} for ${n} cells`);
+  }
   if (name === 'CV') check(dims.endsWith('x6'), 'CV shape');
   if (name === 'BESTK') check(typeof r === 'number', 'BESTK scalar');
 }

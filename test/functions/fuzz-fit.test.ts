@@ -7,4 +7,6 @@ describe('fuzz: the fitting functions', () => {
   fuzzFunction('PREDICT');
   fuzzFunction('KNOTS');
   fuzzFunction('STATS');
+  fuzzFunction('BAND');
+  fuzzFunction('INVERTBAND');
 });

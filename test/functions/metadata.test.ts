@@ -59,17 +59,17 @@ describe('generated functions.json', () => {
     const addr = '{"requiresParameterAddresses":true}';
     const cancel = '{"cancelable":true,"requiresParameterAddresses":true}';
     expect(nine().map(signature)).toEqual([
-      `FIT/FIT(known_ys[], known_xs[], knots[]?, direction?, weights[]?) → matrix ${addr}`,
-      `PREDICT/PREDICT(new_xs[], known_ys[], known_xs[], knots[]?, direction?, weights[]?) → matrix ${addr}`,
-      `KNOTS/KNOTS(known_ys[], known_xs[], knots[]?, direction?, weights[]?) → matrix ${addr}`,
+      `FIT/FIT(known_ys[], known_xs[], knots[]?, direction?, weights[]?, curvature?, degree?) → matrix ${addr}`,
+      `PREDICT/PREDICT(new_xs[], known_ys[], known_xs[], knots[]?, direction?, weights[]?, curvature?, degree?) → matrix ${addr}`,
+      `KNOTS/KNOTS(known_ys[], known_xs[], knots[]?, direction?, weights[]?, curvature?, degree?) → matrix ${addr}`,
       `EVAL/EVAL(new_xs[], knot_table[]) → matrix ${addr}`,
       `INVERT/INVERT(target_ys[], knot_table[], tie?) → matrix ${addr}`,
       `QKNOTS/QKNOTS(known_xs[], count) → matrix ${addr}`,
-      `CV/CV(known_ys[], known_xs[], candidates[]?, folds?, repeats?, seed?, direction?, weights[]?) → matrix ${cancel}`,
-      `BESTK/BESTK(known_ys[], known_xs[], candidates[]?, folds?, repeats?, seed?, direction?, weights[]?, rule?) → number ${cancel}`,
-      `STATS/STATS(known_ys[], known_xs[], knots[]?, direction?, weights[]?) → matrix ${addr}`,
+      `CV/CV(known_ys[], known_xs[], candidates[]?, folds?, repeats?, seed?, direction?, weights[]?, curvature?, degree?) → matrix ${cancel}`,
+      `BESTK/BESTK(known_ys[], known_xs[], candidates[]?, folds?, repeats?, seed?, direction?, weights[]?, rule?, curvature?, degree?) → number ${cancel}`,
+      `STATS/STATS(known_ys[], known_xs[], knots[]?, direction?, weights[]?, curvature?, degree?) → matrix ${addr}`,
     ]);
-    expect(nine().map((f) => f.parameters.length)).toEqual([5, 6, 5, 2, 3, 2, 8, 9, 5]);
+    expect(nine().map((f) => f.parameters.length)).toEqual([7, 8, 7, 2, 3, 2, 10, 11, 7]);
     expect(functions.slice(0, 9).map((f) => f.id)).toEqual(CORE_NINE);
   });
 

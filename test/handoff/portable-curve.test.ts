@@ -184,3 +184,10 @@ describe('portableCurveBlock', () => {
     ]);
   });
 });
+
+describe('portableCurveBlock and the smooth table', () => {
+  it('refuses the table of a smooth fit (third column 2) with a message instead of reading it with straight lines', () => {
+    expect(() => portableCurveBlock([[0, 0, 2], [1, 0.75, 2], [2, 1, 2]], { row: 1, col: 1 })).toThrow(/smooth \(degree 2\)/);
+    expect(portableCurveBlock([[0, 0, 1], [2, 1, 1]], { row: 1, col: 1 }, 1).length).toBeGreaterThan(4);
+  });
+});

@@ -93,8 +93,34 @@ describe('npm run demo', async () => {
     expect(text.match(/cv_rmse at \d+ knots: /g)!.length).toBe(curves.length);
   });
 
-  it('picks round tick steps', () => {
+  it('picks round tick steps, at least 4 of them', () => {
     expect(niceTicks(0, 10)).toEqual([0, 2, 4, 6, 8, 10]);
     expect(niceTicks(863.2, 1256.8)).toEqual([900, 1000, 1100, 1200]);
+    // a span that a step of 5 covers with two ticks gets the next finer step (2)
+    expect(niceTicks(9.6, 20.4)).toEqual([10, 12, 14, 16, 18, 20]);
+    expect(niceTicks(11.2, 14.3, 6, 4)).toEqual([11.5, 12, 12.5, 13, 13.5, 14]);
+  });
+
+  it('every fit picture has at least 4 y ticks, the adhesive-tack one included', () => {
+    for (const r of results) {
+      if (r.kind !== 'curve') continue;
+      const svg = readFileSync(r.svgPath, 'utf8');
+      // y tick labels are right-aligned left of the axis
+      const yTicks = svg.match(/<text x="[0-9.]+" y="[0-9.]+" text-anchor="end">/g) ?? [];
+      expect(yTicks.length, r.file).toBeGreaterThanOrEqual(4);
+    }
+  });
+
+  it('the pictures follow the digits rule (at most 4 significant digits) and label the heat-map axes once', () => {
+    for (const r of results) {
+      const svg = readFileSync(r.svgPath, 'utf8');
+      for (const m of svg.matchAll(/>(-?[0-9.]+(?:e[-+]?[0-9]+)?)<\/text>/g)) {
+        const digits = m[1]!.replace(/e.*$/, '').replace(/[-.]/g, '').replace(/^0+/, '').replace(/0+$/, '');
+        expect(digits.length, `${r.file}: ${m[1]}`).toBeLessThanOrEqual(4);
+      }
+      expect(svg).not.toContain('(knots)');
+    }
+    const surface = results.find((r) => r.kind === 'surface')!;
+    expect(readFileSync(surface.svgPath, 'utf8')).toContain('knots of dwell time (min)');
   });
 });

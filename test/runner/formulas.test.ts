@@ -12,7 +12,7 @@
  *   #VALUE! naming the argument; INVERT outside the range is #N/A; error cells propagate).
  */
 import { describe, expect, it } from 'vitest';
-import { crossValidate, suggestKnots } from '../../src/core/index.js';
+import { bandAt, crossValidate, fitBandModel, inverseBand, suggestKnots } from '../../src/core/index.js';
 import { closeBlock, evaluate, type Setup, type SetupCell } from './helpers.js';
 
 type Value = number | string | boolean | null;
@@ -67,6 +67,9 @@ const cvK2 = Math.sqrt(41.5 / 6);
 const BASE_X = [1, 2, 3, 4, 5, 6];
 const BASE_Y = [1, 3, 2, 4, 6, 5];
 const coreCv = crossValidate(BASE_X, BASE_Y, { candidates: [2, 3, 4], folds: 3, seed: 7 });
+const coreBandModel = fitBandModel(BASE_X, BASE_Y, { knots: 2 });
+const coreBand = bandAt(coreBandModel, [3.5], 0.9, 'prediction');
+const coreInverse = inverseBand(coreBandModel, [3.5], 0.5, 4)[0]!;
 
 const ROWS: Row[] = [
   // ---- FIT ----
@@ -108,14 +111,15 @@ const ROWS: Row[] = [
     what: 'STATS of the classic fit (hand)',
     setup: BASE,
     formula: '=RATCHET.STATS(B1:B6,A1:A6)',
-    expected: [['n', 6], ['dropped', 0], ['knots', 5], ['direction', 1], ['r2', 1 - 1 / 17.5], ['rmse', Math.sqrt(1 / 6)], ['mae', 1 / 3], ['sse', 1], ['levels', 4], ['text_rows', 0]],
+    expected: [['n', 6], ['dropped', 0], ['knots', 5], ['direction', 1], ['r2', 1 - 1 / 17.5], ['rmse', Math.sqrt(1 / 6)], ['mae', 1 / 3], ['sse', 1], ['levels', 4], ['text_rows', 0], ['sigma', Math.sqrt(1 / 2)], ['df_resid', 2], ['spearman', 1 - (6 * 4) / (6 * 35)]],
   },
   {
     what: 'STATS counts a dropped row and reports the direction chosen (hand)',
     setup: xy([6, 4, 5, 3, 1, null]),
     formula: '=RATCHET.STATS(B1:B6,A1:A6,0,0)',
-    // Rows 1–5: 6, (4,5) → 4.5, 3, 1: SSE 0.5, RMSE √(0.5/5), MAE 1/5; ȳ = 3.8, SST = 14.8.
-    expected: [['n', 5], ['dropped', 1], ['knots', 5], ['direction', -1], ['r2', 1 - 0.5 / 14.8], ['rmse', Math.sqrt(0.1)], ['mae', 0.2], ['sse', 0.5], ['levels', 4], ['text_rows', 0]],
+    // Rows 1–5: 6, (4,5) → 4.5, 3, 1: SSE 0.5, RMSE √(0.5/5), MAE 1/5; ȳ = 3.8, SST = 14.8;
+    // σ̂ = √(0.5/(5 − 4)); Spearman: y ranks 5 3 4 2 1 against 1…5, Σd² = 38, ρ = 1 − 6·38/120.
+    expected: [['n', 5], ['dropped', 1], ['knots', 5], ['direction', -1], ['r2', 1 - 0.5 / 14.8], ['rmse', Math.sqrt(0.1)], ['mae', 0.2], ['sse', 0.5], ['levels', 4], ['text_rows', 0], ['sigma', Math.sqrt(0.5)], ['df_resid', 1], ['spearman', 1 - (6 * 38) / 120]],
   },
   // ---- CV ----
   {
@@ -149,8 +153,9 @@ const ROWS: Row[] = [
     what: 'STATS counts text rows in dropped and in text_rows (hand)',
     setup: { ...xy([1, 3, 'n/a', 4, 6, null]), C1: 1, C2: 1, C3: 1, C4: true, C5: 1, C6: 1 },
     formula: '=RATCHET.STATS(B1:B6,A1:A6,0,1,C1:C6)',
-    // Rows 1, 2, 5 used (row 3 text y, row 4 logical weight, row 6 blank y): y 1 3 6 rising, exact: SSE 0.
-    expected: [['n', 3], ['dropped', 3], ['knots', 3], ['direction', 1], ['r2', 1], ['rmse', 0], ['mae', 0], ['sse', 0], ['levels', 3], ['text_rows', 2]],
+    // Rows 1, 2, 5 used (row 3 text y, row 4 logical weight, row 6 blank y): y 1 3 6 rising, exact: SSE 0;
+    // no degree of freedom is left for sigma (#N/A); x and y ranks agree: spearman 1.
+    expected: [['n', 3], ['dropped', 3], ['knots', 3], ['direction', 1], ['r2', 1], ['rmse', 0], ['mae', 0], ['sse', 0], ['levels', 3], ['text_rows', 2], ['sigma', '#N/A'], ['df_resid', 0], ['spearman', 1]],
   },
   { what: 'text in an array constant stays an error', setup: BASE, formula: '=RATCHET.FIT({1;3;"abc";4;6;5},A1:A6)', expected: '#VALUE!', message: 'known_ys: needs numbers or blanks; cell 3 is the text "abc"' },
   { what: 'a bare TRUE argument is named as a logical', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A6,TRUE)', expected: '#VALUE!', message: 'knots: needs a number; got the logical TRUE' },
@@ -190,6 +195,43 @@ const ROWS: Row[] = [
   { what: 'fractional candidates', setup: BASE, formula: '=RATCHET.CV(B1:B6,A1:A6,{2;2.5})', expected: '#VALUE!', message: 'candidates' },
   { what: 'repeats above 1 with seed 0', setup: BASE, formula: '=RATCHET.CV(B1:B6,A1:A6,2,2,2,0)', expected: '#VALUE!', message: 'repeats' },
   { what: 'a fractional seed', setup: BASE, formula: '=RATCHET.BESTK(B1:B6,A1:A6,2,2,1,1.5)', expected: '#VALUE!', message: 'seed' },
+  // ---- BAND, INVERTBAND ----
+  // An exact line has σ̂ = 0: the band collapses onto the line (hand).
+  { what: 'BAND of an exact line collapses onto it: lower = fit = upper (hand)', setup: LINE, formula: '=RATCHET.BAND(3.5,B1:B6,A1:A6,2)', expected: [[8, 8, 8]] },
+  { what: 'BAND over a row of new x spills three rows (hand)', setup: LINE, formula: '=RATCHET.BAND({2,4},B1:B6,A1:A6,2)', expected: [[5, 9], [5, 9], [5, 9]] },
+  { what: 'BAND, 90 % prediction band, against the core (core)', setup: BASE, formula: '=RATCHET.BAND(3.5,B1:B6,A1:A6,2,1,,0.9,2)', expected: [[coreBand.lower[0]!, coreBand.fit[0]!, coreBand.upper[0]!]] },
+  { what: 'INVERTBAND, against the core (core)', setup: BASE, formula: '=RATCHET.INVERTBAND(3.5,B1:B6,A1:A6,2,1,,0.5,4)', expected: [[coreInverse.lower as number, coreInverse.x as number, coreInverse.upper as number]] },
+  { what: 'FIT convex with 3 knots on an exact line reproduces it (hand)', setup: LINE, formula: '=RATCHET.FIT(B1:B6,A1:A6,3,1,,1)', expected: [[3], [5], [7], [9], [11], [13]] },
+  { what: 'KNOTS smooth with 2 knots on an exact line: knots and midpoint, third column 2 (hand)', setup: LINE, formula: '=RATCHET.KNOTS(B1:B6,A1:A6,2,1,,0,2)', expected: [[1, 3, 2], [3.5, 8, 2], [6, 13, 2]] },
+  { what: 'EVAL reads a smooth table quadratically (hand: parabola through (0,0), (1,0.75), (2,1) at 0.5 is 0.4375)', setup: {}, formula: '=RATCHET.EVAL(0.5,{0,0,2;1,0.75,2;2,1,2})', expected: [[0.4375]] },
+  // ---- errors of the new arguments ----
+  { what: 'BAND of the classic fit (knots 0)', setup: BASE, formula: '=RATCHET.BAND(3,B1:B6,A1:A6)', expected: '#VALUE!', message: 'BAND needs the knot model' },
+  { what: 'BAND level 1', setup: BASE, formula: '=RATCHET.BAND(3,B1:B6,A1:A6,2,1,,1)', expected: '#VALUE!', message: 'level' },
+  { what: 'BAND level 0', setup: BASE, formula: '=RATCHET.BAND(3,B1:B6,A1:A6,2,1,,0)', expected: '#VALUE!', message: 'level' },
+  { what: 'BAND kind 3', setup: BASE, formula: '=RATCHET.BAND(3,B1:B6,A1:A6,2,1,,0.95,3)', expected: '#VALUE!', message: 'kind' },
+  { what: 'BAND with no more rows than parameters (6 rising rows, 6 knots)', setup: LINE, formula: '=RATCHET.BAND(3,B1:B6,A1:A6,6)', expected: '#VALUE!', message: 'known_ys' },
+  { what: 'BAND new_xs of two rows and two columns', setup: BASE, formula: '=RATCHET.BAND({1,2;3,4},B1:B6,A1:A6,2)', expected: '#VALUE!', message: 'new_xs' },
+  { what: 'BAND curvature 2', setup: BASE, formula: '=RATCHET.BAND(3,B1:B6,A1:A6,2,1,,0.95,1,2)', expected: '#VALUE!', message: 'curvature' },
+  { what: 'BAND degree 2 (no band for the smooth fit yet)', setup: BASE, formula: '=RATCHET.BAND(3,B1:B6,A1:A6,3,1,,0.95,1,0,2)', expected: '#VALUE!', message: 'degree' },
+  { what: 'INVERTBAND of the classic fit (knots 0)', setup: BASE, formula: '=RATCHET.INVERTBAND(3,B1:B6,A1:A6)', expected: '#VALUE!', message: 'knots' },
+  { what: 'INVERTBAND replicates 0.5', setup: BASE, formula: '=RATCHET.INVERTBAND(3,B1:B6,A1:A6,2,1,,0.95,0.5)', expected: '#VALUE!', message: 'replicates' },
+  { what: 'INVERTBAND level 1.5', setup: BASE, formula: '=RATCHET.INVERTBAND(3,B1:B6,A1:A6,2,1,,1.5)', expected: '#VALUE!', message: 'level' },
+  { what: 'INVERTBAND degree 3', setup: BASE, formula: '=RATCHET.INVERTBAND(3,B1:B6,A1:A6,2,1,,0.95,1,0,3)', expected: '#VALUE!', message: 'degree' },
+  { what: 'INVERTBAND lower limit out of reach is #N/A in that cell', setup: BASE, formula: '=RATCHET.INVERTBAND(3.5,B1:B6,A1:A6,2)', expected: '#N/A', message: 'lower x limit' },
+  { what: 'FIT curvature 2', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A6,3,1,,2)', expected: '#VALUE!', message: 'curvature' },
+  { what: 'FIT curvature -1 with the classic fit', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A6,0,1,,-1)', expected: '#VALUE!', message: 'curvature: needs knots' },
+  { what: 'FIT degree 2 with the classic fit', setup: BASE, formula: '=RATCHET.FIT(B1:B6,A1:A6,0,1,,0,2)', expected: '#VALUE!', message: 'degree: needs knots' },
+  { what: 'PREDICT degree 3', setup: BASE, formula: '=RATCHET.PREDICT(3,B1:B6,A1:A6,3,1,,0,3)', expected: '#VALUE!', message: 'degree' },
+  { what: 'PREDICT curvature text', setup: BASE, formula: '=RATCHET.PREDICT(3,B1:B6,A1:A6,3,1,,"concave")', expected: '#VALUE!', message: 'curvature' },
+  { what: 'KNOTS curvature 0.5', setup: BASE, formula: '=RATCHET.KNOTS(B1:B6,A1:A6,3,1,,0.5)', expected: '#VALUE!', message: 'curvature' },
+  { what: 'KNOTS degree 0', setup: BASE, formula: '=RATCHET.KNOTS(B1:B6,A1:A6,3,1,,0,0)', expected: '#VALUE!', message: 'degree' },
+  { what: 'STATS curvature -2', setup: BASE, formula: '=RATCHET.STATS(B1:B6,A1:A6,3,1,,-2)', expected: '#VALUE!', message: 'curvature' },
+  { what: 'STATS degree 2 with the classic fit', setup: BASE, formula: '=RATCHET.STATS(B1:B6,A1:A6,0,1,,0,2)', expected: '#VALUE!', message: 'degree' },
+  { what: 'CV curvature 3', setup: BASE, formula: '=RATCHET.CV(B1:B6,A1:A6,{2;3},2,1,0,1,,3)', expected: '#VALUE!', message: 'curvature' },
+  { what: 'CV with a shape and the classic fit among the candidates', setup: BASE, formula: '=RATCHET.CV(B1:B6,A1:A6,{0;2},2,1,0,1,,-1)', expected: '#VALUE!', message: 'candidates' },
+  { what: 'BESTK degree 5', setup: BASE, formula: '=RATCHET.BESTK(B1:B6,A1:A6,{2;3},2,1,0,1,,1,0,5)', expected: '#VALUE!', message: 'degree' },
+  { what: 'EVAL of a table whose third column is not a degree', setup: {}, formula: '=RATCHET.EVAL(1,{0,0,3;1,1,3;2,2,3})', expected: '#VALUE!', message: 'third column' },
+  { what: 'EVAL of a smooth table with an even number of rows', setup: {}, formula: '=RATCHET.EVAL(1,{0,0,2;1,1,2})', expected: '#VALUE!', message: 'odd number of rows' },
   // ---- errors: #N/A for an unreachable target; error cells propagate ----
   { what: 'INVERT target outside the curve', setup: TABLE, formula: '=RATCHET.INVERT(5,D1:E3)', expected: '#N/A', message: 'outside' },
   { what: 'a #DIV/0! cell inside a data range propagates', setup: xy([1, 3, { f: '1/0' }, 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: '#DIV/0!' },
@@ -207,7 +249,7 @@ describe('formulas and expected values, evaluated by the runner', () => {
 
   it('covers every RATCHET function', () => {
     const used = new Set(ROWS.flatMap((r) => [...r.formula.matchAll(/RATCHET[._]([A-Z]+)\(/g)].map((m) => m[1])));
-    expect([...used].sort()).toEqual(['BESTK', 'CV', 'EVAL', 'FIT', 'INVERT', 'KNOTS', 'PREDICT', 'QKNOTS', 'STATS']);
+    expect([...used].sort()).toEqual(['BAND', 'BESTK', 'CV', 'EVAL', 'FIT', 'INVERT', 'INVERTBAND', 'KNOTS', 'PREDICT', 'QKNOTS', 'STATS']);
   });
 
   it.each(ROWS.map((r, i) => [r.what, r, i] as const))('%s', (_what, row, i) => {

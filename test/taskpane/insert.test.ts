@@ -6,7 +6,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { OfficeMockObject } from 'office-addin-mock';
-import { insertFormula, type ExcelLike } from '../../taskpane/insert.js';
+import { formulaReads, insertFormula, type ExcelLike } from '../../taskpane/insert.js';
 import { formulaFor, spillSize, type CvSettings, type FitSettings } from '../../taskpane/formulas.js';
 import { computeFit, candidateCount } from '../../taskpane/analysis.js';
 import { absoluteRef, parseAddress, plainRef, tableColumnRef } from '../../taskpane/refs.js';
@@ -178,5 +178,76 @@ describe('insert actions (office-addin-mock workbook)', () => {
       'the result would not fit on the worksheet below and right of that cell',
     );
     expect(wb.log.reads).toEqual([]);
+  });
+
+  it("refuse a PREDICT target inside its own new_xs range (D3 with new_xs D2:D4), found in the formula text, writing nothing", async () => {
+    const wb = workbook({ ...dataCells, D2: { value: 1.5 }, D3: { value: 2.5 }, D4: { value: 3.5 } });
+    const formula = formulaFor('PREDICT', refs, fit, cv, '$D$2:$D$4');
+    expect(formula).toBe('=RATCHET.PREDICT($D$2:$D$4,$B$2:$B$9,$A$2:$A$9,3,1)');
+    // the caller lists only the data ranges: the guard must also see new_xs in the formula itself
+    let asked = false;
+    await expect(
+      insertFormula(wb.excel, { formula, target: 'D3', rows: 3, cols: 1, inputs: [xArea, yArea] }, async () => {
+        asked = true;
+        return true;
+      }),
+    ).rejects.toThrow('The result (Trials!D3:D5) would overlap the data it reads; pick a cell outside the data ranges.');
+    expect(asked).toBe(false);
+    expect(wb.written()).toEqual([]);
+    expect(wb.log.cleared).toEqual([]);
+  });
+
+  it('ask again, listing the new cells, when the area changed while the question was open; a no then writes and clears nothing', async () => {
+    const cells: Record<string, Cell> = { ...dataCells, D2: { value: 'old' } };
+    const wb = workbook(cells);
+    const questions: string[] = [];
+    const out = await insertFormula(wb.excel, { formula: formulaFor('KNOTS', refs, fit, cv), target: 'D2', rows: 3, cols: 2, inputs: [xArea, yArea] }, async (q) => {
+      questions.push(q);
+      if (questions.length === 1) {
+        cells.E4 = { value: 'typed meanwhile' }; // edited while the question is open
+        return true;
+      }
+      return false;
+    });
+    expect(questions).toEqual([
+      'The result needs 3 × 2 cells (Trials!D2:E4), but 1 is not empty: D2. Overwrite it?',
+      'The cells changed while the question was open. The result needs 3 × 2 cells (Trials!D2:E4), but 2 are not empty: D2, E4. Overwrite them?',
+    ]);
+    expect(out.written).toBe(false);
+    expect(out.occupied).toEqual(['D2', 'E4']);
+    expect(wb.log.cleared).toEqual([]);
+    expect(wb.written()).toEqual([]);
+  });
+
+  it('ask again when a cell listed in the question was changed meanwhile, and clear and write after the second yes', async () => {
+    const cells: Record<string, Cell> = { ...dataCells, D2: { value: 'old' } };
+    const wb = workbook(cells);
+    let n = 0;
+    const formula = formulaFor('KNOTS', refs, fit, cv);
+    const out = await insertFormula(wb.excel, { formula, target: 'D2', rows: 3, cols: 2, inputs: [xArea, yArea] }, async () => {
+      n++;
+      if (n === 1) cells.D2 = { value: 'newer' }; // same cell, other contents
+      return true;
+    });
+    expect(n).toBe(2);
+    expect(out.written).toBe(true);
+    expect(out.occupied).toEqual(['D2']);
+    expect(wb.log.cleared).toEqual(['D2:E4:Contents']);
+    expect(wb.written()).toEqual([{ address: 'D2', formulas: [[formula]] }]);
+  });
+});
+
+describe('formulaReads (the ranges an inserted formula reads, from its text)', () => {
+  it('finds absolute, relative, sheet-qualified, quoted-sheet and whole-column references', () => {
+    const reads = formulaReads("=RATCHET.PREDICT($D$2:$D$4,Data!B2:B9,'My data'!$A:$A,3,1)");
+    expect(reads).toEqual([
+      { sheet: undefined, r1: 2, c1: 4, r2: 4, c2: 4 },
+      { sheet: 'Data', r1: 2, c1: 2, r2: 9, c2: 2 },
+      { sheet: 'My data', r1: 1, c1: 1, r2: 1048576, c2: 1 },
+    ]);
+  });
+
+  it('skips function names that look like cells, text in quotes, plain numbers and table references', () => {
+    expect(formulaReads('=LOG10(2)+LEN("A1:B2")+3+Trials[dose]+RATCHET.STATS(Trials[[response \'[mV\']]],Trials[dose])')).toEqual([]);
   });
 });

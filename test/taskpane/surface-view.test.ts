@@ -46,7 +46,7 @@ describe('surface data wiring (RATCHET.GRID through the registry)', () => {
     expect(v.max).toBeCloseRel(6, 1e-12);
     expect(v.cells.length).toBe(3);
     expect(v.cells.every((r) => r.length === 3)).toBe(true);
-    expect(v.cells[0]![1]!.text).toBe('2.3333333');
+    expect(v.cells[0]![1]!.text).toBe('2.333'); // 4 significant digits, the pane's default
   });
 
   it('leaves out a row whose x2 is blank and refuses text in x2, as the worksheet function does', () => {
@@ -132,8 +132,9 @@ describe('heat-map view of a GRID table', () => {
     expect(() => heatmapFromGrid(7)).toThrow('not a GRID table');
   });
 
-  it('shows integers as they are and other numbers to 8 significant digits', () => {
-    expect([cellText(3), cellText(7 / 3), cellText(-0.000123456789), cellText(1e21)]).toEqual(['3', '2.3333333', '-0.00012345679', '1e+21']);
+  it('shows numbers to 4 significant digits by default and to the digits asked for otherwise', () => {
+    expect([cellText(3), cellText(7 / 3), cellText(-0.000123456789), cellText(1e21), cellText(28.679391)]).toEqual(['3', '2.333', '-0.0001235', '1e+21', '28.68']);
+    expect([cellText(7 / 3, 8), cellText(28.679391, 6), cellText(7 / 3, 17)]).toEqual(['2.3333333', '28.6794', '2.3333333333333335']);
   });
 });
 
