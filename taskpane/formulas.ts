@@ -103,13 +103,13 @@ export interface SpillInputs {
   readonly newXs: { rows: number; cols: number };
 }
 
-/** Rows of the STATS table (n, dropped, knots, direction, r2, rmse, mae, sse, levels). */
-export const STATS_ROWS = 9;
+/** Rows of the STATS table (n, dropped, knots, direction, r2, rmse, mae, sse, levels, text_rows, sigma, df_resid, spearman). */
+export const STATS_ROWS = 13;
 /** Columns of the CV table (knots, cv_rmse, cv_se, cv_r2, cv_mae, train_rmse). */
 export const CV_COLS = 6;
 
 /**
- * Rows × columns a result occupies from its anchor cell: KNOTS knotRows × 2, STATS 9 × 2, CV
+ * Rows × columns a result occupies from its anchor cell: KNOTS knotRows × 2, STATS 13 × 2, CV
  * (candidates + 1 header row) × 6, PREDICT the shape of new_xs, BESTK 1 × 1.
  */
 export function spillSize(kind: FormulaKind, s: SpillInputs): { rows: number; cols: number } {

@@ -129,8 +129,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: real data in (browser preview)', () =
 
   it('a damaged .xlsx is explained in plain words, and the pickers of the previous file are emptied', async () => {
     await page.setInputFiles('#file', { name: 'cut.xlsx', mimeType: 'application/octet-stream', buffer: Buffer.from('PK\u0003\u0004 cut short') });
-    await page.waitForFunction(() => /damaged/.test(document.getElementById('fit-status')?.textContent ?? ''));
-    expect(await page.textContent('#fit-status')).toMatch(/^cut\.xlsx is damaged: it looks like an \.xlsx workbook, but parts of it cannot be read/);
+    await page.waitForFunction(() => /damaged/.test(document.getElementById('data-status')?.textContent ?? ''));
+    expect(await page.textContent('#data-status')).toMatch(/^cut\.xlsx is damaged: it looks like an \.xlsx workbook, but parts of it cannot be read/);
     expect(await page.$$eval('#col-x option', (o) => o.length)).toBe(0);
     expect((await snap(page)).data).toBeNull();
   });

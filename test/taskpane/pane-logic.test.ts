@@ -94,20 +94,20 @@ describe('formulas and spill sizes', () => {
     expect(parseCandidates('')).toBeUndefined();
     expect(() => parseCandidates('1-4')).toThrow('Candidates: each must be 0 (classic) or a whole number ≥ 2; got "1-4".');
   });
-  it('size results as KNOTS rows × 2, STATS 9 × 2, CV (candidates + 1) × 6, PREDICT the shape of new_xs', () => {
+  it('size results as KNOTS rows × 2, STATS 13 × 2, CV (candidates + 1) × 6, PREDICT the shape of new_xs', () => {
     const s = { knotRows: 7, candidates: 19, newXs: { rows: 1, cols: 12 } };
     expect(spillSize('KNOTS', s)).toEqual({ rows: 7, cols: 2 });
-    expect(spillSize('STATS', s)).toEqual({ rows: 9, cols: 2 });
+    expect(spillSize('STATS', s)).toEqual({ rows: 13, cols: 2 });
     expect(spillSize('CV', s)).toEqual({ rows: 20, cols: 6 });
     expect(spillSize('PREDICT', s)).toEqual({ rows: 1, cols: 12 });
     expect(spillSize('BESTK', s)).toEqual({ rows: 1, cols: 1 });
   });
-  it('match the sizes the functions return: STATS is 9 × 2 and KNOTS has one row per knot of the chart', () => {
+  it('match the sizes the functions return: STATS is 13 × 2 and KNOTS has one row per knot of the chart', () => {
     const x = [1, 2, 3, 4, 5, 6];
     const y = [1, 3, 2, 4, 6, 5];
     const view = computeFit({ x, y }, { knots: 0, direction: 1 });
     const args = [y.map((v) => [v]), x.map((v) => [v]), 0, 1];
-    expect((functionByName('STATS')!.invoke(args) as unknown[][]).length).toBe(9);
+    expect((functionByName('STATS')!.invoke(args) as unknown[][]).length).toBe(13);
     expect((functionByName('KNOTS')!.invoke(args) as unknown[][]).length).toBe(view.knots.length);
     // classic fit of (1,1) (2,3) (3,2) (4,4) (5,6) (6,5): PAVA pools 3,2 → 2.5 and 6,5 → 5.5 (hand
     // computation); the smallest table drops (4, 4), which lies on the line from (3, 2.5) to (5, 5.5)
