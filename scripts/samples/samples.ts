@@ -20,6 +20,7 @@ import {
   quantileKnots,
   suggestKnots,
   type DirectionOption,
+  type MonotoneModel,
   type ModelOptions,
 } from '../../src/core/index.js';
 
@@ -112,6 +113,43 @@ function paired(x: readonly (number | null)[], y: readonly (number | null)[], w?
   };
 }
 
+/** Average ranks (ties share the mean of their positions), 1-based. */
+function ranks(v: readonly number[]): number[] {
+  const order = v.map((_, i) => i).sort((a, b) => v[a]! - v[b]!);
+  const r = new Array<number>(v.length);
+  for (let i = 0; i < order.length; ) {
+    let j = i;
+    while (j + 1 < order.length && v[order[j + 1]!] === v[order[i]!]) j++;
+    for (let k = i; k <= j; k++) r[order[k]!] = (i + j) / 2 + 1;
+    i = j + 1;
+  }
+  return r;
+}
+
+/** STATS rows sigma, df_resid, spearman: σ̂ = √(SSE / (n_used − levels)), Pearson correlation of average ranks. */
+function spreadRows(p: ReturnType<typeof paired>, m: MonotoneModel): ExpectedCell[][] {
+  const used = p.keep.map((_, k) => k).filter((k) => p.w === undefined || p.w[k]! > 0);
+  const df = used.length - m.levels;
+  const rx = ranks(used.map((k) => p.x[k]!));
+  const ry = ranks(used.map((k) => p.y[k]!));
+  const mean = (a: number[]) => a.reduce((s, v) => s + v, 0) / a.length;
+  const mx = mean(rx);
+  const my = mean(ry);
+  let sxy = 0;
+  let sxx = 0;
+  let syy = 0;
+  for (let i = 0; i < rx.length; i++) {
+    sxy += (rx[i]! - mx) * (ry[i]! - my);
+    sxx += (rx[i]! - mx) ** 2;
+    syy += (ry[i]! - my) ** 2;
+  }
+  return [
+    ['sigma', Math.sqrt(m.stats.sse / df)],
+    ['df_resid', df],
+    ['spearman', sxy / Math.sqrt(sxx * syy)],
+  ];
+}
+
 function model(x: readonly (number | null)[], y: readonly (number | null)[], knots: ModelOptions['knots'], dir: number, w?: readonly (number | null)[]) {
   const p = paired(x, y, w);
   const m = fitMonotone(p.x, p.y, { knots, direction: DIRECTION[dir], weights: p.w });
@@ -128,6 +166,11 @@ function model(x: readonly (number | null)[], y: readonly (number | null)[], kno
     ['mae', m.stats.mae],
     ['sse', m.stats.sse],
     ['levels', m.levels],
+    // No sample holds text in its data ranges (text_rows 0); sigma, df_resid and spearman are
+    // written out here from their definitions (README, "STATS rows for uncertainty"), not taken
+    // from the worksheet code.
+    ['text_rows', 0],
+    ...spreadRows(p, m),
   ];
   return { m, fitted, stats, knotTable: table(m.knotX, m.knotY) as ExpectedCell[][] };
 }
