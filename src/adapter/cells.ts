@@ -25,7 +25,9 @@
  */
 import { fail } from '../core/index.js';
 import type { CellArg, CellValueIn } from './cell-types.js';
-import { InputCellError } from './errors.js';
+import { InputCellError, formatNumber } from './errors.js';
+
+export { formatNumber };
 import { hashFloat64, sameBits } from './hash.js';
 import { MAX_COLS, MAX_ROWS, columnLetters, columnNumber } from './a1.js';
 import { splitAddress } from './blanks.js';
@@ -114,16 +116,6 @@ export function isBlank(v: unknown): boolean {
 
 function isErrorCell(v: unknown): v is { kind: 'error'; code: string } {
   return typeof v === 'object' && v !== null && (v as { kind?: unknown }).kind === 'error';
-}
-
-/**
- * A number as messages show it: at most 6 significant digits (`27.694`, `1.5e+200`, `0.333333`).
- * O(1).
- * @example formatNumber(27.693950453842106) // → '27.694'
- */
-export function formatNumber(v: number): string {
-  if (!Number.isFinite(v)) return String(v);
-  return String(Number(v.toPrecision(6)));
 }
 
 /** Human-readable description of a cell for messages (numbers to 6 significant digits). */

@@ -52,6 +52,29 @@ export class InputCellError extends Error {
  * @example mapError(new RatchetError('BAD_KNOTS', 'knots', 'needs a whole number of knots ≥ 2; got 1'))
  *   // → { code: '#VALUE!', message: 'knots: needs a whole number of knots ≥ 2; got 1.' }
  */
+/**
+ * A number as messages show it: at most 6 significant digits (`27.694`, `1.5e+200`, `0.333333`).
+ * O(1).
+ * @example formatNumber(27.693950453842106) // → '27.694'
+ */
+export function formatNumber(v: number): string {
+  if (!Number.isFinite(v)) return String(v);
+  return String(Number(v.toPrecision(6)));
+}
+
+/**
+ * A message with every number of more than 6 significant digits rounded by {@link formatNumber}
+ * (`[27.693950453842106, 149.79140378405756]` → `[27.694, 149.791]`); text inside double quotes
+ * (a cell's own text) is left as it is. O(length).
+ * @example roundNumbersIn('target_ys: needs a value in [27.693950453842106, 149.79140378405756].') // → 'target_ys: needs a value in [27.694, 149.791].'
+ */
+export function roundNumbersIn(message: string): string {
+  return message
+    .split(/("[^"]*")/)
+    .map((part, i) => (i % 2 === 1 ? part : part.replace(/-?\d+\.\d+(?:e[-+]?\d+)?/gi, (m) => (m.replace(/[^0-9]/g, '').replace(/^0+/, '').length > 6 ? formatNumber(Number(m)) : m))))
+    .join('');
+}
+
 export function mapError(e: unknown): MappedError {
   if (e instanceof MappedCellError) return e.mapped;
   if (e instanceof InputCellError) {
@@ -61,13 +84,13 @@ export function mapError(e: unknown): MappedError {
   if (isRatchetError(e)) {
     switch (e.code) {
       case 'NOT_REACHABLE':
-        return { code: '#N/A', message: e.message };
+        return { code: '#N/A', message: roundNumbersIn(e.message) };
       case 'CANCELLED':
         return { code: '#N/A', message: 'calculation cancelled.' };
       case 'NUMERICAL':
-        return { code: '#NUM!', message: e.message };
+        return { code: '#NUM!', message: roundNumbersIn(e.message) };
       default:
-        return { code: '#VALUE!', message: e.message };
+        return { code: '#VALUE!', message: roundNumbersIn(e.message) };
     }
   }
   const text = e instanceof Error ? e.message : String(e);
