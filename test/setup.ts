@@ -8,6 +8,11 @@
  * length and reports the worst entry.
  */
 import { expect } from 'vitest';
+import fc from 'fast-check';
+
+// Property tests are reproducible: one fixed seed for every file that does not set its own
+// (FC_SEED explores other seeds locally).
+fc.configureGlobal({ seed: Number(process.env.FC_SEED ?? 20261201) });
 
 function within(a: number, e: number, rel: number, abs: number): boolean {
   if (Number.isNaN(a) || Number.isNaN(e)) return false;
