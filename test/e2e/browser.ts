@@ -7,6 +7,9 @@
  * the run so that CI never skips them silently.
  */
 import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
 
 /** The Chromium executable the browser tests drive. */
 export const BROWSER_PATH = process.env.RATCHET_BROWSER || '/usr/bin/chromium';
@@ -39,4 +42,59 @@ export const BROWSER_ARGS: readonly string[] = Object.freeze([
 /** The one line printed when the browser tests are skipped. */
 export function skipNotice(file: string = BROWSER_PATH): string {
   return `Browser tests skipped: no Chromium executable at ${file}. Install one (Debian: apt-get install chromium) or set RATCHET_BROWSER to its path to run them.`;
+}
+
+/** Options of {@link openBrowserPage}. */
+export interface BrowserPageOptions {
+  readonly viewport: { readonly width: number; readonly height: number };
+  /** Console errors, CSP reports and page errors are pushed here (default: not collected). */
+  readonly problems?: string[];
+  /** Every request URL is pushed here (default: not collected). */
+  readonly requests?: string[];
+  /** Serve this text in place of office.js (the stand-in of test/e2e/office-stub.js). */
+  readonly officeStub?: string;
+  /** Let the page download files (default false). */
+  readonly acceptDownloads?: boolean;
+}
+
+/** A headless Chromium with a fresh profile, its first page, and `close`, which removes the profile. */
+export interface BrowserPage {
+  readonly context: BrowserContext;
+  readonly page: Page;
+  close(): Promise<void>;
+}
+
+/**
+ * Starts BROWSER_PATH headless with BROWSER_ARGS and a fresh user-data-dir in a temporary folder,
+ * wired as the options say; the browser tests' one way to open a page.
+ */
+export async function openBrowserPage(options: BrowserPageOptions): Promise<BrowserPage> {
+  const userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ratchet-chromium-'));
+  const context = await chromium.launchPersistentContext(userDataDir, {
+    executablePath: BROWSER_PATH,
+    headless: true,
+    args: [...BROWSER_ARGS],
+    acceptDownloads: options.acceptDownloads ?? false,
+    viewport: { ...options.viewport },
+  });
+  const stub = options.officeStub;
+  if (stub !== undefined) await context.route('https://appsforoffice.microsoft.com/**', (route) => route.fulfill({ status: 200, contentType: 'text/javascript', body: stub }));
+  const requests = options.requests;
+  if (requests) context.on('request', (r) => requests.push(r.url()));
+  const page = context.pages()[0] ?? (await context.newPage());
+  const problems = options.problems;
+  if (problems) {
+    page.on('console', (m) => {
+      if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) problems.push(`console ${m.type()}: ${m.text()}`);
+    });
+    page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+  }
+  return {
+    context,
+    page,
+    async close() {
+      await context.close();
+      fs.rmSync(userDataDir, { recursive: true, force: true });
+    },
+  };
 }

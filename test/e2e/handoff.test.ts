@@ -14,11 +14,10 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import ExcelJS from 'exceljs';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { BROWSER_ARGS, BROWSER_PATH, RUN_BROWSER_TESTS } from './browser.js';
+import type { Page } from 'playwright-core';
+import { RUN_BROWSER_TESTS, openBrowserPage, type BrowserPage } from './browser.js';
 import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
 import { functionByName } from '../../src/functions/registry.js';
 import type { CellArg, CellOut } from '../../src/functions/types.js';
@@ -53,28 +52,21 @@ let server: PreviewServer | undefined;
 const col = (v: readonly number[]): number[][] => v.map((q) => [q]);
 
 describe.skipIf(!RUN_BROWSER_TESTS)('pane: real data in (browser preview)', () => {
-  let context: BrowserContext;
   let page: Page;
-  let userDataDir: string | undefined;
+  let browser: BrowserPage | undefined;
   const problems: string[] = [];
 
   beforeAll(async () => {
     dir = await buildPreview(undefined, true, ['preview', 'taskpane']);
     server = await startPreviewServer(dir, 0);
-    userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ratchet-chromium-'));
-    context = await chromium.launchPersistentContext(userDataDir, { executablePath: BROWSER_PATH, headless: true, args: [...BROWSER_ARGS], viewport: { width: 900, height: 1400 } });
-    page = context.pages()[0] ?? (await context.newPage());
-    page.on('console', (m) => {
-      if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) problems.push(`console ${m.type()}: ${m.text()}`);
-    });
-    page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+    browser = await openBrowserPage({ viewport: { width: 900, height: 1400 }, problems });
+    ({ page } = browser);
     await page.goto(server.url);
     await page.waitForFunction(() => (document.getElementById('sample') as HTMLSelectElement | null)?.options.length === 5);
   }, 90_000);
 
   afterAll(async () => {
-    await context?.close();
-    if (userDataDir) fs.rmSync(userDataDir, { recursive: true, force: true });
+    await browser?.close();
   });
 
   it('a semicolon CSV with decimal commas opens with a full chart (every row a point, the curve RATCHET.KNOTS), and says how it was read', async () => {
@@ -192,9 +184,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: real data in (browser preview)', () =
 
 /** Excel mode with office.js replaced by the stand-in (test/e2e/office-stub.js). */
 describe.skipIf(!RUN_BROWSER_TESTS)('pane: hand-off actions in Excel mode (office.js stand-in)', () => {
-  let context: BrowserContext;
   let page: Page;
-  let userDataDir: string | undefined;
+  let browser: BrowserPage | undefined;
   const problems: string[] = [];
   const stub = fs.readFileSync(path.join(import.meta.dirname, 'office-stub.js'), 'utf8');
   const x = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12];
@@ -202,14 +193,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: hand-off actions in Excel mode (offic
 
   beforeAll(async () => {
     if (!server) throw new Error('the preview build did not run');
-    userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ratchet-chromium-'));
-    context = await chromium.launchPersistentContext(userDataDir, { executablePath: BROWSER_PATH, headless: true, args: [...BROWSER_ARGS], viewport: { width: 700, height: 1600 } });
-    await context.route('https://appsforoffice.microsoft.com/**', (route) => route.fulfill({ status: 200, contentType: 'text/javascript', body: stub }));
-    page = context.pages()[0] ?? (await context.newPage());
-    page.on('console', (m) => {
-      if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) problems.push(`console ${m.type()}: ${m.text()}`);
-    });
-    page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+    browser = await openBrowserPage({ viewport: { width: 700, height: 1600 }, officeStub: stub, problems });
+    ({ page } = browser);
     await page.goto(`${server.url}taskpane.html?_host_Info=Excel$Win32$16.01$en-US$$$$0`);
     await page.waitForFunction(() => document.getElementById('host')?.textContent?.startsWith('Running in Excel'));
     await page.evaluate(
@@ -228,9 +213,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: hand-off actions in Excel mode (offic
   }, 60_000);
 
   afterAll(async () => {
-    await context?.close();
+    await browser?.close();
     await server?.close();
-    if (userDataDir) fs.rmSync(userDataDir, { recursive: true, force: true });
     if (dir) fs.rmSync(dir, { recursive: true, force: true });
   });
 

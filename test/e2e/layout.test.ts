@@ -16,10 +16,9 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { BROWSER_ARGS, BROWSER_PATH, RUN_BROWSER_TESTS } from './browser.js';
+import type { Page } from 'playwright-core';
+import { RUN_BROWSER_TESTS, openBrowserPage, type BrowserPage } from './browser.js';
 import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
 import type { Snapshot } from '../../taskpane/app.js';
 
@@ -92,25 +91,22 @@ async function unlabelled(page: Page): Promise<string[]> {
 describe.skipIf(!RUN_BROWSER_TESTS)('the pane at 350 and 1280 px, light and dark (playwright-core + Debian chromium)', () => {
   let dir: string | undefined;
   let server: PreviewServer | undefined;
-  let context: BrowserContext;
   let page: Page;
-  let userDataDir: string | undefined;
+  let browser: BrowserPage | undefined;
 
   beforeAll(async () => {
     dir = await buildPreview(undefined, true, ['preview', 'taskpane']);
     server = await startPreviewServer(dir, 0);
-    userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ratchet-chromium-'));
-    context = await chromium.launchPersistentContext(userDataDir, { executablePath: BROWSER_PATH, headless: true, args: [...BROWSER_ARGS], viewport: { width: 350, height: 900 } });
-    page = context.pages()[0] ?? (await context.newPage());
+    browser = await openBrowserPage({ viewport: { width: 350, height: 900 } });
+    ({ page } = browser);
     await page.goto(server.url);
     await page.waitForFunction(() => (document.getElementById('sample') as HTMLSelectElement | null)?.options.length === 5);
     fs.mkdirSync(resultsDir, { recursive: true });
   }, 90_000);
 
   afterAll(async () => {
-    await context?.close();
+    await browser?.close();
     await server?.close();
-    if (userDataDir) fs.rmSync(userDataDir, { recursive: true, force: true });
     if (dir) fs.rmSync(dir, { recursive: true, force: true });
   });
 

@@ -11,11 +11,10 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import ExcelJS from 'exceljs';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { BROWSER_ARGS, BROWSER_PATH, RUN_BROWSER_TESTS } from './browser.js';
+import type { Page } from 'playwright-core';
+import { RUN_BROWSER_TESTS, openBrowserPage, type BrowserPage } from './browser.js';
 import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
 import { functionByName } from '../../src/functions/registry.js';
 import { parseCsv } from '../../taskpane/csv.js';
@@ -72,37 +71,22 @@ let dir: string | undefined;
 let server: PreviewServer | undefined;
 
 describe.skipIf(!RUN_BROWSER_TESTS)('browser preview (playwright-core + Debian chromium)', () => {
-  let context: BrowserContext;
   let page: Page;
-  let userDataDir: string | undefined;
+  let browser: BrowserPage | undefined;
   const requests: string[] = [];
   const problems: string[] = [];
 
   beforeAll(async () => {
     dir = await buildPreview(undefined, true, ['preview', 'taskpane']);
     server = await startPreviewServer(dir, 0);
-    userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ratchet-chromium-'));
-    // A fresh profile in a temporary folder (playwright passes it as --user-data-dir).
-    context = await chromium.launchPersistentContext(userDataDir, {
-      executablePath: BROWSER_PATH,
-      headless: true,
-      args: [...BROWSER_ARGS],
-      acceptDownloads: true,
-      viewport: { width: 900, height: 1400 },
-    });
-    context.on('request', (r) => requests.push(r.url()));
-    page = context.pages()[0] ?? (await context.newPage());
-    page.on('console', (m) => {
-      if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) problems.push(`console ${m.type()}: ${m.text()}`);
-    });
-    page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+    browser = await openBrowserPage({ viewport: { width: 900, height: 1400 }, acceptDownloads: true, problems, requests });
+    ({ page } = browser);
     await page.goto(server.url);
     await page.waitForFunction(() => (document.getElementById('sample') as HTMLSelectElement | null)?.options.length === 5);
   }, 90_000);
 
   afterAll(async () => {
-    await context?.close();
-    if (userDataDir) fs.rmSync(userDataDir, { recursive: true, force: true });
+    await browser?.close();
   });
 
   it('opens a sample: the chart holds every usable row as a point and the KNOTS table as curve vertices', async () => {
@@ -347,9 +331,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('browser preview (playwright-core + Debian c
 
 /** The Excel side of the pane in a real browser, with office.js replaced by test/e2e/office-stub.js. */
 describe.skipIf(!RUN_BROWSER_TESTS)('task pane in Excel mode (office.js stand-in)', () => {
-  let context: BrowserContext;
   let page: Page;
-  let userDataDir: string | undefined;
+  let browser: BrowserPage | undefined;
   const requests: string[] = [];
   const problems: string[] = [];
   const stub = fs.readFileSync(path.join(import.meta.dirname, 'office-stub.js'), 'utf8');
@@ -359,20 +342,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('task pane in Excel mode (office.js stand-in
 
   beforeAll(async () => {
     if (!server) throw new Error('the preview build did not run');
-    userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ratchet-chromium-'));
-    context = await chromium.launchPersistentContext(userDataDir, {
-      executablePath: BROWSER_PATH,
-      headless: true,
-      args: [...BROWSER_ARGS],
-      viewport: { width: 700, height: 1600 },
-    });
-    await context.route('https://appsforoffice.microsoft.com/**', (route) => route.fulfill({ status: 200, contentType: 'text/javascript', body: stub }));
-    context.on('request', (r) => requests.push(r.url()));
-    page = context.pages()[0] ?? (await context.newPage());
-    page.on('console', (m) => {
-      if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) problems.push(`console ${m.type()}: ${m.text()}`);
-    });
-    page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+    browser = await openBrowserPage({ viewport: { width: 700, height: 1600 }, officeStub: stub, problems, requests });
+    ({ page } = browser);
     await page.goto(`${server.url}taskpane.html?_host_Info=Excel$Win32$16.01$en-US$$$$0`);
     await page.waitForFunction(() => document.getElementById('host')?.textContent?.startsWith('Running in Excel'));
     await page.evaluate(
@@ -393,9 +364,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('task pane in Excel mode (office.js stand-in
   }, 60_000);
 
   afterAll(async () => {
-    await context?.close();
+    await browser?.close();
     await server?.close();
-    if (userDataDir) fs.rmSync(userDataDir, { recursive: true, force: true });
     if (dir) fs.rmSync(dir, { recursive: true, force: true });
   });
 
