@@ -17,6 +17,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
+import { dataSets, real, type Data } from './arbitraries.js';
 import { fitMonotone, interpolate, invertAt, knotRegression, predict } from '../../src/core/index.js';
 import { evenKnots } from '../../src/core/knots.js';
 import { isotonicRegression } from '../../src/core/isotonic.js';
@@ -31,39 +32,7 @@ fc.configureGlobal({ seed: Number(process.env.FC_SEED ?? 20240601), numRuns: Num
 
 const KKT_REL = 1e-9;
 
-interface Data {
-  x: number[];
-  y: number[];
-  w: number[] | undefined;
-}
-
-/**
- * Doubles in [min, max] whose squares stay normal (|v| < 1e-150 becomes 0): real data never hold
- * 1e-200 next to 1, and products of such values would underflow to 0 or to subnormals.
- */
-function real(min: number, max: number): fc.Arbitrary<number> {
-  return fc.double({ min, max, noNaN: true, noDefaultInfinity: true }).map((v) => (Math.abs(v) < 1e-150 ? 0 : v));
-}
-
-/** x with many ties (small integers) or spread out (doubles), y with flat stretches or noise, optional weights with zeros. */
-const dataArb: fc.Arbitrary<Data> = fc
-  .integer({ min: 2, max: 40 })
-  .chain((n) =>
-    fc.record({
-      x: fc.oneof(
-        fc.array(fc.integer({ min: 0, max: 8 }), { minLength: n, maxLength: n }),
-        fc.array(real(-50, 50), { minLength: n, maxLength: n }),
-      ),
-      y: fc.oneof(
-        fc.array(fc.integer({ min: -5, max: 5 }), { minLength: n, maxLength: n }),
-        fc.array(real(-1e3, 1e3), { minLength: n, maxLength: n }),
-      ),
-      w: fc.option(
-        fc.array(fc.oneof(fc.constant(0), fc.double({ min: 0.01, max: 10, noNaN: true })), { minLength: n, maxLength: n }),
-        { nil: undefined },
-      ),
-    }),
-  )
+const dataArb: fc.Arbitrary<Data> = dataSets(2, 8)
   .filter((d) => {
     // At least two distinct x with positive weight, spread wider than a few ulps (a range that
     // cannot hold K distinct knots is a typed error, tested in bad-input.test.ts).

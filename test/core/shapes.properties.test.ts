@@ -9,6 +9,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
+import { dataSets, real, type Data } from './arbitraries.js';
 import { crossValidate, fitMonotone, predict, type Curvature, type Degree, type MonotoneModel } from '../../src/core/index.js';
 import { evaluateTable, invertTable } from '../../src/core/smooth-table.js';
 import { nullSpaceBasis, rowDot } from '../../src/core/shape-qp.js';
@@ -17,37 +18,7 @@ import { type Direction } from '../../src/core/types.js';
 
 fc.configureGlobal({ seed: Number(process.env.FC_SEED ?? 20261201), numRuns: Number(process.env.FC_RUNS ?? 200) });
 
-interface Data {
-  x: number[];
-  y: number[];
-  w: number[] | undefined;
-}
-
-/**
- * Doubles in [min, max] whose squares stay normal (|v| < 1e-150 becomes 0): real data never hold
- * 1e-200 next to 1, and products of such values would underflow to 0 or to subnormals.
- */
-function real(min: number, max: number): fc.Arbitrary<number> {
-  return fc.double({ min, max, noNaN: true, noDefaultInfinity: true }).map((v) => (Math.abs(v) < 1e-150 ? 0 : v));
-}
-
-const dataArb: fc.Arbitrary<Data> = fc
-  .integer({ min: 3, max: 40 })
-  .chain((n) =>
-    fc.record({
-      x: fc.oneof(
-        fc.array(fc.integer({ min: 0, max: 10 }), { minLength: n, maxLength: n }),
-        fc.array(real(-50, 50), { minLength: n, maxLength: n }),
-      ),
-      y: fc.oneof(
-        fc.array(fc.integer({ min: -5, max: 5 }), { minLength: n, maxLength: n }),
-        fc.array(real(-1e3, 1e3), { minLength: n, maxLength: n }),
-      ),
-      w: fc.option(fc.array(fc.oneof(fc.constant(0), fc.double({ min: 0.01, max: 10, noNaN: true })), { minLength: n, maxLength: n }), {
-        nil: undefined,
-      }),
-    }),
-  )
+const dataArb: fc.Arbitrary<Data> = dataSets(3, 10)
   .filter((d) => {
     const xs = d.x.filter((_, i) => d.w === undefined || d.w[i]! > 0);
     const lo = Math.min(...xs);
