@@ -33,7 +33,7 @@ import { mapError, type CellErrorCode } from '../adapter/errors.js';
 import { MAX_MAGNITUDE, MIN_MAGNITUDE, nonBlank, type Vector } from '../adapter/cells.js';
 import type { CellArg, CellErrorOut, CellOut, InvokeContext } from './types.js';
 import { defineFunction, pairData, positionsOf, type Args } from './define.js';
-import { cachedBand, cachedCrossValidation, cachedFit, type FitEntry, type Shape } from './engine.js';
+import { cachedBand, cachedCrossValidation, cachedFit, memo, type FitEntry, type Shape } from './engine.js';
 import { PARAMS as P } from './params.js';
 
 /** Parameters of the fitting functions after their leading ones: knots, direction, weights, curvature, degree. */
@@ -356,8 +356,11 @@ export const STATS = defineFunction({
   params: FIT_PARAMS,
   returnsArray: true,
   run(a) {
-    const { entry } = fitOf(a);
-    const rho = rankCorrelation(a.rows(['known_ys', 'known_xs'], 'weights'));
+    const data = a.rows(['known_ys', 'known_xs'], 'weights');
+    const entry = cachedFit(data, a.knots('knots'), a.choice<DirectionOption>('direction'), shapeOf(a));
+    // ρ depends on the data only (O(n log n): two rankings); cached like the fit.
+    const parts = [...data.columns.map((c) => c.vector), data.weights?.vector];
+    const rho = memo('spearman', parts, () => ({ value: rankCorrelation(data), bytes: 8 }));
     return STATS_ROWS.map(([label, value]) => [label, value(entry, rho)]);
   },
 });
