@@ -158,7 +158,8 @@ function readBackValue(v: CellOut | undefined): ReadBackValue {
  * `replicates` readings) for the knot model; for the classic fit (knots 0), which has no
  * interval, the x of RATCHET.INVERT on its knot table (tie rule "middle", the default).
  * Cost: one function call (the band model is cached).
- * @param target the target y as typed (a number or its text: the function checks it).
+ * @param target the target y: a number, or text as typed (text that reads as a number is that
+ *   number; other text is refused by the function, naming target_ys).
  * @param knotTable the fit's knot table (RATCHET.KNOTS), used for the classic fit.
  * @throws CellFailure with the function's code and message for a bad target, level or replicates,
  *   or data the band cannot be computed for.
@@ -166,6 +167,8 @@ function readBackValue(v: CellOut | undefined): ReadBackValue {
  * // → 2.4559220474129395
  */
 export function readBack(data: DataColumns, fit: FitSettings, knotTable: readonly (readonly [number, number])[], target: CellValueIn, level: string | number, replicates: string | number): ReadBack {
+  // A typed number is a number cell; other text stays text, which the function refuses by name.
+  if (typeof target === 'string' && target.trim() !== '' && Number.isFinite(Number(target))) target = Number(target);
   if (fit.knots === 0) {
     const out = run('INVERT', [[[target]], knotTable.map(([a, b]) => [a, b])]);
     const v = Array.isArray(out) ? out[0]![0] : out;

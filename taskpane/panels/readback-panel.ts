@@ -5,7 +5,7 @@
  * band does not reach inside the data's x range, and a target outside the curve's range, are said
  * in words.
  */
-import type { FitView } from '../analysis.js';
+import { CellFailure, type FitView } from '../analysis.js';
 import type { FitSettings } from '../formulas.js';
 import { argumentOf, percent, readBack, type ReadBack, type ReadBackValue, type UsedRows } from '../uncertainty.js';
 import { el, errorText, fieldMessage, fmt } from './dom.js';
@@ -23,6 +23,12 @@ export interface ReadBackShown {
 }
 
 const isNumber = (v: ReadBackValue | undefined): v is number => typeof v === 'number';
+
+/** The sentence for a target outside the curve's range (the knot table's smallest to largest value). */
+function outsideText(target: number, view: FitView): string {
+  const ys = view.knots.map(([, y]) => y);
+  return `Target ${fmt(target)} is outside the curve’s range, from ${fmt(Math.min(...ys))} to ${fmt(Math.max(...ys))}: no x on the curve gives it.`;
+}
 
 /** The read-back section. */
 export class ReadbackPanel {
@@ -57,7 +63,10 @@ export class ReadbackPanel {
       } catch (e) {
         const arg = argumentOf(e);
         error = true;
-        if (arg === 'target_ys') {
+        if (e instanceof CellFailure && e.code === '#N/A') {
+          // RATCHET.INVERT refuses a target outside the curve's range for the whole call.
+          status = outsideText(Number(target), view);
+        } else if (arg === 'target_ys') {
           fieldMessage('readback-target', errorText(e));
           status = 'The target needs to be a number.';
         } else if (arg === 'replicates') {
@@ -83,10 +92,7 @@ export class ReadbackPanel {
 
   private describe(r: ReadBack, view: FitView, level: string, replicates: string, rows: UsedRows | undefined): string {
     const t = fmt(r.target);
-    if (!isNumber(r.x)) {
-      const ys = view.knots.map(([, y]) => y);
-      return `Target ${t} is outside the curve’s range, from ${fmt(Math.min(...ys))} to ${fmt(Math.max(...ys))}: no x on the curve gives it.`;
-    }
+    if (!isNumber(r.x)) return outsideText(r.target, view);
     if (r.source === 'INVERT') {
       return `The curve reaches ${t} at x = ${fmt(r.x)} (RATCHET.INVERT). No interval for the classic fit (knot count 0): set 2 or more knots (README “Cautions for bands”).`;
     }
