@@ -64,8 +64,9 @@ export interface Snapshot {
   /** The band shaded on the fit chart (null when none), and why none is drawn ('' when one is). */
   readonly band: { label: string; level: number; kind: 1 | 2; upper: { x: number; y: number }[]; lower: { x: number; y: number }[] } | null;
   readonly bandNote: string;
-  /** The residual plot's points (x, y − fitted). */
+  /** The residual plot's points (x, y − fitted) and its zero line. */
   readonly residuals: { x: number; y: number }[];
+  readonly residualZero: { x: number; y: number }[];
   /** The read-back box. */
   readonly readback: ReadBackShown;
   /** The direction warning shown (null when none). */
@@ -378,13 +379,14 @@ export class App {
     });
   }
 
-  private uncertaintySnapshot(): Pick<Snapshot, 'band' | 'bandNote' | 'residuals' | 'readback' | 'directionWarning'> {
+  private uncertaintySnapshot(): Pick<Snapshot, 'band' | 'bandNote' | 'residuals' | 'residualZero' | 'readback' | 'directionWarning'> {
     const b = this.band.snapshot();
     const w = this.direction.warning;
     return {
       band: b.band,
       bandNote: b.note,
       residuals: b.residuals,
+      residualZero: b.zero,
       readback: this.readback.shown(),
       directionWarning: w ? { text: el<HTMLElement>('direction-warning-text').textContent ?? '', suggested: w.suggested, spearman: w.spearman, n: w.n } : null,
     };

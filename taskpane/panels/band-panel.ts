@@ -102,9 +102,14 @@ export class BandPanel {
   }
 
   /** What the tests read: the band as drawn, the note, the residual points. */
-  snapshot(): { band: { label: string; level: number; kind: 1 | 2; upper: { x: number; y: number }[]; lower: { x: number; y: number }[] } | null; note: string; residuals: { x: number; y: number }[] } {
+  snapshot(): {
+    band: { label: string; level: number; kind: 1 | 2; upper: { x: number; y: number }[]; lower: { x: number; y: number }[] } | null;
+    note: string;
+    residuals: { x: number; y: number }[];
+    zero: { x: number; y: number }[];
+  } {
     const drawn = bandDrawn(this.fitChart.chart);
-    const pts = this.residualChart.chart.data.datasets[0]!.data.map((p) => ({ x: p.x, y: p.y }));
-    return { band: drawn && this.band ? { ...drawn, level: this.band.level, kind: this.band.kind } : null, note: this.note, residuals: pts };
+    const [res, zero] = this.residualChart.chart.data.datasets.map((d) => d.data.map((p) => ({ x: p.x, y: p.y })));
+    return { band: drawn && this.band ? { ...drawn, level: this.band.level, kind: this.band.kind } : null, note: this.note, residuals: res ?? [], zero: zero ?? [] };
   }
 }
