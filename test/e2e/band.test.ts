@@ -347,6 +347,20 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: inserting BAND and INVERTBAND in Exce
     await setValue(page, '#addr-targets', '');
   });
 
+  for (const scheme of ['light', 'dark'] as const) {
+    it(`at 350 × 900, ${scheme}, in Excel mode: the insert section with BAND, INVERTBAND and target_ys fits without clipping`, async () => {
+      await page.setViewportSize({ width: 350, height: 900 });
+      await page.emulateMedia({ colorScheme: scheme });
+      await page.waitForTimeout(150);
+      expect(await page.isVisible('[data-insert="INVERTBAND"]')).toBe(true);
+      expect(await layoutProblems(page)).toEqual([]);
+      expect(await unlabelled(page)).toEqual([]);
+      fs.mkdirSync(resultsDir, { recursive: true });
+      await page.screenshot({ path: path.join(resultsDir, `band-office-350-${scheme}.png`), fullPage: true });
+      await page.setViewportSize({ width: 700, height: 1600 });
+    });
+  }
+
   it('refuses a BAND result over the data it reads, and explains why the classic fit has no BAND to insert', async () => {
     await page.fill('#target', 'Trials!B5');
     await page.click('[data-insert="BAND"]');
