@@ -31,15 +31,19 @@ export class BandPanel {
     this.residualChart = new ResidualChart(el<HTMLCanvasElement>('residual-chart'));
   }
 
-  /** Reads the band controls: the level as typed (RATCHET.BAND checks it) and the kind. */
+  /**
+   * Reads the band controls: the level as typed (RATCHET.BAND checks it; an empty field is the
+   * functions' default 0.95) and the kind.
+   */
   controls(): BandControls & { level: string } {
-    return { level: el<HTMLInputElement>('band-level').value.trim(), kind: el<HTMLSelectElement>('band-kind').value === '2' ? 2 : 1 };
+    const level = el<HTMLInputElement>('band-level').value.trim();
+    return { level: level === '' ? '0.95' : level, kind: el<HTMLSelectElement>('band-kind').value === '2' ? 2 : 1 };
   }
 
   /** The level as a number when the field holds one strictly between 0 and 1, else undefined. */
   level(): number | undefined {
     const v = Number(this.controls().level);
-    return this.controls().level !== '' && v > 0 && v < 1 ? v : undefined;
+    return v > 0 && v < 1 ? v : undefined;
   }
 
   /**
