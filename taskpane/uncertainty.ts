@@ -8,7 +8,7 @@
  */
 import { checkDirection, type DirectionWarning } from '../src/core/index.js';
 import type { CellArg, CellOut, CellValueIn } from '../src/functions/types.js';
-import { CellFailure, columnArg, fitArgs, run, type DataColumns } from './analysis.js';
+import { CellFailure, columnArg, fitArgs, run, type DataColumns, type FitView } from './analysis.js';
 import type { FitSettings } from './formulas.js';
 
 /** The band controls: level (as typed: the function checks it) and kind (1 confidence, 2 prediction). */
@@ -221,4 +221,18 @@ export function residualSummary(points: readonly { x: number; y: number }[], f: 
     if (p.y > hi) hi = p.y;
   }
   return `Residual plot: ${points.length} residual${points.length === 1 ? '' : 's'} (y − fitted) against x, from ${f(lo)} to ${f(hi)}; dashed zero line.`;
+}
+
+/**
+ * The caution shown under a band when the fit joined knots into flat stretches (STATS `levels`
+ * below `knots`): the band treats them as known, so it is optimistic near them (README "Cautions
+ * for bands"); '' otherwise. O(rows of STATS).
+ * @example flatHint({ stats: [['knots', 5], ['levels', 3]] }) // → 'The curve has flat stretches (5 knots at 3 distinct values): the band treats them as known and is optimistic near them (README “Cautions for bands”).'
+ */
+export function flatHint(view: Pick<FitView, 'stats'>): string {
+  const stat = (name: string): unknown => view.stats.find(([k]) => k === name)?.[1];
+  const levels = stat('levels');
+  const knots = stat('knots');
+  if (typeof levels !== 'number' || typeof knots !== 'number' || levels >= knots) return '';
+  return `The curve has flat stretches (${knots} knots at ${levels} distinct value${levels === 1 ? '' : 's'}): the band treats them as known and is optimistic near them (README “Cautions for bands”).`;
 }

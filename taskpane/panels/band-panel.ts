@@ -8,7 +8,7 @@ import type { FitView } from '../analysis.js';
 import type { FitChart } from '../charts.js';
 import type { FitSettings } from '../formulas.js';
 import { addBandLayer, bandDrawn, ResidualChart, showBand, themeBand } from '../band-charts.js';
-import { argumentOf, bandGrid, bandSentence, computeBand, residuals, residualSummary, usedRows, type BandControls, type BandView, type UsedRows } from '../uncertainty.js';
+import { argumentOf, bandGrid, flatHint, bandSentence, computeBand, residuals, residualSummary, usedRows, type BandControls, type BandView, type UsedRows } from '../uncertainty.js';
 import { el, errorText, fieldMessage, fmt } from './dom.js';
 import type { Selection } from './selection.js';
 
@@ -20,7 +20,7 @@ export const CLASSIC_NO_BAND =
 export class BandPanel {
   /** The band drawn now (undefined when none). */
   band: BandView | undefined;
-  /** Why no band is drawn ('' when one is). */
+  /** Why no band is drawn, or the flat-stretch caution under a band drawn ('' when neither). */
   note = '';
   /** The rows of the fit drawn now, with fitted values (undefined without a fit). */
   rows: UsedRows | undefined;
@@ -72,7 +72,7 @@ export class BandPanel {
       } else if (this.rows) {
         try {
           this.band = computeBand(sel.data, fit, this.controls(), bandGrid(this.rows.x, view.knots.map(([x]) => x)));
-          this.note = '';
+          this.note = flatHint(view);
         } catch (e) {
           if (argumentOf(e) === 'level') {
             fieldMessage('band-level', errorText(e));

@@ -100,7 +100,12 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: band, residuals, read-back and direct
     // the knots are on the grid, where the band's edges have corners
     for (const k of s.knots) expect(xs).toContain(k.x);
     expect(await page.getAttribute('#fit-chart', 'aria-label')).toMatch(/^Fit chart: 24 points, 5 knots, rising, r2 [0-9.]+\. 95 % confidence band for the curve shaded\.$/);
-    expect(s.bandNote).toBe('');
+    // the caution under the band when the fit joined knots into flat stretches (STATS levels < knots)
+    const stats = invoke('STATS', [col(hardness), col(hours), 5, 1]);
+    const levels = stats.find((r) => r[0] === 'levels')![1] as number;
+    expect(s.bandNote).toBe(
+      levels < 5 ? `The curve has flat stretches (5 knots at ${levels} distinct value${levels === 1 ? '' : 's'}): the band treats them as known and is optimistic near them (README “Cautions for bands”).` : '',
+    );
     expect(s.formulas.BAND).toBe('=RATCHET.BAND(cure!$A$2:$A$25,cure!$B$2:$B$25,cure!$A$2:$A$25,5,1,,0.95,1)');
   });
 
@@ -231,6 +236,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: band, residuals, read-back and direct
     });
     expectClose([s.directionWarning!.spearman], [rho]);
     expect(await page.textContent('#direction-switch')).toBe('Switch to falling and refit');
+    // fitted rising, the falling data give one flat level: the band's caution says so
+    expect(s.bandNote).toBe('The curve has flat stretches (5 knots at 1 distinct value): the band treats them as known and is optimistic near them (README “Cautions for bands”).');
     await page.click('#direction-switch');
     s = await snap(page);
     expect(await page.inputValue('#direction')).toBe('-1');

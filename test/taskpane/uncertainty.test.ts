@@ -17,6 +17,7 @@ import {
   bandGrid,
   bandSentence,
   computeBand,
+  flatHint,
   directionCheck,
   percent,
   readBack,
@@ -268,6 +269,18 @@ describe('BAND and INVERTBAND formulas', () => {
     expect([row.length, row[0]!.length]).toEqual([3, 3]);
     const one = functionByName('INVERTBAND')!.invoke([[[15]], hardness.map((v) => [v]), hours.map((v) => [v]), 2, 1, undefined, 0.8, 4] as CellArg[]) as unknown[][];
     expect([one.length, one[0]!.length]).toEqual([1, 3]);
+  });
+});
+
+describe('the flat-stretch caution under a band', () => {
+  it('appears when the fit joined knots (STATS levels < knots), and not for a strictly rising fit', () => {
+    const x = [1, 2, 3, 4, 5, 6, 7, 8];
+    const falling = { x, y: [9, 8, 8, 6, 5, 4, 2, 1] };
+    expect(flatHint(computeFit(falling, { knots: 4, direction: 1 }))).toBe(
+      'The curve has flat stretches (4 knots at 1 distinct value): the band treats them as known and is optimistic near them (README “Cautions for bands”).',
+    );
+    expect(flatHint(computeFit({ x, y: x.map((v) => 2 * v + 1) }, { knots: 4, direction: 1 }))).toBe('');
+    expect(flatHint({ stats: [['knots', 5], ['levels', 3]] })).toMatch(/^The curve has flat stretches \(5 knots at 3 distinct values\)/);
   });
 });
 
