@@ -82,7 +82,7 @@ export interface CurveDrawing {
  * @param perInterval samples per interval for a smooth table; default samplesPerInterval(K − 1).
  * @returns rows, smoothness, the line and the knot markers.
  * @throws what RATCHET.EVAL throws for a malformed table (a RatchetError naming knot_table).
- * @example curveDrawing([[0, 0, 2], [1, 0.75, 2], [2, 1, 2]], 2).curve
+ * @example curveDrawing([[0, 0, 2], [1, 0.75, 2], [2, 1, 2]], 4).curve
  * // → [{ x: 0, y: 0 }, { x: 0.5, y: 0.4375 }, { x: 1, y: 0.75 }, { x: 1.5, y: 0.9375 }, { x: 2, y: 1 }]
  */
 export function curveDrawing(table: readonly (readonly CellOut[])[], perInterval?: number): CurveDrawing {
