@@ -80,7 +80,7 @@ function uniforms(seed: number): () => number {
 }
 
 /** Standard normal numbers by the Box–Muller transform of {@link uniforms}. */
-export function normals(seed: number): () => number {
+function normals(seed: number): () => number {
   const u = uniforms(seed);
   return () => {
     const a = 1 - u();
@@ -90,7 +90,7 @@ export function normals(seed: number): () => number {
 }
 
 /** Rounds to `d` decimals (data are written as a person would record them). */
-export function round(v: number, d: number): number {
+function round(v: number, d: number): number {
   const f = 10 ** d;
   return Math.round(v * f) / f;
 }

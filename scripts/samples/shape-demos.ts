@@ -13,8 +13,17 @@ import ExcelJS from 'exceljs';
 import { EvaluatedWorkbook, type JsonCell } from '../../src/runner/workbook.js';
 import { curveDrawing, type CurvePoint } from '../../src/view/curve-points.js';
 import { formatNumber } from '../../src/view/number-format.js';
+import { SplitMix64, normalDeviates } from '../../src/core/index.js';
 import { fitSvg } from './demo.js';
-import { normals, round } from './samples.js';
+
+/** Standard normal numbers from a fixed seed (the project's one sampler, src/core/prng.ts). */
+const normals = (seed: number): (() => number) => normalDeviates(SplitMix64.fromSeed(seed));
+
+/** Rounds to `d` decimals (data are written as a person would record them). */
+function round(v: number, d: number): number {
+  const f = 10 ** d;
+  return Math.round(v * f) / f;
+}
 
 /** One invented scenario for a shape. */
 export interface ShapeScenario {
