@@ -167,7 +167,8 @@ function shapeFieldOf(e: unknown): (typeof SHAPE_FIELDS)[number] | undefined {
  * (when it is not the plain one) and r2 (r2 to the digits shown). A smooth fit counts its knots,
  * not the midpoint rows of its table.
  * @example fitSummary(view) // → "Fit chart: 28 points, 5 knots, rising, r2 0.9312."
- * @example fitSummary(concaveSmoothView) // → "Fit chart: 28 points, 5 knots, rising, concave, smooth, r2 0.9287."
+ * @example fitSummary(computeFit({ x: [1, 2, 3, 4, 5, 6], y: [10, 14, 12, 17, 16, 21] }, { knots: 3, direction: 1, curvature: -1, degree: 2 }), false, { curvature: -1, degree: 2 })
+ * // → "Fit chart: 6 points, 3 knots, rising, concave, smooth, r2 0.8188." (README example data)
  */
 export function fitSummary(view: FitView, stale = false, shape: Pick<FitSettings, 'curvature' | 'degree'> = {}): string {
   const stat = (name: string): unknown => view.stats.find(([k]) => k === name)?.[1];
