@@ -18,6 +18,7 @@ import { curveDrawing, denseXs, samplesPerInterval, MAX_CURVE_POINTS, SAMPLES_PE
 import { functionByName } from '../../src/functions/registry.js';
 import { crossValidate, evaluateTable, fitMonotone } from '../../src/core/index.js';
 import { shapeWords } from '../../taskpane/panels/cv-panel.js';
+import { fitSummary } from '../../taskpane/panels/fit-panel.js';
 import '../runner/helpers.js';
 
 const R = JSON.parse(readFileSync(new URL('../reference/fixtures/shapes_r.json', import.meta.url), 'utf8')) as {
@@ -105,6 +106,13 @@ describe('the pane’s fit and cross-validation for a shape equal the core with 
     expect(err({ knots: 0, direction: 1, curvature: 1 }).message).toBe('curvature: needs knots (K ≥ 2): the classic fit has no curvature option; got 1.');
     expect(err({ knots: 0, direction: 1, degree: 2 }).message).toBe('degree: needs knots (K ≥ 2): the classic fit has no smooth option; got 2.');
     expect(err({ knots: 0, direction: 1, degree: 2 }).code).toBe('#VALUE!');
+  });
+  it('the chart summary names the shape and counts the knots of a smooth fit, not its midpoint rows (documented example)', () => {
+    const shape = { curvature: -1, degree: 2 } as const;
+    const view = computeFit({ x: [1, 2, 3, 4, 5, 6], y: [10, 14, 12, 17, 16, 21] }, { knots: 3, direction: 1, ...shape });
+    expect(view.knots).toHaveLength(5);
+    expect(fitSummary(view, false, shape)).toBe('Fit chart: 6 points, 3 knots, rising, concave, smooth, r2 0.8188.');
+    expect(fitSummary(computeFit({ x: X, y: Y }, { knots: 4, direction: 1 }))).toMatch(/^Fit chart: 12 points, 4 knots, rising, r2 /);
   });
   it('words the shape in the cross-validation summary', () => {
     expect(shapeWords({})).toBe('');
