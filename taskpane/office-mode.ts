@@ -11,7 +11,7 @@ import type { CellValueIn } from '../src/functions/types.js';
 import { absoluteRef, areaSize, intersects, parseAddress, tableColumnRef, type Area } from './refs.js';
 import { insertFormula, type Confirm } from './insert.js';
 import { spillSize, type FormulaKind } from './formulas.js';
-import { candidateCount } from './analysis.js';
+import { candidateCount, knotTableRows } from './analysis.js';
 import { gridSpill } from './surface-view.js';
 import { textCellsOf } from './panels/left-out-panel.js';
 import { freezeWorkbook, insertAll, insertPortableCurve } from './panels/handoff-panel.js';
@@ -21,12 +21,13 @@ function el<T extends HTMLElement>(id: string): T {
 }
 
 /**
- * Why BAND or INVERTBAND has no formula to insert: the classic fit (knots 0) has no band; a level
- * or readings field that is not valid; INVERTBAND without a target.
+ * Why BAND or INVERTBAND has no formula to insert: the classic fit (knots 0) and the smooth curve
+ * (degree 2) have no band; a level or readings field that is not valid; INVERTBAND without a target.
  * @example bandMissing('BAND', 0) // → 'BAND needs the knot model: set the knot count to 2 or more (the classic fit has no band).'
  */
-export function bandMissing(kind: 'BAND' | 'INVERTBAND', knots: number): string {
+export function bandMissing(kind: 'BAND' | 'INVERTBAND', knots: number, degree: number = 1): string {
   if (knots === 0) return `${kind} needs the knot model: set the knot count to 2 or more (the classic fit has no band).`;
+  if (degree === 2) return `${kind} needs the piecewise-linear curve: the smooth curve (degree 2) has no band yet.`;
   return kind === 'INVERTBAND'
     ? 'INVERTBAND needs a target: type a target y in the read-back box or a target_ys range above (and a valid level and number of readings).'
     : 'BAND needs a valid level: a number strictly between 0 and 1 (for example 0.95).';
@@ -361,7 +362,8 @@ export class OfficeData {
     }
     const target = this.targetCell();
     if (target === undefined) return;
-    const outcome = await insertPortableCurve(Excel, view.knots, target, this.inputAreas(), this.confirm);
+    // A smooth fit's table keeps its third column: the portable formulas refuse it with a message.
+    const outcome = await insertPortableCurve(Excel, knotTableRows(view), target, this.inputAreas(), this.confirm);
     this.insertStatus(
       outcome.written
         ? `Wrote the knot table (${view.knots.length} knots) as values in ${outcome.area}, with formulas that need no add-in: type x values into the "new x" column.`
@@ -384,7 +386,7 @@ export class OfficeData {
     const view = this.app.currentFit();
     const formula = this.app.formula(kind);
     if (r && view && !formula && (kind === 'BAND' || kind === 'INVERTBAND')) {
-      this.insertStatus(bandMissing(kind, this.app.fitSettings().knots), true);
+      this.insertStatus(bandMissing(kind, this.app.fitSettings().knots, this.app.fitSettings().degree), true);
       return;
     }
     if (!r || !view || !formula) {
@@ -402,6 +404,7 @@ export class OfficeData {
     if (nx !== '') newXs = areaSize(parseAddress(nx));
     const size = spillSize(kind, {
       knotRows: view.knots.length,
+      knotCols: view.smooth ? 3 : 2,
       candidates: candidateCount(view, cv),
       newXs,
       targets: this.app.targetsShape,

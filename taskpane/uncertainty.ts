@@ -60,22 +60,30 @@ export function bandGrid(xs: readonly number[], knotXs: readonly number[], steps
   return [...out].sort((a, b) => a - b);
 }
 
-/** The BAND / INVERTBAND arguments after their first: known_ys, known_xs, knots, direction, weights, level. */
-function bandTail(data: DataColumns, fit: FitSettings, level: string | number): CellArg[] {
-  return [columnArg(data.y), columnArg(data.x), fit.knots, fit.direction, data.w ? columnArg(data.w) : undefined, level];
+/**
+ * The BAND / INVERTBAND arguments after their first: known_ys, known_xs, knots, direction,
+ * weights, level, `own` (kind or replicates), then curvature and degree when not the defaults.
+ */
+function bandArgs(first: CellArg, data: DataColumns, fit: FitSettings, level: string | number, own: CellArg): CellArg[] {
+  const c = fit.curvature ?? 0;
+  const d = fit.degree ?? 1;
+  const args: CellArg[] = [first, columnArg(data.y), columnArg(data.x), fit.knots, fit.direction, data.w ? columnArg(data.w) : undefined, level, own, c === 0 ? undefined : c, d === 1 ? undefined : d];
+  while (args[args.length - 1] === undefined) args.pop();
+  return args;
 }
 
 /**
  * The band of the fit at the x of `grid`, by RATCHET.BAND with the same data and settings as the
  * fit shown. Cost: one BAND call (the functions' cache keeps the band model of the data).
  * @param grid the x to evaluate at (bandGrid), at least one.
- * @throws CellFailure with BAND's code and message: knots 0 (the classic fit has no band), too
- *   few rows for the fitted groups, a level outside (0, 1), any problem of the data.
+ * @throws CellFailure with BAND's code and message: knots 0 (the classic fit has no band), degree
+ *   2 (no band for the smooth curve yet), too few rows for the fitted groups, a level outside
+ *   (0, 1), any problem of the data.
  * @example computeBand({ x: [1, 2, 3, 4, 5, 6], y: [10, 12, 13, 16, 18, 21] }, { knots: 2, direction: 1 }, { level: 0.95, kind: 1 }, [3.5]).upper[0]
  * // → 15.690798077065656
  */
 export function computeBand(data: DataColumns, fit: FitSettings, controls: BandControls, grid: readonly number[]): BandView {
-  const out = run('BAND', [columnArg(grid), ...bandTail(data, fit, controls.level), controls.kind]);
+  const out = run('BAND', bandArgs(columnArg(grid), data, fit, controls.level, controls.kind));
   const rows = Array.isArray(out) ? out : [[out]];
   const num = (v: CellOut | undefined): number => (typeof v === 'number' ? v : NaN);
   return {
@@ -155,26 +163,27 @@ function readBackValue(v: CellOut | undefined): ReadBackValue {
 
 /**
  * Reads a target y back: RATCHET.INVERTBAND (lower x, x, upper x at `level` for the mean of
- * `replicates` readings) for the knot model; for the classic fit (knots 0), which has no
- * interval, the x of RATCHET.INVERT on its knot table (tie rule "middle", the default).
+ * `replicates` readings) for the knot model; for the classic fit (knots 0) and the smooth curve
+ * (degree 2), which have no interval, the x of RATCHET.INVERT on the knot table (tie rule
+ * "middle", the default; a smooth table keeps its third column of 2s, so INVERT reads parabolas).
  * Cost: one function call (the band model is cached).
  * @param target the target y: a number, or text as typed (text that reads as a number is that
  *   number; other text is refused by the function, naming target_ys).
- * @param knotTable the fit's knot table (RATCHET.KNOTS), used for the classic fit.
+ * @param knotTable the fit's knot table as RATCHET.KNOTS returns it (knotTableRows), used without an interval.
  * @throws CellFailure with the function's code and message for a bad target, level or replicates,
  *   or data the band cannot be computed for.
  * @example readBack({ x: [1, 2, 3, 4, 5, 6], y: [10, 14, 12, 17, 16, 21] }, { knots: 2, direction: 1 }, [], 15, 0.8, 4).lower
  * // → 2.4559220474129395
  */
-export function readBack(data: DataColumns, fit: FitSettings, knotTable: readonly (readonly [number, number])[], target: CellValueIn, level: string | number, replicates: string | number): ReadBack {
+export function readBack(data: DataColumns, fit: FitSettings, knotTable: readonly (readonly number[])[], target: CellValueIn, level: string | number, replicates: string | number): ReadBack {
   // A typed number is a number cell; other text stays text, which the function refuses by name.
   if (typeof target === 'string' && target.trim() !== '' && Number.isFinite(Number(target))) target = Number(target);
-  if (fit.knots === 0) {
-    const out = run('INVERT', [[[target]], knotTable.map(([a, b]) => [a, b])]);
+  if (fit.knots === 0 || fit.degree === 2) {
+    const out = run('INVERT', [[[target]], knotTable.map((r) => [...r])]);
     const v = Array.isArray(out) ? out[0]![0] : out;
     return { target: Number(target), lower: undefined, x: readBackValue(v), upper: undefined, source: 'INVERT' };
   }
-  const out = run('INVERTBAND', [[[target]], ...bandTail(data, fit, level), replicates]);
+  const out = run('INVERTBAND', bandArgs([[target]], data, fit, level, replicates));
   const r = Array.isArray(out) ? out[0]! : [out];
   return { target: Number(target), lower: readBackValue(r[0]), x: readBackValue(r[1]), upper: readBackValue(r[2]), source: 'INVERTBAND' };
 }

@@ -5,7 +5,7 @@
  * band does not reach inside the data's x range, and a target outside the curve's range, are said
  * in words.
  */
-import { CellFailure, type FitView } from '../analysis.js';
+import { CellFailure, knotTableRows, type FitView } from '../analysis.js';
 import type { FitSettings } from '../formulas.js';
 import { argumentOf, percent, readBack, type ReadBack, type ReadBackValue, type UsedRows } from '../uncertainty.js';
 import { el, errorText, fieldMessage, fmt } from './dom.js';
@@ -49,7 +49,7 @@ export class ReadbackPanel {
     const { target, replicates } = this.inputs();
     fieldMessage('readback-target', undefined);
     fieldMessage('readback-replicates', undefined);
-    el<HTMLInputElement>('readback-replicates').disabled = fit.knots === 0;
+    el<HTMLInputElement>('readback-replicates').disabled = fit.knots === 0 || fit.degree === 2;
     let status: string;
     let error = false;
     if (!sel || !view) {
@@ -58,7 +58,7 @@ export class ReadbackPanel {
       status = 'Type a target y to read back its x.';
     } else {
       try {
-        this.result = readBack(sel.data, fit, view.knots, target, level, replicates);
+        this.result = readBack(sel.data, fit, knotTableRows(view), target, level, replicates);
         status = this.describe(this.result, view, level, replicates, rows);
       } catch (e) {
         const arg = argumentOf(e);
@@ -94,7 +94,10 @@ export class ReadbackPanel {
     const t = fmt(r.target);
     if (!isNumber(r.x)) return outsideText(r.target, view);
     if (r.source === 'INVERT') {
-      return `The curve reaches ${t} at x = ${fmt(r.x)} (RATCHET.INVERT). No interval for the classic fit (knot count 0): set 2 or more knots (README “Cautions for bands”).`;
+      const why = view.smooth
+        ? 'No interval for the smooth curve (degree 2) yet: choose the piecewise-linear curve for one.'
+        : 'No interval for the classic fit (knot count 0): set 2 or more knots (README “Cautions for bands”).';
+      return `The curve reaches ${t} at x = ${fmt(r.x)} (RATCHET.INVERT). ${why}`;
     }
     const m = Number(replicates === '' ? 1 : replicates);
     const head = `At ${percent(Number(level))} % for ${m === 1 ? 'one reading' : `the mean of ${fmt(m)} readings`} (RATCHET.INVERTBAND): x = ${fmt(r.x)}`;

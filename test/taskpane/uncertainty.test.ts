@@ -10,7 +10,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { computeFit } from '../../taskpane/analysis.js';
+import { computeFit, knotTableRows } from '../../taskpane/analysis.js';
 import { bandFormulas, spillSize } from '../../taskpane/formulas.js';
 import {
   argumentOf,
@@ -269,6 +269,41 @@ describe('BAND and INVERTBAND formulas', () => {
     expect([row.length, row[0]!.length]).toEqual([3, 3]);
     const one = functionByName('INVERTBAND')!.invoke([[[15]], hardness.map((v) => [v]), hours.map((v) => [v]), 2, 1, undefined, 0.8, 4] as CellArg[]) as unknown[][];
     expect([one.length, one[0]!.length]).toEqual([1, 3]);
+  });
+});
+
+describe('shapes: the band and the read-back follow the curvature and degree of the fit shown', () => {
+  const cars = fixture.line.find((c) => c.name === 'cars')!;
+  const data = { x: cars.x, y: cars.y };
+  it('a concave band is RATCHET.BAND with curvature -1 (the argument after kind)', () => {
+    const fit = { knots: 5, direction: 1 as const, curvature: -1 as const };
+    const b = computeBand(data, fit, { level: 0.9, kind: 1 }, [5, 12.5, 25]);
+    const ref = functionByName('BAND')!.invoke([[[5], [12.5], [25]], cars.y.map((v) => [v]), cars.x.map((v) => [v]), 5, 1, undefined, 0.9, 1, -1] as CellArg[]) as number[][];
+    expect([b.lower, b.fit, b.upper]).toEqual([ref.map((r) => r[0]), ref.map((r) => r[1]), ref.map((r) => r[2])]);
+    // and it differs from the unshaped band (the shape changes the reduced design)
+    const plain = computeBand(data, { knots: 5, direction: 1 }, { level: 0.9, kind: 1 }, [5, 12.5, 25]);
+    expect(plain.upper).not.toEqual(b.upper);
+    expect(bandFormulas({ y: '$B$2:$B$51', x: '$A$2:$A$51' }, fit, { level: 0.9, kind: 1, replicates: 1, targets: '40' })).toEqual({
+      BAND: '=RATCHET.BAND($A$2:$A$51,$B$2:$B$51,$A$2:$A$51,5,1,,0.9,1,-1)',
+      INVERTBAND: '=RATCHET.INVERTBAND(40,$B$2:$B$51,$A$2:$A$51,5,1,,0.9,1,-1)',
+    });
+  });
+  it('the smooth curve (degree 2) has no band: BAND refuses it naming degree, no formulas, and the read-back is INVERT on the smooth table', () => {
+    const fit = { knots: 4, direction: 1 as const, degree: 2 as const };
+    let err: unknown;
+    try {
+      computeBand(data, fit, { level: 0.95, kind: 1 }, [10]);
+    } catch (e) {
+      err = e;
+    }
+    expect(argumentOf(err)).toBe('degree');
+    expect(bandFormulas({ y: 'B2:B51', x: 'A2:A51' }, fit, { level: 0.95, kind: 1, replicates: 1, targets: '40' })).toEqual({});
+    const view = computeFit(data, fit);
+    const table = knotTableRows(view);
+    const r = readBack(data, fit, table, 40, 0.95, 1);
+    const invert = functionByName('INVERT')!.invoke([[[40]], table] as CellArg[]);
+    expect([r.source, r.lower, r.upper]).toEqual(['INVERT', undefined, undefined]);
+    expect(r.x).toBe(Array.isArray(invert) ? invert[0]![0] : invert);
   });
 });
 
