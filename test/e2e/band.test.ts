@@ -152,6 +152,26 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: band, residuals, read-back and direct
     expect((await snap(page)).band).not.toBeNull();
   });
 
+  it('a concave band carries curvature -1; the smooth curve (degree 2) has no band: controls disabled, BAND’s message', async () => {
+    await page.selectOption('#curvature', '-1');
+    let s = await snap(page);
+    const xs = s.band!.upper.map((p) => p.x);
+    const ref = invoke('BAND', [col(xs), col(hardness), col(hours), 5, 1, undefined, 0.95, 1, -1]);
+    expectClose(s.band!.upper.map((p) => p.y), ref.map((r) => r[2]!));
+    expect(s.formulas.BAND).toBe('=RATCHET.BAND(cure!$A$2:$A$25,cure!$B$2:$B$25,cure!$A$2:$A$25,5,1,,0.95,1,-1)');
+    await page.selectOption('#curvature', '0');
+    await page.selectOption('#degree', '2');
+    s = await snap(page);
+    expect(s.band).toBeNull();
+    expect(s.bandNote).toMatch(/^No band for the smooth curve: #VALUE! degree: needs 1 \(piecewise linear\) for a band/);
+    expect(await page.isDisabled('#band-level')).toBe(true);
+    expect(await page.isDisabled('#band-kind')).toBe(true);
+    expect(s.formulas.BAND).toBeUndefined();
+    await page.selectOption('#degree', '1');
+    expect((await snap(page)).band).not.toBeNull();
+    expect(await page.isDisabled('#band-level')).toBe(false);
+  });
+
   it('draws the residuals y − RATCHET.FIT against x under the fit chart, with a zero line and a text alternative', async () => {
     const s = await snap(page);
     const fitted = invoke('FIT', [col(hardness), col(hours), 5, 1]).map((r) => r[0] as number);
