@@ -421,7 +421,7 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
         // so the walk's sums stay far from overflow and underflow; should they not, the scaled
         // statistics of the full fitted values take over.
         const spec: KnotSpec = p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
-        const fit = knotChecked(tx, ty, trainW, spec, direction, p.lower, p.upper, false, false);
+        const fit = knotChecked(tx, ty, trainW, spec, direction, p.lower, p.upper, false, false, true);
         knotX = fit.knotX;
         knotY = fit.knotY;
         trainRmse = trainingRmse(knotX, knotY, tx, ty, trainW);
