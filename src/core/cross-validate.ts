@@ -373,9 +373,19 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
   const onProgress = options.onProgress;
   let done = 0;
   if (signal?.aborted) cancelled(done, total);
+  // The folds of one repeat share their labels: read them into x order once (one gather through
+  // rowOf), so that each fold splits its rows in sequential passes.
+  let labelOf: Task['label'] | null = null;
+  let label = new Uint32Array(0);
   for (const task of tasks) {
+    if (task.label !== labelOf) {
+      labelOf = task.label;
+      if (label.length !== n) label = new Uint32Array(n);
+      for (let k = 0; k < n; k++) label[k] = labelOf[rowOf[k]!]!;
+    }
+    const fold = task.fold;
     let m = 0;
-    for (let k = 0; k < n; k++) if (task.label[rowOf[k]!] === task.fold) m++;
+    for (let k = 0; k < n; k++) if (label[k] === fold) m++;
     const tx = new Float64Array(n - m);
     const ty = new Float64Array(n - m);
     const tw = new Float64Array(n - m);
@@ -383,7 +393,7 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
     const ey = new Float64Array(m);
     const ew = new Float64Array(m);
     for (let k = 0, a = 0, b = 0; k < n; k++) {
-      if (task.label[rowOf[k]!] === task.fold) {
+      if (label[k] === fold) {
         ex[b] = sx[k]!;
         ey[b] = sy[k]!;
         ew[b++] = sw[k]!;
