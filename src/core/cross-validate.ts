@@ -4,7 +4,7 @@
 import type { Direction, DirectionOption } from './types.js';
 import { boundsPair, finiteArray, sameLength, weightArray } from './validate.js';
 import { resolveDirection } from './direction.js';
-import { sortOrder } from './sort-order.js';
+import { sortOrder, sortRows } from './sort-order.js';
 import { checkShapeSpec, fitChecked, type KnotSpec, type ShapeSpec } from './model.js';
 import { smoothTableAt } from './smooth-table.js';
 import type { Curvature, Degree } from './shape-fit.js';
@@ -224,15 +224,18 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
       k++;
     }
   }
-  const order = sortOrder(px);
-  const sx = new Float64Array(n);
+  // The sort hands back the sorted x (−0 as +0) besides the order; both live in its scratch
+  // memory, which the fits below reuse, so they are copied out (sequential copies, where reading x
+  // through the order would be a random gather).
+  const rows = sortRows(px, true);
+  const order = rows.order.slice();
+  const sx = rows.sorted!.slice();
   const sy = new Float64Array(n);
   const sw = new Float64Array(n);
   let sumW = 0;
   let sumWY = 0;
   for (let k = 0; k < n; k++) {
     const i = order[k]!;
-    sx[k] = px[i]! + 0;
     sy[k] = py[i]!;
     sw[k] = pw[i]!;
     sumW += sw[k]!;
