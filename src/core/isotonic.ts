@@ -51,8 +51,10 @@ export interface IsotonicFit {
  * [lower, upper], which is optimal for the bounded problem in this model.
  *
  * Cost: O(n) time and memory (a radix sort that also returns the sorted x, one pass gathering y
- * and w into x order, one pass that pools ties and runs PAVA at once); typed arrays of about 60
- * bytes per row in all, the result included (68 with weights).
+ * and w into x order, one pass that pools ties and runs PAVA at once); working arrays of about
+ * 60 bytes per row (68 with weights), kept between calls as scratch memory (src/core/scratch.ts),
+ * so a repeated fit allocates only its results: the fitted values and, here, copies of the
+ * distinct x, their values and pooled weights (about 32 bytes per row).
  *
  * Edge cases: tied x values are pooled first (one fitted value per distinct x, the weighted mean
  * of its y with summed weight). Rows with weight 0 get the curve's value at their x (linear
@@ -98,8 +100,8 @@ export function isotonicRegression(
  * too, nor underflow for tiny ones. The factors come from {@link scaleExponents} (src/core/scale.ts),
  * computed first: for data near 1 they are small powers of two; for y or weights near 1e±300 they
  * are the exact rescaling, applied as y and w are gathered. Weights spread over more than 2^600
- * take a pooled path instead (poolTies, then PAVA on block means: pavaSortedWide). Typed arrays
- * of about 60 bytes per row in all, the result's included (68 with weights).
+ * take a pooled path instead (poolTies, then PAVA on block means: pavaSortedWide). Working arrays
+ * of about 60 bytes per row (68 with weights), in scratch memory.
  *
  * Scratch memory (src/core/scratch.ts) holds every n-sized working array — the sort's keys and
  * indices, y and w in x order, the block stack, the groups — so a repeated fit allocates only its
