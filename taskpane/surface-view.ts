@@ -8,7 +8,7 @@
 import type { CellArg, CellValueIn } from '../src/functions/types.js';
 import { columnArg, run } from './analysis.js';
 import type { DataColumns } from './analysis.js';
-import type { DataRefs, DirectionCode } from './formulas.js';
+import type { DataRefs } from './formulas.js';
 import { heatColour, heatmapFromGrid, hex, type HeatmapView } from '../src/view/heat-scale.js';
 import { DEFAULT_DIGITS, formatNumber } from '../src/view/number-format.js';
 
@@ -22,13 +22,19 @@ export interface SecondInput {
   readonly label: string;
 }
 
+/**
+ * A surface direction as RATCHET.GRID takes it: 1 rising, −1 falling, 0 picked from the data (the
+ * sign of that input's rank correlation with y), 2 no constraint along that input.
+ */
+export type SurfaceDirectionCode = 1 | -1 | 0 | 2;
+
 /** The surface controls: knot counts (0 = every distinct level, the classic case) and directions. */
 export interface SurfaceSettings {
   readonly knots1: number;
   readonly knots2: number;
-  /** 1 rising, −1 falling, 0 no constraint along that input. */
-  readonly direction1: DirectionCode;
-  readonly direction2: DirectionCode;
+  /** 1 rising, −1 falling, 0 picked from the data, 2 no constraint along that input. */
+  readonly direction1: SurfaceDirectionCode;
+  readonly direction2: SurfaceDirectionCode;
 }
 
 /** Largest lattice the pane draws cell by cell (larger ones are summarised in the status line). */

@@ -2,8 +2,7 @@
  * The surface panel: shown when a second input is chosen; RATCHET.GRID of the data drawn as a
  * heat-map with its legend and status line.
  */
-import type { DirectionCode } from '../formulas.js';
-import { HEATMAP_MAX_CELLS, computeSurface, knotField, renderHeatmap, type SurfaceSettings } from '../surface-view.js';
+import { HEATMAP_MAX_CELLS, computeSurface, knotField, renderHeatmap, type SurfaceDirectionCode, type SurfaceSettings } from '../surface-view.js';
 import type { HeatmapView } from '../../src/view/heat-scale.js';
 import { el, errorText, fieldMessage, shownDigits } from './dom.js';
 import { readKnotField } from '../guards.js';
@@ -18,7 +17,7 @@ export class SurfacePanel {
 
   /** Reads the surface controls. */
   settings(): SurfaceSettings {
-    const d = (id: string): DirectionCode => Number(el<HTMLSelectElement>(id).value) as DirectionCode;
+    const d = (id: string): SurfaceDirectionCode => Number(el<HTMLSelectElement>(id).value) as SurfaceDirectionCode;
     return { knots1: knotField(el<HTMLInputElement>('knots1').value), knots2: knotField(el<HTMLInputElement>('knots2').value), direction1: d('direction1'), direction2: d('direction2') };
   }
 

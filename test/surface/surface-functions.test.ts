@@ -33,13 +33,13 @@ describe('RATCHET.GRID', () => {
     for (let i = 0; i < 3; i++) expect(body[i]).toBeAllCloseRel(expected[i]!, 1e-12);
   });
 
-  it('direction 0 leaves an input unconstrained; -1 makes it fall', () => {
+  it('direction 2 leaves an input unconstrained; -1 makes it fall', () => {
     // Along x2 unconstrained, x1 rising: each row of Y separately (1,3,2 → 1,2.5,2.5; 0,2,5; 4,1,6 → 2.5,2.5,6).
-    const r = numbers(cell('GRID', Y, X1, X2, 0, 0, 1, 0)).slice(1).map((row) => row.slice(1));
+    const r = numbers(cell('GRID', Y, X1, X2, 0, 0, 1, 2)).slice(1).map((row) => row.slice(1));
     expect(r[0]).toBeAllCloseRel([1, 2.5, 2.5], 1e-12);
     expect(r[1]).toBeAllCloseRel([0, 2, 5], 1e-12);
     expect(r[2]).toBeAllCloseRel([2.5, 2.5, 6], 1e-12);
-    const down = numbers(cell('GRID', Y, X1, X2, 0, 0, -1, 0)).slice(1).map((row) => row.slice(1));
+    const down = numbers(cell('GRID', Y, X1, X2, 0, 0, -1, 2)).slice(1).map((row) => row.slice(1));
     expect(down[1]).toBeAllCloseRel([7 / 3, 7 / 3, 7 / 3], 1e-12);
   });
 
@@ -98,7 +98,9 @@ describe('errors map to cell errors with the argument named', () => {
   it('bad knots and directions', () => {
     expect(cell('GRID', Y, X1, X2, 1)).toEqual(err('#VALUE!', 'knots1: needs 0 (classic fit), a whole number of knots ≥ 2, or a range of knot positions; got 1.'));
     expect(cell('GRID', Y, X1, X2, 0, 300)).toEqual(err('#VALUE!', 'knots2: needs at most 200 knots; got 300.'));
-    expect(cell('GRID', Y, X1, X2, 0, 0, 2)).toEqual(err('#VALUE!', 'direction1: needs 1 (rising), -1 (falling) or 0 (no constraint); got 2.'));
+    expect(cell('GRID', Y, X1, X2, 0, 0, 3)).toEqual(err('#VALUE!', 'direction1: needs 1 (rising), -1 (falling), 0 (pick from the data) or 2 (no constraint); got 3.'));
+    expect(cell('SURFACE', 1, 1, Y, X1, X2, 0, 0, 1, 0.5)).toEqual(err('#VALUE!', 'direction2: needs 1 (rising), -1 (falling), 0 (pick from the data) or 2 (no constraint); got 0.5.'));
+    expect(cell('CVGRID', Y, X1, X2, 2, 2, 3, 1, 0, -2)).toEqual(err('#VALUE!', 'direction1: needs 1 (rising), -1 (falling), 0 (pick from the data) or 2 (no constraint); got -2.'));
   });
 
   it('too few rows, a single level, text and error cells', () => {

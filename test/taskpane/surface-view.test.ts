@@ -32,9 +32,9 @@ const EXPECTED = [
 
 describe('surface data wiring (RATCHET.GRID through the registry)', () => {
   it('passes known_ys, x, x2, knots1, knots2, direction1, direction2 and weights as one-column ranges, in that order', () => {
-    const s: SurfaceSettings = { knots1: 4, knots2: 3, direction1: -1, direction2: 0 };
-    expect(gridArgs({ x: [1, 2], y: [3, 4] }, [5, 6], s)).toEqual([[[3], [4]], [[1], [2]], [[5], [6]], 4, 3, -1, 0]);
-    expect(gridArgs({ x: [1, 2], y: [3, 4], w: [1, 2] }, [5, 6], s)).toEqual([[[3], [4]], [[1], [2]], [[5], [6]], 4, 3, -1, 0, [[1], [2]]]);
+    const s: SurfaceSettings = { knots1: 4, knots2: 3, direction1: -1, direction2: 2 };
+    expect(gridArgs({ x: [1, 2], y: [3, 4] }, [5, 6], s)).toEqual([[[3], [4]], [[1], [2]], [[5], [6]], 4, 3, -1, 2]);
+    expect(gridArgs({ x: [1, 2], y: [3, 4], w: [1, 2] }, [5, 6], s)).toEqual([[[3], [4]], [[1], [2]], [[5], [6]], 4, 3, -1, 2, [[1], [2]]]);
   });
 
   it('the 3 × 3 example: knots across and down, the biviso lattice inside', () => {
