@@ -136,7 +136,8 @@ describe('errors map to cell errors with the argument named', () => {
     const seen = { values: 0, errors: 0 };
     fc.assert(
       fc.property(fc.constantFrom('SURFACE', 'GRID', 'CVGRID'), columns, option, option, option, option, (name, [a, b, c, d, e], o1, o2, o3, o4) => {
-        const args = name === 'SURFACE' ? [a, b, c, d, e, o1, o2, o3, o4] : [c, d, e, o1, o2, o3, o4];
+        // o3, o4 land on direction1, direction2 (every code -2 … 5: 1, -1, 0 and 2 valid); CVGRID keeps its fold defaults.
+        const args = name === 'SURFACE' ? [a, b, c, d, e, o1, o2, o3, o4] : name === 'GRID' ? [c, d, e, o1, o2, o3, o4] : [c, d, e, o1, o2, undefined, undefined, undefined, o3, o4];
         const r = cell(name, ...(args as never[]));
         if (typeof r === 'object' && r !== null && 'error' in r) {
           expect(['#VALUE!', '#N/A', '#DIV/0!']).toContain(r.error.code);
