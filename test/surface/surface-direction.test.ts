@@ -135,8 +135,10 @@ describe('the worksheet functions: 0 is chosen from the data, 2 is no constraint
     const cases = ref.lattice.filter((c) => c.direction1 === 'none' || c.direction2 === 'none');
     expect(cases.length).toBeGreaterThan(0);
     for (const c of cases) {
-      const args = [col(...c.y), col(...c.x1), col(...c.x2), c.knots1, c.knots2, code[c.direction1 as keyof typeof code], code[c.direction2 as keyof typeof code]] as const;
-      const grid = numbers(cell('GRID', ...args, c.weights ? col(...c.weights) : undefined));
+      const knots = (k: number | number[]) => (typeof k === 'number' ? k : col(...k));
+      const dir = (d: string) => code[d as keyof typeof code];
+      const w = c.weights ? col(...c.weights) : undefined;
+      const grid = numbers(cell('GRID', col(...c.y), col(...c.x1), col(...c.x2), knots(c.knots1), knots(c.knots2), dir(c.direction1), dir(c.direction2), w));
       const body = grid.slice(1).flatMap((row) => row.slice(1));
       const scale = Math.max(...c.values.map(Math.abs));
       expect(body).toBeAllCloseRel(c.values, 1e-8, 1e-8 * scale);
