@@ -2,7 +2,7 @@
  * The surface panel: shown when a second input is chosen; RATCHET.GRID of the data drawn as a
  * heat-map with its legend and status line.
  */
-import { HEATMAP_MAX_CELLS, computeSurface, knotField, renderHeatmap, type SurfaceDirectionCode, type SurfaceSettings } from '../surface-view.js';
+import { HEATMAP_MAX_CELLS, computeSurface, directionWords, knotField, latticeTrend, renderHeatmap, type SurfaceDirectionCode, type SurfaceSettings } from '../surface-view.js';
 import type { HeatmapView } from '../../src/view/heat-scale.js';
 import { el, errorText, fieldMessage, shownDigits } from './dom.js';
 import { readKnotField } from '../guards.js';
@@ -50,7 +50,8 @@ export class SurfacePanel {
       return;
     }
     try {
-      const view = computeSurface(sel.data, sel.x2.cells, this.settings(), shownDigits());
+      const settings = this.settings();
+      const view = computeSurface(sel.data, sel.x2.cells, settings, shownDigits());
       const values = view.knots1.length * view.knots2.length;
       if (values > HEATMAP_MAX_CELLS) {
         table.replaceChildren();
@@ -61,9 +62,10 @@ export class SurfacePanel {
       }
       this.view = view;
       renderHeatmap(table, legend, view, { x1: sel.labels.x, x2: sel.x2.label, y: sel.labels.y }, shownDigits());
+      const along = `along ${sel.labels.x} ${directionWords(settings.direction1, latticeTrend(view, 1))}, along ${sel.x2.label} ${directionWords(settings.direction2, latticeTrend(view, 2))}`;
       s.textContent =
-        `Surface over ${sel.labels.x} and ${sel.x2.label}: ${view.knots1.length} × ${view.knots2.length} = ${values} values` +
-        (rows !== undefined && values >= rows / 2 ? ` from about ${rows} rows — at least one value per two rows: expect over-fit.` : '.');
+        `Surface over ${sel.labels.x} and ${sel.x2.label}: ${view.knots1.length} × ${view.knots2.length} = ${values} values, ${along}` +
+        (rows !== undefined && values >= rows / 2 ? ` — from about ${rows} rows, at least one value per two rows: expect over-fit.` : '.');
       s.classList.remove('error');
     } catch (e) {
       this.error = errorText(e);

@@ -9,7 +9,9 @@
  * - the defaults and guards show at their fields (y defaults to the sample's named y; x2 = y is
  *   refused inline; knot count 2.5 explains itself and the chart keeps the last good fit, greyed;
  *   a knot count above the distinct x gets a warning with the numbers);
- * - every control has a label, the charts a text alternative (knot count, direction, r2).
+ * - every control has a label, the charts a text alternative (knot count, direction, r2);
+ * - the surface directions (0 = from the data, the longest option) fit their drop-downs, and the
+ *   status line says which way 0 chose along each input.
  * Screenshots go to test-results/layout-*.png.
  *
  * Sizes 350 × 900 (a typical task pane, common practice) and 1280 × 900.
@@ -179,7 +181,12 @@ describe.skipIf(!RUN_BROWSER_TESTS)('the pane at 350 and 1280 px, light and dark
       await page.emulateMedia({ colorScheme: scheme });
       await setValue(page, '#knots1', '10');
       await setValue(page, '#knots2', '10');
+      // The longest surface direction option, "pick from the data (0)", chosen in both drop-downs.
+      await page.selectOption('#direction1', '0');
+      await page.selectOption('#direction2', '0');
       await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().surface?.knots1.length === 10);
+      // Hardness rises with both inputs in the sample: the status line says which way 0 chose.
+      expect(await page.textContent('#surface-status')).toContain('along oven temp °C picked from the data: rising, along dwell min picked from the data: rising');
       await page.waitForTimeout(150); // charts re-size on the next frame
       await page.screenshot({ path: path.join(resultsDir, `layout-${width}-${scheme}.png`), fullPage: true });
       expect(await layoutProblems(page)).toEqual([]);
