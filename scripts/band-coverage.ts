@@ -9,29 +9,10 @@
  * The band's target is the best monotone knot curve for f at these x (knotRegression of the
  * noiseless values). Coverage is reported at x in the flat stretch, at its edges and on the rises.
  */
-import { bandAt, fitBandModel, knotRegression, interpolateAt, SplitMix64 } from '../src/core/index.js';
+import { bandAt, fitBandModel, knotRegression, interpolateAt, normalDeviates, SplitMix64 } from '../src/core/index.js';
 
 const simsArg = process.argv.find((a) => a.startsWith('--sims='));
 const sims = simsArg ? Number(simsArg.slice(7)) : 4000;
-
-function gaussian(rng: SplitMix64): () => number {
-  let spare: number | null = null;
-  const uniform = () => {
-    rng.next();
-    return (rng.hi * 2 ** 21 + (rng.lo >>> 11) + 0.5) / 2 ** 53;
-  };
-  return () => {
-    if (spare !== null) {
-      const s = spare;
-      spare = null;
-      return s;
-    }
-    const r = Math.sqrt(-2 * Math.log(uniform()));
-    const a = 2 * Math.PI * uniform();
-    spare = r * Math.sin(a);
-    return r * Math.cos(a);
-  };
-}
 
 const n = 60;
 const x = Array.from({ length: n }, (_, i) => i / (n - 1));
@@ -47,7 +28,7 @@ for (const [name, f] of truths) {
   const target = knotRegression(x, clean, { knots: 8 });
   const proj = at.map((v) => interpolateAt(target.knotX, target.knotY, v));
   for (const sd of [0.02, 0.05, 0.1, 0.2]) {
-    const normal = gaussian(SplitMix64.fromSeed(1000 + Math.round(sd * 1000)));
+    const normal = normalDeviates(SplitMix64.fromSeed(1000 + Math.round(sd * 1000)));
     const covered = at.map(() => 0);
     for (let s = 0; s < sims; s++) {
       const y = clean.map((c) => c + sd * normal());

@@ -49,17 +49,10 @@ export interface DirectionWarning {
  * @example checkDirection([1, 2, 3, 4, 5, 6], [9, 8, 6, 5, 3, 1], 'up')?.suggested // → 'down'
  */
 export function checkDirection(x: ArrayLike<number>, y: ArrayLike<number>, direction: Direction, w?: ArrayLike<number>): DirectionWarning | null {
-  const xs: number[] = [];
-  const ys: number[] = [];
-  for (let i = 0; i < x.length; i++) {
-    if (w === undefined || w[i]! > 0) {
-      xs.push(x[i]!);
-      ys.push(y[i]!);
-    }
-  }
-  const n = xs.length;
+  let n = 0;
+  for (let i = 0; i < x.length; i++) if (w === undefined || w[i]! > 0) n++;
   if (n < 4) return null;
-  const rho = spearman(xs, ys);
+  const rho = spearman(x, y, w);
   if (Number.isNaN(rho)) return null;
   const against = direction === 'up' ? -rho : rho; // > 0 when ρ contradicts the direction
   if (against < DIRECTION_RHO_THRESHOLD) return null;

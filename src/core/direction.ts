@@ -23,16 +23,32 @@ export function averageRanks(values: ArrayLike<number>): Float64Array {
 }
 
 /**
- * Spearman's rank correlation: Pearson's correlation of the average ranks of x and y.
+ * Spearman's rank correlation: Pearson's correlation of the average ranks of x and y, over the
+ * rows with positive weight when weights are given (a row of weight 0 has no influence on any
+ * result, this one included).
  *
- * Cost: O(n). Returns NaN when either input is constant (its ranks have zero variance) —
- * {@link resolveDirection} decides that case explicitly.
+ * Cost: O(n) (radix-sorted ranks), plus one O(n) copy when weights are given. Returns NaN when
+ * either input is constant among the rows used (its ranks have zero variance), or when no row is
+ * used — {@link resolveDirection} decides that case explicitly. Inputs are not modified.
  *
  * @param x finite numbers, n ≥ 1.
  * @param y finite numbers, same length.
+ * @param w optional weights ≥ 0, same length; only rows with w > 0 count. Default: all rows.
  * @example spearman([1, 2, 3, 4], [10, 20, 15, 40]) // → 0.8
+ * @example spearman([1, 2, 3, 4], [10, 20, 15, 40], [1, 1, 0, 1]) // → 1
  */
-export function spearman(x: ArrayLike<number>, y: ArrayLike<number>): number {
+export function spearman(x: ArrayLike<number>, y: ArrayLike<number>, w?: ArrayLike<number>): number {
+  if (w !== undefined) {
+    const xs: number[] = [];
+    const ys: number[] = [];
+    for (let i = 0; i < x.length; i++) {
+      if (w[i]! > 0) {
+        xs.push(x[i]!);
+        ys.push(y[i]!);
+      }
+    }
+    return spearman(xs, ys);
+  }
   const n = x.length;
   const rx = averageRanks(x);
   const ry = averageRanks(y);
@@ -69,20 +85,6 @@ export function resolveDirection(
   if (option === undefined || option === 'up') return 'up';
   if (option === 'down') return 'down';
   if (option !== 'auto') fail('BAD_OPTION', 'direction', `needs 'up', 'down' or 'auto'; got ${String(option)}`);
-  let xs: ArrayLike<number> = x;
-  let ys: ArrayLike<number> = y;
-  if (w !== undefined) {
-    const keepX: number[] = [];
-    const keepY: number[] = [];
-    for (let i = 0; i < x.length; i++) {
-      if (w[i]! > 0) {
-        keepX.push(x[i]!);
-        keepY.push(y[i]!);
-      }
-    }
-    xs = keepX;
-    ys = keepY;
-  }
-  const rho = spearman(xs, ys);
+  const rho = spearman(x, y, w);
   return rho < 0 ? 'down' : 'up';
 }

@@ -12,7 +12,7 @@ export { interpolate, interpolateAt } from './interpolate.js';
 export { invertAt, invertChecked, checkKnotTable } from './invert.js';
 export { fitMonotone, predict, type ModelOptions, type MonotoneModel } from './model.js';
 export type { Curvature, Degree } from './shape-fit.js';
-export { SplitMix64 } from './prng.js';
+export { SplitMix64, normalDeviates } from './prng.js';
 export { kFoldAssignment } from './folds.js';
 export { suggestKnots } from './scores.js';
 export { crossValidate, defaultCandidates, type CrossValidationOptions, type CrossValidationResult } from './cross-validate.js';

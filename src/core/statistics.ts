@@ -223,14 +223,6 @@ export function spreadStatistics(
   const base = fitStatistics(y, fitted, w);
   const dfResid = base.n - levels;
   const sigma = dfResid >= 1 ? Math.sqrt(base.sse / dfResid) : null;
-  const xs: number[] = [];
-  const ys: number[] = [];
-  for (let i = 0; i < x.length; i++) {
-    if (w === undefined || w[i]! > 0) {
-      xs.push(x[i]!);
-      ys.push(y[i]!);
-    }
-  }
-  const rho = spearman(xs, ys);
+  const rho = spearman(x, y, w);
   return { sigma, dfResid, spearman: Number.isNaN(rho) ? null : rho };
 }

@@ -336,17 +336,7 @@ function rankCorrelation(data: ReturnType<Args<FitName>['rows']>): number {
   const p = pairData(data);
   const y = p.columns[0]!;
   const x = p.columns[1]!;
-  const w = p.weights;
-  if (w === undefined) return spearman(x, y);
-  const xs: number[] = [];
-  const ys: number[] = [];
-  for (let i = 0; i < x.length; i++) {
-    if (w[i]! > 0) {
-      xs.push(x[i]!);
-      ys.push(y[i]!);
-    }
-  }
-  return spearman(xs, ys);
+  return spearman(x, y, p.weights);
 }
 
 /** RATCHET.STATS(known_ys, known_xs, [knots], [direction], [weights], [curvature], [degree]). */

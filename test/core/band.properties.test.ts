@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { bandAt, fitBandModel, invertAt, knotRegression, RatchetError, SplitMix64 } from '../../src/core/index.js';
+import { bandAt, fitBandModel, invertAt, knotRegression, normalDeviates, RatchetError, SplitMix64 } from '../../src/core/index.js';
 import { checkDirection } from '../../src/core/direction-check.js';
 import { inverseBand } from '../../src/core/band.js';
 import { studentTQuantile } from '../../src/core/student-t.js';
@@ -202,26 +202,6 @@ describe('band errors', () => {
   });
 });
 
-/** Standard normal deviates by Box–Muller from SplitMix64's 53-bit uniforms (0, 1). */
-function gaussian(rng: SplitMix64): () => number {
-  let spare: number | null = null;
-  const uniform = () => {
-    rng.next();
-    return (rng.hi * 2 ** 21 + (rng.lo >>> 11) + 0.5) / 2 ** 53;
-  };
-  return () => {
-    if (spare !== null) {
-      const s = spare;
-      spare = null;
-      return s;
-    }
-    const r = Math.sqrt(-2 * Math.log(uniform()));
-    const a = 2 * Math.PI * uniform();
-    spare = r * Math.sin(a);
-    return r * Math.cos(a);
-  };
-}
-
 describe('Monte Carlo coverage (2,000 seeded data sets, strictly increasing smooth truth, fixed knots)', () => {
   // Truth f(x) = 2x + sin(2πx)/(2π), f'(x) = 2 + cos(2πx) ≥ 1, on 40 evenly spaced x in [0, 1];
   // Gaussian noise sd 0.15; 5 even knots. The band's target is the best knot curve for f at these
@@ -236,7 +216,7 @@ describe('Monte Carlo coverage (2,000 seeded data sets, strictly increasing smoo
     for (let j = 1; j < 5; j++) expect(target.knotY[j]!).toBeGreaterThan(target.knotY[j - 1]!);
   });
   it('95 % confidence and prediction bands cover within 1.5 points of 95 % at x = 0.3, 0.5, 0.7', () => {
-    const normal = gaussian(SplitMix64.fromSeed(20261201));
+    const normal = normalDeviates(SplitMix64.fromSeed(20261201));
     const sims = 2000;
     const coveredConf = [0, 0, 0];
     const coveredPred = [0, 0, 0];
@@ -273,7 +253,7 @@ describe('Monte Carlo coverage (2,000 seeded data sets, strictly increasing smoo
 
 describe('direction check on pure noise (seeded SplitMix64)', () => {
   it('warns on at most 6 % of 2,000 data sets of 20 rows without association (the rule targets a 5 % one-sided test)', () => {
-    const normal = gaussian(SplitMix64.fromSeed(77));
+    const normal = normalDeviates(SplitMix64.fromSeed(77));
     const x = Array.from({ length: 20 }, (_, i) => i);
     let warnings = 0;
     for (let s = 0; s < 2000; s++) {

@@ -168,6 +168,13 @@ describe("Spearman's rank correlation against R cor(method = 'spearman')", () =>
     it(`${c.name} (${c.source}) to 1e-12`, () => {
       expect(spearman(c.x, c.y)).toBeCloseRel(c.spearman, 1e-12);
     });
+    it(`${c.name}: rows of weight 0 are left out (R's value on the other rows, with three zero-weight rows appended that would reverse it)`, () => {
+      const n = c.x.length;
+      const x = [...c.x, -1e9, -2e9, -3e9];
+      const y = [...c.y, 1e9, 2e9, 3e9];
+      const w = [...Array<number>(n).fill(1), 0, 0, 0];
+      expect(spearman(x, y, w)).toBeCloseRel(c.spearman, 1e-12);
+    });
   }
 });
 

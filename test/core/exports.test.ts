@@ -24,7 +24,7 @@ describe('src/core/index.ts', () => {
       'RatchetError', 'SplitMix64', 'bandAt', 'checkKnotTable', 'crossValidate', 'crossValidateSurface',
       'defaultCandidates', 'evaluateTable', 'fail', 'fitBandModel', 'fitMonotone', 'fitShapedBandModel', 'fitSurface',
       'interpolate', 'interpolateAt', 'inverseBand', 'invertAt', 'invertChecked', 'invertTable', 'isRatchetError',
-      'kFoldAssignment', 'knotRegression', 'predict', 'predictSurface', 'quantileKnots', 'spearman', 'suggestKnots',
+      'kFoldAssignment', 'knotRegression', 'normalDeviates', 'predict', 'predictSurface', 'quantileKnots', 'spearman', 'suggestKnots',
       'suggestSurfaceKnots',
     ]);
   });

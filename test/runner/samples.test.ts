@@ -4,12 +4,14 @@
  * expectations are those the generator produces now; the files hold the stored formula form and
  * say on their About sheet that scenario and data are invented.
  */
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import ExcelJS from 'exceljs';
 import { describe, expect, it } from 'vitest';
 import { EvaluatedWorkbook } from '../../src/runner/workbook.js';
 import { buildSamples, type SampleFormula } from '../../scripts/samples/samples.js';
+import { writeSampleWorkbook } from '../../scripts/samples/sample-workbook.js';
 import { closeBlock } from './helpers.js';
 
 const DIR = join(import.meta.dirname, '..', '..', 'samples');
@@ -37,6 +39,44 @@ describe('sample workbooks', () => {
         const problem = closeBlock(f.expected, committed[i]!.expected, REL);
         expect(problem === undefined ? 'ok' : `${s.file} ${f.cell}: ${problem}`).toBe('ok');
       });
+    }
+  });
+
+  // The cells of a workbook's sheets: text and formulas (with their spill range) exactly, stored
+  // results and numbers as numbers, so that they can be compared to a relative tolerance.
+  async function cellsOf(path: string): Promise<Map<string, unknown>> {
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.readFile(path);
+    const out = new Map<string, unknown>();
+    for (const ws of wb.worksheets) ws.eachRow((row) => row.eachCell((c) => out.set(`${ws.name}!${c.address}`, c.value)));
+    return out;
+  }
+
+  it('each committed workbook holds the cells the generator writes now: same formulas and spill ranges, same cached results (run `npm run samples` after a change)', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'ratchet-samples-'));
+    try {
+      for (const s of buildSamples()) {
+        const fresh = join(dir, s.file);
+        await writeSampleWorkbook(s, fresh);
+        const now = await cellsOf(fresh);
+        const committed = await cellsOf(join(DIR, s.file));
+        expect([...committed.keys()].sort(), s.file).toEqual([...now.keys()].sort());
+        for (const [at, v] of now) {
+          const old = committed.get(at);
+          const num = (x: unknown): number | undefined =>
+            typeof x === 'number' ? x : x !== null && typeof x === 'object' && typeof (x as { result?: unknown }).result === 'number' ? (x as { result: number }).result : undefined;
+          const a = num(v);
+          const b = num(old);
+          if (a !== undefined && b !== undefined) {
+            expect(Math.abs(a - b) <= REL * Math.max(1, Math.abs(a)), `${s.file} ${at}: ${b} committed, ${a} now`).toBe(true);
+            if (typeof v === 'object') expect({ ...(old as object), result: 0 }, `${s.file} ${at}`).toEqual({ ...(v as object), result: 0 });
+          } else {
+            expect(old, `${s.file} ${at}`).toEqual(v);
+          }
+        }
+      }
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
     }
   });
 
