@@ -155,8 +155,9 @@ export function resolveAxisDirection(x: ArrayLike<number>, y: ArrayLike<number>,
  * subject to θ monotone along x1 in every row and along x2 in every column (each direction `'up'`,
  * `'down'` or `'none'`; `'auto'` is resolved first, per input, by the sign of Spearman's rank
  * correlation of that input with y over the rows with positive weight — ρ ≥ 0 or undefined gives
- * `'up'`, ρ < 0 `'down'`, the rule of the one-input fit; the model reports the result). A monotone lattice gives a surface monotone everywhere, because on each
- * cell ∂f/∂x1 is a convex combination of the two edge differences.
+ * `'up'`, ρ < 0 `'down'`, the rule of the one-input fit; the model reports the result). A
+ * monotone lattice gives a surface monotone everywhere, because on each cell ∂f/∂x1 is a convex
+ * combination of the two edge differences.
  *
  * Classic case: with knots1 = knots2 = 0 the lattice is every distinct x1 × every distinct x2 (with
  * positive weight); each row sits on a node, and the fit is bivariate isotonic regression on that
