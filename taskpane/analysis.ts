@@ -8,7 +8,8 @@ import { functionByName } from '../src/functions/registry.js';
 import type { CellArg, CellOut, CellResult, CellValueIn } from '../src/functions/types.js';
 import { mapError } from '../src/adapter/errors.js';
 import { defaultCandidates } from '../src/core/index.js';
-import type { CvSettings, DirectionCode, FitSettings } from './formulas.js';
+import { curveDrawing, type CurvePoint } from '../src/view/curve-points.js';
+import type { CvSettings, FitSettings } from './formulas.js';
 
 /** The chosen data as columns of cells (same length; null for a blank cell). */
 export interface DataColumns {
@@ -21,8 +22,17 @@ export interface DataColumns {
 export interface FitView {
   /** Data points used by the fit (rows where x, y and the weight are all numbers). */
   readonly points: { x: number; y: number }[];
-  /** The knot table (RATCHET.KNOTS): the curve's vertices. */
+  /**
+   * The knot table (RATCHET.KNOTS, its first two columns): the curve's vertices, or for a smooth
+   * fit its knots and interval midpoints.
+   */
   readonly knots: [number, number][];
+  /** True for a smooth fit (degree 2): the table has a third column of 2s and is read by parabolas. */
+  readonly smooth: boolean;
+  /** The line the chart draws: the vertices, or the smooth curve sampled by RATCHET.EVAL (curve-points.ts). */
+  readonly curve: CurvePoint[];
+  /** The knot markers: every row, or for a smooth fit the knots (not the midpoints). */
+  readonly knotMarkers: CurvePoint[];
   /** RATCHET.STATS label/value rows. */
   readonly stats: [string, CellOut][];
 }
@@ -68,17 +78,29 @@ function grid(r: CellResult): CellOut[][] {
   return Array.isArray(r) ? r : [[r]];
 }
 
-/** The fit arguments (known_ys, known_xs, knots, direction, weights) as cells. */
+/**
+ * The fit arguments (known_ys, known_xs, knots, direction, weights, curvature, degree) as cells;
+ * weights, curvature and degree are omitted when absent or at their defaults.
+ */
 export function fitArgs(data: DataColumns, fit: FitSettings): CellArg[] {
-  const args: CellArg[] = [columnArg(data.y), columnArg(data.x), fit.knots, fit.direction];
-  if (data.w) args.push(columnArg(data.w));
+  const args: CellArg[] = [columnArg(data.y), columnArg(data.x), fit.knots, fit.direction, data.w ? columnArg(data.w) : undefined, ...shapeCells(fit)];
+  while (args.length > 4 && args[args.length - 1] === undefined) args.pop();
   return args;
+}
+
+/** `curvature` and `degree` as cells (undefined at the defaults 0 and 1). */
+function shapeCells(fit: Pick<FitSettings, 'curvature' | 'degree'>): [CellArg, CellArg] {
+  const c = fit.curvature ?? 0;
+  const d = fit.degree ?? 1;
+  return [c === 0 ? undefined : c, d === 1 ? undefined : d];
 }
 
 /**
  * The fit of the data with these settings: points from RATCHET.FIT (a row is a point when FIT
- * gives it a value), the knot table from RATCHET.KNOTS, statistics from RATCHET.STATS.
- * @throws CellFailure when the functions return an error for these data.
+ * gives it a value), the knot table from RATCHET.KNOTS, statistics from RATCHET.STATS, and the
+ * line to draw from that table (for a smooth fit sampled by RATCHET.EVAL, curve-points.ts).
+ * @throws CellFailure when the functions return an error for these data or settings (e.g.
+ *   "#VALUE! curvature: needs knots (K ≥ 2): …" for the classic fit with a curvature).
  */
 export function computeFit(data: DataColumns, fit: FitSettings): FitView {
   const args = fitArgs(data, fit);
@@ -87,13 +109,31 @@ export function computeFit(data: DataColumns, fit: FitSettings): FitView {
   for (let i = 0; i < fitted.length; i++) {
     if (typeof fitted[i]![0] === 'number') points.push({ x: data.x[i] as number, y: data.y[i] as number });
   }
-  const knots = grid(run('KNOTS', args)).map((r) => [r[0] as number, r[1] as number] as [number, number]);
+  const table = grid(run('KNOTS', args));
+  let drawing: ReturnType<typeof curveDrawing>;
+  try {
+    drawing = curveDrawing(table);
+  } catch (e) {
+    const m = mapError(e);
+    throw new CellFailure(m.code, m.message);
+  }
   const stats = grid(run('STATS', args)).map((r) => [String(r[0]), r[1]!] as [string, CellOut]);
-  return { points, knots, stats };
+  return { points, knots: drawing.rows, smooth: drawing.smooth, curve: drawing.curve, knotMarkers: drawing.knots, stats };
 }
 
-/** The CV / BESTK arguments as cells, in the functions' order (BESTK adds `rule`). */
-export function cvArgs(data: DataColumns, cv: CvSettings, direction: DirectionCode, withRule: boolean): CellArg[] {
+/**
+ * The knot table as RATCHET.KNOTS returns it: (x, value) rows, with the third column 2 of a
+ * smooth fit's table (so that whatever reads it knows to read parabolas, not straight lines).
+ */
+export function knotTableRows(view: FitView): ([number, number] | [number, number, number])[] {
+  return view.knots.map(([x, y]) => (view.smooth ? [x, y, 2] : [x, y]));
+}
+
+/**
+ * The CV / BESTK arguments as cells, in the functions' order (BESTK adds `rule`), with the fit's
+ * direction and shape (`curvature`, `degree` last), so the candidates are scored for that shape.
+ */
+export function cvArgs(data: DataColumns, cv: CvSettings, fit: Pick<FitSettings, 'direction' | 'curvature' | 'degree'>, withRule: boolean): CellArg[] {
   const args: CellArg[] = [
     columnArg(data.y),
     columnArg(data.x),
@@ -101,10 +141,12 @@ export function cvArgs(data: DataColumns, cv: CvSettings, direction: DirectionCo
     cv.folds,
     cv.repeats,
     cv.seed,
-    direction,
+    fit.direction,
     data.w ? columnArg(data.w) : undefined,
   ];
   if (withRule) args.push(cv.rule);
+  args.push(...shapeCells(fit));
+  while (args[args.length - 1] === undefined) args.pop();
   return args;
 }
 
@@ -130,9 +172,14 @@ export function candidateCount(view: FitView, cv: CvSettings): number {
   return defaultCandidates(view.points.map((p) => p.x)).length;
 }
 
-/** The knot table as RFC 4180 CSV with a header line: `knot_x,fitted_value`, full precision. */
-export function knotTableCsv(knots: readonly (readonly [number, number])[]): string {
-  const lines = ['knot_x,fitted_value'];
-  for (const [a, b] of knots) lines.push(`${String(a)},${String(b)}`);
+/**
+ * The knot table as RFC 4180 CSV with a header line: `knot_x,fitted_value`, full precision; a
+ * smooth fit's table (`smooth`) keeps its third column as `degree` (2 in every row), so that the
+ * file, pasted into a sheet, is read by RATCHET.EVAL as the smooth curve and not as a polygon.
+ * @example knotTableCsv([[1, 10], [3, 14]]) // → 'knot_x,fitted_value\r\n1,10\r\n3,14\r\n'
+ */
+export function knotTableCsv(knots: readonly (readonly [number, number])[], smooth = false): string {
+  const lines = [smooth ? 'knot_x,fitted_value,degree' : 'knot_x,fitted_value'];
+  for (const [a, b] of knots) lines.push(smooth ? `${String(a)},${String(b)},2` : `${String(a)},${String(b)}`);
   return `${lines.join('\r\n')}\r\n`;
 }

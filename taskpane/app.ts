@@ -87,7 +87,7 @@ export class App {
     this.fit = new FitPanel();
     this.cv = new CvPanel(client, {
       selection: () => this.selection,
-      direction: () => this.fit.settings().direction,
+      fit: () => this.fit.settings(),
       rowsUsed: () => this.fit.view?.points.length,
     });
     for (const n of document.querySelectorAll<HTMLElement>('[data-only]')) n.hidden = n.dataset.only !== mode;
@@ -103,6 +103,12 @@ export class App {
       this.cv.invalidate('The direction changed: run the suggestion again.');
       this.refresh();
     });
+    for (const id of ['curvature', 'degree']) {
+      el<HTMLSelectElement>(id).addEventListener('change', () => {
+        this.cv.invalidate('The shape changed: run the suggestion again (it compares knot counts for the shape chosen).');
+        this.refresh();
+      });
+    }
     for (const id of ['cv-candidates', 'cv-folds', 'cv-repeats', 'cv-seed', 'cv-rule']) {
       el<HTMLElement>(id).addEventListener('change', () => this.updateFormulas());
     }
@@ -244,6 +250,7 @@ export class App {
     if (!view || !sel || formulas.KNOTS === undefined) return undefined;
     const sizes = {
       knotRows: view.knots.length,
+      knotCols: view.smooth ? 3 : 2,
       candidates: candidateCount(view, this.cv.settings()),
       newXs: this.newXsShape ?? { rows: sel.data.x.length, cols: 1 },
     };

@@ -103,11 +103,13 @@ export class FitChart {
     this.xKind = xKind;
     const d = this.chart.data.datasets;
     d[0]!.data = view ? view.points.map((q) => ({ x: q.x, y: q.y })) : [];
-    const vertices = view ? view.knots.map(([x, y]) => ({ x, y })) : [];
-    d[1]!.data = vertices;
-    d[2]!.data = vertices.map((v) => ({ ...v }));
+    // The curve: the knot table's vertices, or a smooth fit sampled densely by RATCHET.EVAL
+    // (analysis.ts, curve-points.ts); the markers sit at the knots only.
+    d[1]!.data = view ? view.curve.map((q) => ({ x: q.x, y: q.y })) : [];
+    const markers = view ? view.knotMarkers.map((q) => ({ x: q.x, y: q.y })) : [];
+    d[2]!.data = markers;
     // Many knots (classic fit at every distinct x): smaller markers so the data stay visible.
-    (d[2] as ChartDataset<'scatter', XY[]>).pointRadius = vertices.length > 40 ? 2.5 : 5;
+    (d[2] as ChartDataset<'scatter', XY[]>).pointRadius = markers.length > 40 ? 2.5 : 5;
     const sc = this.chart.options.scales!;
     (sc.x as { title: { text: string } }).title.text = labels.x;
     (sc.x as { ticks: { callback?: unknown } }).ticks.callback = xKind === 'date' ? (v: number | string) => formatSerial(Number(v)) : undefined;

@@ -14,11 +14,33 @@ export interface DataRefs {
   readonly w?: string | undefined;
 }
 
+/** Curvature codes as the worksheet functions take them: 0 any, −1 concave, 1 convex. */
+export type CurvatureCode = 0 | -1 | 1;
+
+/** Degree codes as the worksheet functions take them: 1 piecewise linear, 2 smooth. */
+export type DegreeCode = 1 | 2;
+
 /** Fit settings of the pane. */
 export interface FitSettings {
   /** 0 = classic fit, or a knot count ≥ 2. */
   readonly knots: number;
   readonly direction: DirectionCode;
+  /** The shape: 0 any (default), −1 concave, 1 convex (the functions' `curvature`). */
+  readonly curvature?: CurvatureCode | undefined;
+  /** 1 piecewise linear (default), 2 smooth (the functions' `degree`). */
+  readonly degree?: DegreeCode | undefined;
+}
+
+/**
+ * The `curvature` and `degree` arguments as formula text: both omitted at their defaults (0 and
+ * 1), so the pane's formulas for a plain fit stay as they were; `degree` alone leaves
+ * `curvature` empty. Cost O(1).
+ * @example shapeArgs({ knots: 4, direction: 1, degree: 2 }) // → [undefined, '2']
+ */
+export function shapeArgs(fit: FitSettings): [string | undefined, string | undefined] {
+  const c = fit.curvature ?? 0;
+  const d = fit.degree ?? 1;
+  return [c === 0 ? undefined : String(c), d === 1 ? undefined : String(d)];
 }
 
 /** Cross-validation settings of the pane; `candidates` undefined = the functions' default. */
@@ -64,20 +86,22 @@ export function formulaFor(kind: FormulaKind, refs: DataRefs, fit: FitSettings, 
   const w = refs.w;
   const k = String(fit.knots);
   const d = String(fit.direction);
+  // curvature and degree come last in every one of these functions (README, "Shapes").
+  const shape = shapeArgs(fit);
   switch (kind) {
     case 'KNOTS':
-      return `=RATCHET.KNOTS(${argList([refs.y, refs.x, k, d, w])})`;
+      return `=RATCHET.KNOTS(${argList([refs.y, refs.x, k, d, w, ...shape])})`;
     case 'STATS':
-      return `=RATCHET.STATS(${argList([refs.y, refs.x, k, d, w])})`;
+      return `=RATCHET.STATS(${argList([refs.y, refs.x, k, d, w, ...shape])})`;
     case 'PREDICT':
-      return `=RATCHET.PREDICT(${argList([newXs ?? refs.x, refs.y, refs.x, k, d, w])})`;
+      return `=RATCHET.PREDICT(${argList([newXs ?? refs.x, refs.y, refs.x, k, d, w, ...shape])})`;
     case 'CV':
     case 'BESTK': {
       const cand = cv.candidates === undefined ? undefined : candidatesText(cv.candidates);
       const base = [refs.y, refs.x, cand, String(cv.folds), String(cv.repeats), String(cv.seed), d, w];
-      if (kind === 'CV') return `=RATCHET.CV(${argList(base)})`;
-      // BESTK has `rule` after weights; write it only when it is not the default (1).
-      return `=RATCHET.BESTK(${argList([...base.slice(0, 7), w, cv.rule === 1 ? undefined : '0'])})`;
+      if (kind === 'CV') return `=RATCHET.CV(${argList([...base, ...shape])})`;
+      // BESTK has `rule` after weights; write it only when it is not the default (1) or a shape follows.
+      return `=RATCHET.BESTK(${argList([...base, cv.rule === 1 ? undefined : '0', ...shape])})`;
     }
   }
 }
@@ -97,6 +121,8 @@ export function allFormulas(refs: DataRefs, fit: FitSettings, cv: CvSettings, ne
 export interface SpillInputs {
   /** Rows of the knot table the functions return for these data and settings (RATCHET.KNOTS). */
   readonly knotRows: number;
+  /** Columns of that table: 2, or 3 for a smooth fit's table (its third column of 2s); default 2. */
+  readonly knotCols?: number | undefined;
   /** Number of candidates CV compares (the default list when none are given). */
   readonly candidates: number;
   /** Shape of PREDICT's new_xs. */
@@ -109,13 +135,14 @@ export const STATS_ROWS = 13;
 export const CV_COLS = 6;
 
 /**
- * Rows × columns a result occupies from its anchor cell: KNOTS knotRows × 2, STATS 13 × 2, CV
+ * Rows × columns a result occupies from its anchor cell: KNOTS knotRows × 2 (× 3 for a smooth
+ * fit), STATS 13 × 2, CV
  * (candidates + 1 header row) × 6, PREDICT the shape of new_xs, BESTK 1 × 1.
  */
 export function spillSize(kind: FormulaKind, s: SpillInputs): { rows: number; cols: number } {
   switch (kind) {
     case 'KNOTS':
-      return { rows: s.knotRows, cols: 2 };
+      return { rows: s.knotRows, cols: s.knotCols ?? 2 };
     case 'STATS':
       return { rows: STATS_ROWS, cols: 2 };
     case 'CV':

@@ -11,7 +11,7 @@ import type { CellValueIn } from '../src/functions/types.js';
 import { absoluteRef, areaSize, intersects, parseAddress, tableColumnRef, type Area } from './refs.js';
 import { insertFormula, type Confirm } from './insert.js';
 import { spillSize, type FormulaKind } from './formulas.js';
-import { candidateCount } from './analysis.js';
+import { candidateCount, knotTableRows } from './analysis.js';
 import { gridSpill } from './surface-view.js';
 import { textCellsOf } from './panels/left-out-panel.js';
 import { freezeWorkbook, insertAll, insertPortableCurve } from './panels/handoff-panel.js';
@@ -339,7 +339,8 @@ export class OfficeData {
     }
     const target = this.targetCell();
     if (target === undefined) return;
-    const outcome = await insertPortableCurve(Excel, view.knots, target, this.inputAreas(), this.confirm);
+    // A smooth fit's table keeps its third column: the portable formulas refuse it with a message.
+    const outcome = await insertPortableCurve(Excel, knotTableRows(view), target, this.inputAreas(), this.confirm);
     this.insertStatus(
       outcome.written
         ? `Wrote the knot table (${view.knots.length} knots) as values in ${outcome.area}, with formulas that need no add-in: type x values into the "new x" column.`
@@ -376,6 +377,7 @@ export class OfficeData {
     if (nx !== '') newXs = areaSize(parseAddress(nx));
     const size = spillSize(kind, {
       knotRows: view.knots.length,
+      knotCols: view.smooth ? 3 : 2,
       candidates: candidateCount(view, cv),
       newXs,
     });

@@ -227,7 +227,12 @@ export function niceTicks(lo: number, hi: number, count = 6, min = 4): number[] 
 
 const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
 
-/** The SVG picture of one fit: data points, classic fit (thin), knot fit and its knots, axes, labels. */
+/**
+ * The SVG picture of one fit: data points, a comparison fit (thin, dashed: the classic fit unless
+ * labelled otherwise), the knot fit and its knots, axes, labels. `curve` is the line of the fit
+ * when it is not the polygon through `knots` (a smooth fit sampled densely); `subtitle`,
+ * `fitLabel` and `comparisonLabel` replace the default texts.
+ */
 export function fitSvg(p: {
   title: string;
   xLabel: string;
@@ -236,12 +241,19 @@ export function fitSvg(p: {
   knots: readonly [number, number][];
   classic: readonly [number, number][];
   suggested: number;
+  curve?: readonly [number, number][];
+  subtitle?: string;
+  fitLabel?: string;
+  comparisonLabel?: string;
 }): string {
+  const curve = p.curve ?? p.knots;
+  const fitLabel = p.fitLabel ?? `fit with ${p.suggested} knots, and its knots`;
+  const comparisonLabel = p.comparisonLabel ?? 'classic fit';
   const W = 720;
   const H = 460;
   const m = { left: 72, right: 24, top: 48, bottom: 64 };
   const allX = [...p.points.map((q) => q[0]), ...p.knots.map((q) => q[0])];
-  const allY = [...p.points.map((q) => q[1]), ...p.knots.map((q) => q[1]), ...p.classic.map((q) => q[1])];
+  const allY = [...p.points.map((q) => q[1]), ...curve.map((q) => q[1]), ...p.classic.map((q) => q[1])];
   let [x0, x1] = [Math.min(...allX), Math.max(...allX)];
   let [y0, y1] = [Math.min(...allY), Math.max(...allY)];
   const padX = (x1 - x0 || 1) * 0.04;
@@ -254,7 +266,7 @@ export function fitSvg(p: {
   parts.push(`<svg xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" font-family="sans-serif" font-size="12">`);
   parts.push(`<rect width="${W}" height="${H}" fill="white"/>`);
   parts.push(`<text x="${W / 2}" y="22" text-anchor="middle" font-size="15" font-weight="bold">${esc(p.title)}</text>`);
-  parts.push(`<text x="${W / 2}" y="38" text-anchor="middle" fill="#555">invented data · monotone fit with ${p.suggested} knots (suggested by cross-validation) and the classic fit</text>`);
+  parts.push(`<text x="${W / 2}" y="38" text-anchor="middle" fill="#555">${esc(p.subtitle ?? `invented data · monotone fit with ${p.suggested} knots (suggested by cross-validation) and the classic fit`)}</text>`);
   // Axes, ticks and grid.
   const bx = H - m.bottom;
   parts.push(`<line x1="${m.left}" y1="${bx}" x2="${W - m.right}" y2="${bx}" stroke="black"/>`);
@@ -274,17 +286,19 @@ export function fitSvg(p: {
   // Curves: the classic fit (thin, grey) and the knot fit; both flat to the ends of the data.
   const line = (table: readonly [number, number][]) => table.map(([x, y]) => `${f(sx(x))},${f(sy(y))}`).join(' ');
   parts.push(`<polyline points="${line(p.classic)}" fill="none" stroke="#999" stroke-width="1.2" stroke-dasharray="4 3"/>`);
-  parts.push(`<polyline points="${line(p.knots)}" fill="none" stroke="#1f5fa8" stroke-width="2.4"/>`);
+  parts.push(`<polyline points="${line(curve)}" fill="none" stroke="#1f5fa8" stroke-width="2.4"/>`);
   for (const [x, y] of p.points) parts.push(`<circle cx="${f(sx(x))}" cy="${f(sy(y))}" r="3.2" fill="#e07b00" fill-opacity="0.85"/>`);
   for (const [x, y] of p.knots) parts.push(`<rect x="${f(sx(x) - 4.5)}" y="${f(sy(y) - 4.5)}" width="9" height="9" fill="white" stroke="#1f5fa8" stroke-width="2"/>`);
   // Legend in the upper corner the curve leaves empty (left when rising, right when falling).
   const rising = (p.knots[0]?.[1] ?? 0) <= (p.knots[p.knots.length - 1]?.[1] ?? 0);
-  const lx = rising ? m.left + 14 : W - m.right - 236;
+  // about 6.6 px per character at 12 px sans-serif
+  const lw = Math.max(230, Math.ceil(36 + 6.6 * Math.max(fitLabel.length, comparisonLabel.length)));
+  const lx = rising ? m.left + 14 : W - m.right - lw - 6;
   const ly = m.top + 10;
-  parts.push(`<rect x="${lx - 8}" y="${ly - 10}" width="230" height="66" fill="white" fill-opacity="0.9" stroke="#ccc"/>`);
+  parts.push(`<rect x="${lx - 8}" y="${ly - 10}" width="${lw}" height="66" fill="white" fill-opacity="0.9" stroke="#ccc"/>`);
   parts.push(`<circle cx="${lx}" cy="${ly}" r="3.2" fill="#e07b00"/><text x="${lx + 12}" y="${ly + 4}">data (${p.points.length} points)</text>`);
-  parts.push(`<line x1="${lx - 6}" y1="${ly + 18}" x2="${lx + 6}" y2="${ly + 18}" stroke="#1f5fa8" stroke-width="2.4"/><rect x="${lx - 4}" y="${ly + 14}" width="8" height="8" fill="white" stroke="#1f5fa8" stroke-width="2"/><text x="${lx + 12}" y="${ly + 22}">fit with ${p.suggested} knots, and its knots</text>`);
-  parts.push(`<line x1="${lx - 6}" y1="${ly + 36}" x2="${lx + 6}" y2="${ly + 36}" stroke="#999" stroke-dasharray="4 3"/><text x="${lx + 12}" y="${ly + 40}">classic fit</text>`);
+  parts.push(`<line x1="${lx - 6}" y1="${ly + 18}" x2="${lx + 6}" y2="${ly + 18}" stroke="#1f5fa8" stroke-width="2.4"/><rect x="${lx - 4}" y="${ly + 14}" width="8" height="8" fill="white" stroke="#1f5fa8" stroke-width="2"/><text x="${lx + 12}" y="${ly + 22}">${esc(fitLabel)}</text>`);
+  parts.push(`<line x1="${lx - 6}" y1="${ly + 36}" x2="${lx + 6}" y2="${ly + 36}" stroke="#999" stroke-dasharray="4 3"/><text x="${lx + 12}" y="${ly + 40}">${esc(comparisonLabel)}</text>`);
   parts.push('</svg>');
   return `${parts.join('\n')}\n`;
 }

@@ -7,9 +7,21 @@ import type { WorkerClient } from '../../src/functions/worker-client.js';
 import type { CellResult } from '../../src/functions/types.js';
 import { cvArgs, cvRows } from '../analysis.js';
 import { CvChart, type CvView } from '../charts.js';
-import { parseCandidates, type CvSettings, type DirectionCode } from '../formulas.js';
+import { parseCandidates, type CvSettings, type FitSettings } from '../formulas.js';
 import { el, errorText, fmt, setStatus } from './dom.js';
 import type { Selection } from './selection.js';
+
+/**
+ * The shape a cross-validation ran for, as words for its summary line ("" for the plain fit).
+ * @example shapeWords({ direction: 1, curvature: -1, degree: 2 }) // → ' for concave smooth fits'
+ */
+export function shapeWords(fit: Pick<FitSettings, 'curvature' | 'degree'>): string {
+  const c = fit.curvature ?? 0;
+  const d = fit.degree ?? 1;
+  if (c === 0 && d === 1) return '';
+  const words = [c === -1 ? 'concave' : c === 1 ? 'convex' : '', d === 2 ? 'smooth' : 'piecewise-linear'].filter((w) => w !== '');
+  return ` for ${words.join(' ')} fits`;
+}
 
 /** State of the cross-validation run. */
 export type CvState = 'idle' | 'running' | 'done' | 'cancelled' | 'error';
@@ -17,7 +29,8 @@ export type CvState = 'idle' | 'running' | 'done' | 'cancelled' | 'error';
 /** What the panel needs from the rest of the pane. */
 export interface CvHost {
   selection(): Selection | undefined;
-  direction(): DirectionCode;
+  /** The fit's direction and shape: the candidates are cross-validated for this shape. */
+  fit(): Pick<FitSettings, 'direction' | 'curvature' | 'degree'>;
   /** Rows the current fit uses (undefined without a fit). */
   rowsUsed(): number | undefined;
 }
@@ -101,7 +114,7 @@ export class CvPanel {
       this.status(errorText(e), true);
       return;
     }
-    const direction = this.host.direction();
+    const fit = this.host.fit();
     const abort = new AbortController();
     this.abort = abort;
     this.state = 'running';
@@ -112,11 +125,11 @@ export class CvPanel {
     this.status('Cross-validating…');
     const started = performance.now();
     try {
-      const table: CellResult = await this.client.run('cv', 'CV', cvArgs(sel.data, cv, direction, false), {
+      const table: CellResult = await this.client.run('cv', 'CV', cvArgs(sel.data, cv, fit, false), {
         signal: abort.signal,
         onProgress: (f) => this.setProgress(f),
       });
-      const best = await this.client.run('cv', 'BESTK', cvArgs(sel.data, cv, direction, true), { signal: abort.signal });
+      const best = await this.client.run('cv', 'BESTK', cvArgs(sel.data, cv, fit, true), { signal: abort.signal });
       if (this.abort !== abort) return;
       const rows = cvRows(table);
       const rule = cv.rule;
@@ -132,7 +145,7 @@ export class CvPanel {
       this.summary = () =>
         `Suggested knot count: ${b === 0 ? '0 (classic fit)' : b} by the ${rule === 1 ? 'one-standard-error rule' : 'minimum cv_rmse'}` +
           (r ? ` (cv_rmse ${fmt(r.cvRmse)} ± ${fmt(r.cvSe)})` : '') +
-          `; ${rows.length} candidates, ${cv.folds} folds × ${cv.repeats} repeat${cv.repeats === 1 ? '' : 's'}, ${ms} ms.` +
+          `${shapeWords(fit)}; ${rows.length} candidates, ${cv.folds} folds × ${cv.repeats} repeat${cv.repeats === 1 ? '' : 's'}, ${ms} ms.` +
           (few ? ' Few points: this choice is noisy.' : '');
       this.status(this.summary());
       el<HTMLButtonElement>('use-suggestion').disabled = false;

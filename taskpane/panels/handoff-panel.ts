@@ -69,9 +69,11 @@ export const PORTABLE_NEW_X_ROWS = 10;
  * empty column, then a "new x" column with, beside each cell, the INDEX/MATCH formula that
  * predicts there (linear between knots, flat beyond the ends) — built-in functions only.
  * The area is (max(K, 10) + 1) rows × 5 columns.
- * @throws RatchetError from portableCurveBlock for a knot table the formulas could not read; Error from the guard.
+ * @throws RatchetError from portableCurveBlock for a knot table the formulas could not read —
+ *   among them a smooth fit's table (rows with a third column 2), which straight lines would not
+ *   reproduce; Error from the guard.
  */
-export function insertPortableCurve(excel: ExcelLike, knots: readonly (readonly [number, number])[], target: string, inputs: readonly Area[], confirm: Confirm): Promise<InsertOutcome> {
+export function insertPortableCurve(excel: ExcelLike, knots: readonly (readonly [number, number] | readonly [number, number, number])[], target: string, inputs: readonly Area[], confirm: Confirm): Promise<InsertOutcome> {
   const anchor = parseAddress(target);
   const cells: PortableCell[] = portableCurveBlock(knots, { row: anchor.r1, col: anchor.c1 }, PORTABLE_NEW_X_ROWS);
   const rows = Math.max(knots.length, PORTABLE_NEW_X_ROWS) + 1;

@@ -8,7 +8,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { candidateCount, computeFit } from '../../taskpane/analysis.js';
+import { candidateCount, computeFit, knotTableRows } from '../../taskpane/analysis.js';
 import { allFormulas, type CvSettings, type FitSettings } from '../../taskpane/formulas.js';
 import { layoutBlocks, paneBlocks, BLOCK_LABELS } from '../../taskpane/layout.js';
 import { evaluate, type SetupCell } from '../runner/helpers.js';
@@ -47,10 +47,12 @@ describe('the "Copy formulas" block pasted beside the data', () => {
   it.each([
     ['the classic fit', { knots: 0, direction: 1 }],
     ['5 knots', { knots: 5, direction: 1 }],
+    ['5 knots, convex', { knots: 5, direction: 1, curvature: 1 }],
+    ['4 knots, concave and smooth (a 7 × 3 knot table)', { knots: 4, direction: 1, curvature: -1, degree: 2 }],
   ] as [string, FitSettings][])('%s: no #SPILL!, each result fills exactly the room it was given', (_name, fit) => {
     const data = { x: cars.x, y: cars.y };
     const view = computeFit(data, fit);
-    const sizes = { knotRows: view.knots.length, candidates: candidateCount(view, cv), newXs: { rows: n, cols: 1 } };
+    const sizes = { knotRows: view.knots.length, knotCols: view.smooth ? 3 : 2, candidates: candidateCount(view, cv), newXs: { rows: n, cols: 1 } };
     const layout = layoutBlocks(paneBlocks(allFormulas(refs, fit, cv), sizes));
     const book = evaluate({ Data: pasted(layout.text, 0, 3) });
     expect(spilled(book)).toEqual([]);
@@ -62,7 +64,7 @@ describe('the "Copy formulas" block pasted beside the data', () => {
       expect(book.value(`Data!${cellName(b.dr, 3 + b.dc - 1)}`)).toBe(b.label);
     }
     const knots = layout.blocks.find((b) => b.label === BLOCK_LABELS.KNOTS)!;
-    expect(book.result(`Data!${cellName(knots.dr, 3 + knots.dc)}`)).toEqual(view.knots);
+    expect(book.result(`Data!${cellName(knots.dr, 3 + knots.dc)}`)).toEqual(knotTableRows(view));
   });
 
   it('control: the same formulas pasted one per row collide, and the check sees it', () => {
