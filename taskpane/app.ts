@@ -1,6 +1,7 @@
 /**
  * The task pane controller shared by Excel and the browser preview: composes the panels (one small
- * module each under taskpane/panels/: fit, cross-validation, surface, formulas), wires the
+ * module each under taskpane/panels/: fit, band and residuals, direction warning, read-back,
+ * cross-validation, surface, formulas), wires the
  * controls to them, and exposes a read-only snapshot for the end-to-end tests
  * (`window.__ratchetTest.snapshot()`). Where the data come from is the business of
  * preview-mode.ts and office-mode.ts, which call {@link App.setSelection}.
@@ -20,6 +21,10 @@ import { layoutBlocks, paneBlocks, type BlockLayout, type FormulaBlock } from '.
 import { candidateCount } from './analysis.js';
 import { gridSpill } from './surface-view.js';
 import { showLeftOut } from './panels/left-out-panel.js';
+import { BandPanel } from './panels/band-panel.js';
+import { DirectionPanel } from './panels/direction-panel.js';
+import { ReadbackPanel, type ReadBackShown } from './panels/readback-panel.js';
+import type { BandFormulaSettings } from './formulas.js';
 
 export type { Selection } from './panels/selection.js';
 export type { CvState } from './panels/cv-panel.js';
@@ -56,6 +61,16 @@ export interface Snapshot {
   readonly copied: string | null;
   /** The lines of the list of cells left out because they hold text or a logical value. */
   readonly leftOut: string[];
+  /** The band shaded on the fit chart (null when none), and why none is drawn ('' when one is). */
+  readonly band: { label: string; level: number; kind: 1 | 2; upper: { x: number; y: number }[]; lower: { x: number; y: number }[] } | null;
+  readonly bandNote: string;
+  /** The residual plot's points (x, y − fitted) and its zero line. */
+  readonly residuals: { x: number; y: number }[];
+  readonly residualZero: { x: number; y: number }[];
+  /** The read-back box. */
+  readonly readback: ReadBackShown;
+  /** The direction warning shown (null when none). */
+  readonly directionWarning: { text: string; suggested: 'up' | 'down'; spearman: number; n: number } | null;
 }
 
 
@@ -72,6 +87,13 @@ export class App {
   private readonly cv: CvPanel;
   private readonly surface = new SurfacePanel();
   private readonly formulaPanel = new FormulasPanel();
+  private readonly band: BandPanel;
+  private readonly direction: DirectionPanel;
+  private readonly readback = new ReadbackPanel();
+  /** INVERTBAND's target_ys from the host (Office mode: a range), else the read-back target. */
+  targetsRef: string | undefined;
+  /** Shape of INVERTBAND's target_ys when it is a range. */
+  targetsShape: { rows: number; cols: number } | undefined;
   /** Extra formula options from the host (PREDICT's new_xs). */
   newXsRef: string | undefined;
   /** Shape of PREDICT's new_xs when it is not the x column (Office mode: the new_xs range). */
@@ -85,6 +107,14 @@ export class App {
     this.mode = mode;
     const client = new WorkerClient(() => workerFactory());
     this.fit = new FitPanel();
+    this.band = new BandPanel(this.fit.chart);
+    this.fit.summaryTail = () => this.band.sentence(true);
+    this.direction = new DirectionPanel((d) => {
+      const select = el<HTMLSelectElement>('direction');
+      select.value = String(d);
+      select.dispatchEvent(new Event('change'));
+      select.focus();
+    });
     this.cv = new CvPanel(client, {
       selection: () => this.selection,
       fit: () => this.fit.settings(),
@@ -98,6 +128,7 @@ export class App {
 
   private wire(): void {
     el<HTMLInputElement>('knots').addEventListener('change', () => this.refresh());
+    for (const id of ['band-level', 'band-kind', 'readback-target', 'readback-replicates']) el<HTMLElement>(id).addEventListener('change', () => this.refresh());
     for (const id of ['knots1', 'knots2', 'direction1', 'direction2']) el<HTMLElement>(id).addEventListener('change', () => this.refresh());
     el<HTMLSelectElement>('direction').addEventListener('change', () => {
       this.cv.invalidate('The direction changed: run the suggestion again.');
@@ -130,6 +161,7 @@ export class App {
     const media = window.matchMedia?.('(prefers-color-scheme: dark)');
     media?.addEventListener?.('change', () => {
       this.fit.chart.theme();
+      this.band.theme();
       this.cv.chart.theme();
     });
   }
@@ -190,6 +222,11 @@ export class App {
   refresh(): void {
     const sel = this.selection;
     this.fit.show(sel, this.inputProblem);
+    const fit = this.fit.settings();
+    this.band.render(sel, this.fit.view, fit);
+    this.direction.render(this.band.rows, this.fit.view);
+    this.readback.render(sel, this.fit.view, fit, this.band.controls().level, this.band.rows);
+    if (this.fit.view) this.fit.summarise();
     this.fit.renderStats();
     this.fit.renderKnotTable();
     showLeftOut(sel?.leftOut ?? []);
@@ -207,8 +244,23 @@ export class App {
       cv: () => this.cv.settings(),
       surface: () => this.surface.settings(),
       newXsRef: this.newXsRef,
+      band: this.bandFormulaSettings(),
     });
     if (error !== undefined) this.cv.status(errorText(error), true);
+  }
+
+  /**
+   * The band controls as BAND and INVERTBAND formulas take them; undefined while the level or the
+   * readings are not valid numbers. INVERTBAND's target_ys: the host's range, else the read-back
+   * target when it is a number.
+   */
+  private bandFormulaSettings(): BandFormulaSettings | undefined {
+    const level = this.band.level();
+    const { target, replicates } = this.readback.inputs();
+    const m = replicates === '' ? 1 : Number(replicates);
+    if (level === undefined || !(m >= 1) || !Number.isFinite(m)) return undefined;
+    const t = target === '' ? NaN : Number(target);
+    return { level, kind: this.band.controls().kind, replicates: m, targets: this.targetsRef ?? (Number.isFinite(t) ? String(t) : undefined) };
   }
 
   /** The RATCHET.GRID formula for the current x2 and surface settings (undefined without x2). */
@@ -253,6 +305,7 @@ export class App {
       knotCols: view.smooth ? 3 : 2,
       candidates: candidateCount(view, this.cv.settings()),
       newXs: this.newXsShape ?? { rows: sel.data.x.length, cols: 1 },
+      targets: this.targetsRef === undefined ? undefined : this.targetsShape,
     };
     const blocks: FormulaBlock[] = paneBlocks(formulas, sizes).map((b) => (b.formula === formulas.STATS ? { ...b, rows: Math.max(b.rows, view.stats.length) } : b));
     const surface = this.surface.view;
@@ -329,7 +382,21 @@ export class App {
       xTicks: (this.fit.chart.chart.scales['x']?.ticks ?? []).map((t) => String(t.label)),
       copied: this.copiedText,
       leftOut: [...document.querySelectorAll('#left-out-list li')].map((li) => li.textContent ?? ''),
+      ...this.uncertaintySnapshot(),
     });
+  }
+
+  private uncertaintySnapshot(): Pick<Snapshot, 'band' | 'bandNote' | 'residuals' | 'residualZero' | 'readback' | 'directionWarning'> {
+    const b = this.band.snapshot();
+    const w = this.direction.warning;
+    return {
+      band: b.band,
+      bandNote: b.note,
+      residuals: b.residuals,
+      residualZero: b.zero,
+      readback: this.readback.shown(),
+      directionWarning: w ? { text: el<HTMLElement>('direction-warning-text').textContent ?? '', suggested: w.suggested, spearman: w.spearman, n: w.n } : null,
+    };
   }
 
   private exposeTestHook(): void {

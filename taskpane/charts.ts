@@ -26,12 +26,14 @@ Chart.register(ScatterController, LineController, LinearScale, PointElement, Lin
 
 type XY = { x: number; y: number };
 
-function cssVar(name: string, fallback: string): string {
+/** A CSS custom property of the page (theme colours), or `fallback` when unset. O(1). @example cssVar('--chart-band', '#888') // → 'rgba(74, 111, 165, 0.22)' */
+export function cssVar(name: string, fallback: string): string {
   const v = getComputedStyle(document.documentElement).getPropertyValue(name).trim();
   return v === '' ? fallback : v;
 }
 
-interface Palette {
+/** The chart colours of the current theme. */
+export interface Palette {
   points: string;
   curve: string;
   knots: string;
@@ -41,7 +43,8 @@ interface Palette {
   mark: string;
 }
 
-function palette(): Palette {
+/** The chart colours read from the page's CSS custom properties now (light or dark). O(1). */
+export function palette(): Palette {
   return {
     points: cssVar('--chart-points', '#4a6fa5'),
     curve: cssVar('--chart-curve', '#c2410c'),
@@ -54,11 +57,11 @@ function palette(): Palette {
 }
 
 /** A number on a chart (tooltips, value ticks): the digits the pane shows. */
-const num = (v: number): string => formatNumber(v, shownDigits());
+export const num = (v: number): string => formatNumber(v, shownDigits());
 /** Tick labels: at most the digits shown, and Chart.js's own step-aware rounding when shorter. */
-const tick = (v: number | string): string => (typeof v === 'number' ? num(v) : v);
+export const tick = (v: number | string): string => (typeof v === 'number' ? num(v) : v);
 /** Ticks small enough for a 320 px pane. */
-const TICK_FONT = { size: 11 };
+export const TICK_FONT = { size: 11 };
 
 /** The fit chart. */
 export class FitChart {
@@ -129,7 +132,8 @@ export class FitChart {
   }
 }
 
-function applyAxisTheme(chart: Chart, p: Palette): void {
+/** Sets the axis, tick, legend and title colours of `chart` from `p` (the caller updates the chart). O(axes). */
+export function applyAxisTheme(chart: Chart, p: Palette): void {
   // Assign single properties: Chart.js options are proxies, and copying them (spread) is not supported.
   for (const s of Object.values(chart.options.scales ?? {})) {
     const scale = s as { grid: { color?: unknown }; ticks: { color?: unknown }; title: { color?: unknown } };

@@ -1,6 +1,7 @@
 /**
- * The formulas the task pane inserts or offers to copy: RATCHET.KNOTS, PREDICT, STATS, CV and
- * BESTK over the chosen ranges, and the size of the area each result spills into.
+ * The formulas the task pane inserts or offers to copy: RATCHET.KNOTS, PREDICT, STATS, CV,
+ * BESTK, BAND and INVERTBAND over the chosen ranges, and the size of the area each result spills
+ * into.
  * Pure functions, no host APIs.
  */
 
@@ -53,8 +54,23 @@ export interface CvSettings {
   readonly rule: 1 | 0;
 }
 
-/** The kinds of formula the pane inserts. */
-export type FormulaKind = 'KNOTS' | 'PREDICT' | 'STATS' | 'CV' | 'BESTK';
+/** The kinds of formula written from the fit and cross-validation settings alone (formulaFor). */
+export type FitFormulaKind = 'KNOTS' | 'PREDICT' | 'STATS' | 'CV' | 'BESTK';
+
+/** The kinds of formula the pane inserts: those of formulaFor, and BAND and INVERTBAND (bandFormulas). */
+export type FormulaKind = FitFormulaKind | 'BAND' | 'INVERTBAND';
+
+/** The band controls of the pane as BAND and INVERTBAND take them (see bandFormulas). */
+export interface BandFormulaSettings {
+  /** 0 < level < 1. */
+  readonly level: number;
+  /** 1 confidence band for the curve, 2 prediction band for one new observation. */
+  readonly kind: 1 | 2;
+  /** Readings averaged into each target of INVERTBAND, ≥ 1. */
+  readonly replicates: number;
+  /** INVERTBAND's target_ys: a reference or a number as formula text; undefined = no INVERTBAND. */
+  readonly targets?: string | undefined;
+}
 
 /**
  * The candidates argument as formula text: `SEQUENCE(n,1,a)` for a run a, a+1, …, otherwise an
@@ -82,7 +98,7 @@ function argList(args: readonly (string | undefined)[]): string {
  * The formula text of one kind, e.g. `=RATCHET.KNOTS($B$2:$B$31,$A$2:$A$31,5,1)`.
  * `newXs` is the reference PREDICT reads (default: the x data).
  */
-export function formulaFor(kind: FormulaKind, refs: DataRefs, fit: FitSettings, cv: CvSettings, newXs?: string): string {
+export function formulaFor(kind: FitFormulaKind, refs: DataRefs, fit: FitSettings, cv: CvSettings, newXs?: string): string {
   const w = refs.w;
   const k = String(fit.knots);
   const d = String(fit.direction);
@@ -106,8 +122,27 @@ export function formulaFor(kind: FormulaKind, refs: DataRefs, fit: FitSettings, 
   }
 }
 
+/**
+ * RATCHET.BAND and RATCHET.INVERTBAND for the pane's fit and band controls, with level, kind and
+ * replicates written out (also when they are the defaults), so the formula says what it shows.
+ * Both need the knot model with straight segments: for the classic fit (knots 0) and the smooth
+ * curve (degree 2) the result is empty. INVERTBAND only when `band.targets` is given. A shape is
+ * written last, as in the other formulas (shapeArgs). Cost O(1).
+ * @param refs the data references; `newXs` BAND's new_xs (default: the x data).
+ * @example bandFormulas({ y: '$B$2:$B$7', x: '$A$2:$A$7' }, { knots: 2, direction: 1 }, { level: 0.9, kind: 2, replicates: 1, targets: '15' }).INVERTBAND
+ * // → '=RATCHET.INVERTBAND(15,$B$2:$B$7,$A$2:$A$7,2,1,,0.9,1)'
+ */
+export function bandFormulas(refs: DataRefs, fit: FitSettings, band: BandFormulaSettings, newXs?: string): Partial<Record<'BAND' | 'INVERTBAND', string>> {
+  if (fit.knots === 0 || fit.degree === 2) return {};
+  const head = [refs.y, refs.x, String(fit.knots), String(fit.direction), refs.w, String(band.level)];
+  const shape = shapeArgs(fit);
+  const out: Partial<Record<'BAND' | 'INVERTBAND', string>> = { BAND: `=RATCHET.BAND(${argList([newXs ?? refs.x, ...head, String(band.kind), ...shape])})` };
+  if (band.targets !== undefined) out.INVERTBAND = `=RATCHET.INVERTBAND(${argList([band.targets, ...head, String(band.replicates), ...shape])})`;
+  return out;
+}
+
 /** Every formula the pane offers, in display order. */
-export function allFormulas(refs: DataRefs, fit: FitSettings, cv: CvSettings, newXs?: string): Record<FormulaKind, string> {
+export function allFormulas(refs: DataRefs, fit: FitSettings, cv: CvSettings, newXs?: string): Record<FitFormulaKind, string> {
   return {
     KNOTS: formulaFor('KNOTS', refs, fit, cv),
     PREDICT: formulaFor('PREDICT', refs, fit, cv, newXs),
@@ -125,8 +160,15 @@ export interface SpillInputs {
   readonly knotCols?: number | undefined;
   /** Number of candidates CV compares (the default list when none are given). */
   readonly candidates: number;
-  /** Shape of PREDICT's new_xs. */
+  /** Shape of PREDICT's and BAND's new_xs. */
   readonly newXs: { rows: number; cols: number };
+  /** Shape of INVERTBAND's target_ys (default one cell). */
+  readonly targets?: { rows: number; cols: number } | undefined;
+}
+
+/** Three values per cell of a line, as BAND and INVERTBAND spill them: a row → 3 rows, a column or one cell → 3 columns. */
+function threeWide(shape: { rows: number; cols: number }): { rows: number; cols: number } {
+  return shape.rows === 1 && shape.cols > 1 ? { rows: 3, cols: shape.cols } : { rows: shape.rows, cols: 3 };
 }
 
 /** Rows of the STATS table (n, dropped, knots, direction, r2, rmse, mae, sse, levels, text_rows, sigma, df_resid, spearman). */
@@ -136,8 +178,9 @@ export const CV_COLS = 6;
 
 /**
  * Rows × columns a result occupies from its anchor cell: KNOTS knotRows × 2 (× 3 for a smooth
- * fit), STATS 13 × 2, CV
- * (candidates + 1 header row) × 6, PREDICT the shape of new_xs, BESTK 1 × 1.
+ * fit), STATS 13 × 2, CV (candidates + 1 header row) × 6, PREDICT the shape of new_xs, BESTK
+ * 1 × 1, BAND three values per new x and INVERTBAND three per target (three columns for a column
+ * or one cell, three rows for a row).
  */
 export function spillSize(kind: FormulaKind, s: SpillInputs): { rows: number; cols: number } {
   switch (kind) {
@@ -151,6 +194,10 @@ export function spillSize(kind: FormulaKind, s: SpillInputs): { rows: number; co
       return { rows: s.newXs.rows, cols: s.newXs.cols };
     case 'BESTK':
       return { rows: 1, cols: 1 };
+    case 'BAND':
+      return threeWide(s.newXs);
+    case 'INVERTBAND':
+      return threeWide(s.targets ?? { rows: 1, cols: 1 });
   }
 }
 

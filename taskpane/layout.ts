@@ -2,7 +2,7 @@
  * Formula blocks that never collide: the pane's formulas laid out one below the other, each with
  * a label cell on its left and room below and to the right for the whole result it spills
  * (knot table K rows, STATS its rows, CV its candidates plus a header, PREDICT the shape of its
- * new x), one empty row between blocks. The same layout gives the text for "Copy formulas"
+ * new x, BAND and INVERTBAND three values per new x or target), one empty row between blocks. The same layout gives the text for "Copy formulas"
  * (tab-separated cells, one line per worksheet row, so pasting it fills cells) and the cell
  * writes for "Insert all". Pure functions, no host APIs.
  */
@@ -55,10 +55,12 @@ export const BLOCK_LABELS: Readonly<Record<FormulaKind, string>> = {
   CV: 'Cross-validation of knot counts',
   BESTK: 'Suggested knot count',
   PREDICT: 'Fitted values at new x',
+  BAND: 'Band at new x (lower, fitted, upper)',
+  INVERTBAND: 'Read-back x with its interval (lower x, x, upper x)',
 };
 
-/** Order of the blocks: the short ones first, PREDICT (as long as its new x) last. */
-export const BLOCK_ORDER: readonly FormulaKind[] = ['KNOTS', 'STATS', 'CV', 'BESTK', 'PREDICT'];
+/** Order of the blocks: the short ones first, PREDICT and BAND (as long as their new x) last. */
+export const BLOCK_ORDER: readonly FormulaKind[] = ['KNOTS', 'STATS', 'CV', 'BESTK', 'INVERTBAND', 'PREDICT', 'BAND'];
 
 /**
  * Lays out `blocks` from an anchor: label in column 0, formula in column 1, block i + 1 starting

@@ -20,6 +20,19 @@ function el<T extends HTMLElement>(id: string): T {
   return document.getElementById(id) as T;
 }
 
+/**
+ * Why BAND or INVERTBAND has no formula to insert: the classic fit (knots 0) and the smooth curve
+ * (degree 2) have no band; a level or readings field that is not valid; INVERTBAND without a target.
+ * @example bandMissing('BAND', 0) // → 'BAND needs the knot model: set the knot count to 2 or more (the classic fit has no band).'
+ */
+export function bandMissing(kind: 'BAND' | 'INVERTBAND', knots: number, degree: number = 1): string {
+  if (knots === 0) return `${kind} needs the knot model: set the knot count to 2 or more (the classic fit has no band).`;
+  if (degree === 2) return `${kind} needs the piecewise-linear curve: the smooth curve (degree 2) has no band yet.`;
+  return kind === 'INVERTBAND'
+    ? 'INVERTBAND needs a target: type a target y in the read-back box or a target_ys range above (and a valid level and number of readings).'
+    : 'BAND needs a valid level: a number strictly between 0 and 1 (for example 0.95).';
+}
+
 /** A range read from the workbook. */
 export interface ReadRange {
   readonly area: Area;
@@ -157,6 +170,16 @@ export class OfficeData {
     for (const id of ['addr-x', 'addr-y', 'addr-w', 'addr-x2']) {
       el<HTMLInputElement>(id).addEventListener('change', safe(() => this.read(), fitStatus));
     }
+    el<HTMLInputElement>('addr-targets').addEventListener('change', () => {
+      const v = el<HTMLInputElement>('addr-targets').value.trim();
+      app.targetsRef = v === '' ? undefined : this.absolute(v);
+      try {
+        app.targetsShape = v === '' ? undefined : areaSize(parseAddress(v));
+      } catch {
+        app.targetsShape = undefined;
+      }
+      app.updateFormulas();
+    });
     el<HTMLInputElement>('addr-newx').addEventListener('change', () => {
       const v = el<HTMLInputElement>('addr-newx').value.trim();
       app.newXsRef = v === '' ? undefined : this.absolute(v);
@@ -362,6 +385,10 @@ export class OfficeData {
     const r = this.ranges;
     const view = this.app.currentFit();
     const formula = this.app.formula(kind);
+    if (r && view && !formula && (kind === 'BAND' || kind === 'INVERTBAND')) {
+      this.insertStatus(bandMissing(kind, this.app.fitSettings().knots, this.app.fitSettings().degree), true);
+      return;
+    }
     if (!r || !view || !formula) {
       this.insertStatus('Choose data that fit without an error first.', true);
       return;
@@ -380,6 +407,7 @@ export class OfficeData {
       knotCols: view.smooth ? 3 : 2,
       candidates: candidateCount(view, cv),
       newXs,
+      targets: this.app.targetsShape,
     });
     const outcome = await insertFormula(Excel, { formula, target, rows: size.rows, cols: size.cols, inputs: [r.x.area, r.y.area, ...(r.w ? [r.w.area] : [])] }, this.confirm);
     this.insertStatus(outcome.message, !outcome.written);

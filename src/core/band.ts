@@ -480,7 +480,9 @@ export function inverseBand(model: BandModel, targets: ArrayLike<number>, level 
     let lower: number | RatchetError = new RatchetError(
       'NOT_REACHABLE',
       'target_ys',
-      `needs a band whose upper edge falls to ${ys[i]} inside the data's x range; the lower x limit lies below ${searchLo}`,
+      // Left of the read-back a rising curve lies below the target (its upper edge must fall to
+      // it), a falling one above (its lower edge must rise to it).
+      `needs a band whose ${s > 0 ? 'upper edge falls' : 'lower edge rises'} to ${ys[i]} inside the data's x range; the lower x limit lies below ${searchLo}`,
     );
     for (let j = j0; j >= 0 && tx[j + 1]! > searchLo; j--) {
       const uMax = j === j0 ? u0 : 1;
@@ -494,7 +496,7 @@ export function inverseBand(model: BandModel, targets: ArrayLike<number>, level 
     let upper: number | RatchetError = new RatchetError(
       'NOT_REACHABLE',
       'target_ys',
-      `needs a band whose lower edge rises to ${ys[i]} inside the data's x range; the upper x limit lies above ${searchHi}`,
+      `needs a band whose ${s > 0 ? 'lower edge rises' : 'upper edge falls'} to ${ys[i]} inside the data's x range; the upper x limit lies above ${searchHi}`,
     );
     for (let j = j0; j < K - 1 && tx[j]! < searchHi; j++) {
       const uMin = j === j0 ? u0 : 0;

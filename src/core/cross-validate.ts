@@ -4,7 +4,7 @@
 import type { Direction, DirectionOption } from './types.js';
 import { boundsPair, finiteArray, sameLength, weightArray } from './validate.js';
 import { resolveDirection } from './direction.js';
-import { sortOrder } from './sort-order.js';
+import { sortOrder, sortRows } from './sort-order.js';
 import { checkShapeSpec, fitChecked, type KnotSpec, type ShapeSpec } from './model.js';
 import { smoothTableAt } from './smooth-table.js';
 import type { Curvature, Degree } from './shape-fit.js';
@@ -224,15 +224,18 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
       k++;
     }
   }
-  const order = sortOrder(px);
-  const sx = new Float64Array(n);
+  // The sort hands back the sorted x (−0 as +0) besides the order; both live in its scratch
+  // memory, which the fits below reuse, so they are copied out (sequential copies, where reading x
+  // through the order would be a random gather).
+  const rows = sortRows(px, true);
+  const order = rows.order.slice();
+  const sx = rows.sorted!.slice();
   const sy = new Float64Array(n);
   const sw = new Float64Array(n);
   let sumW = 0;
   let sumWY = 0;
   for (let k = 0; k < n; k++) {
     const i = order[k]!;
-    sx[k] = px[i]! + 0;
     sy[k] = py[i]!;
     sw[k] = pw[i]!;
     sumW += sw[k]!;
@@ -373,9 +376,19 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
   const onProgress = options.onProgress;
   let done = 0;
   if (signal?.aborted) cancelled(done, total);
+  // The folds of one repeat share their labels: read them into x order once (one gather through
+  // rowOf), so that each fold splits its rows in sequential passes.
+  let labelOf: Task['label'] | null = null;
+  let label = new Uint32Array(0);
   for (const task of tasks) {
+    if (task.label !== labelOf) {
+      labelOf = task.label;
+      if (label.length !== n) label = new Uint32Array(n);
+      for (let k = 0; k < n; k++) label[k] = labelOf[rowOf[k]!]!;
+    }
+    const fold = task.fold;
     let m = 0;
-    for (let k = 0; k < n; k++) if (task.label[rowOf[k]!] === task.fold) m++;
+    for (let k = 0; k < n; k++) if (label[k] === fold) m++;
     const tx = new Float64Array(n - m);
     const ty = new Float64Array(n - m);
     const tw = new Float64Array(n - m);
@@ -383,7 +396,7 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
     const ey = new Float64Array(m);
     const ew = new Float64Array(m);
     for (let k = 0, a = 0, b = 0; k < n; k++) {
-      if (task.label[rowOf[k]!] === task.fold) {
+      if (label[k] === fold) {
         ex[b] = sx[k]!;
         ey[b] = sy[k]!;
         ew[b++] = sw[k]!;
@@ -421,7 +434,7 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
         // so the walk's sums stay far from overflow and underflow; should they not, the scaled
         // statistics of the full fitted values take over.
         const spec: KnotSpec = p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
-        const fit = knotChecked(tx, ty, trainW, spec, direction, p.lower, p.upper, false, false);
+        const fit = knotChecked(tx, ty, trainW, spec, direction, p.lower, p.upper, false, false, true);
         knotX = fit.knotX;
         knotY = fit.knotY;
         trainRmse = trainingRmse(knotX, knotY, tx, ty, trainW);

@@ -20,4 +20,5 @@ export { fitSurface, predictSurface, type SurfaceModel, type AxisDirection, type
 export { crossValidateSurface, suggestSurfaceKnots, type SurfaceCrossValidationOptions, type SurfaceCrossValidationResult } from './surface-cv.js';
 export { fitBandModel, fitShapedBandModel, bandAt, inverseBand, type BandModel, type BandKind, type InverseInterval } from './band.js';
 export { spearman } from './direction.js';
+export { checkDirection, type DirectionWarning } from './direction-check.js';
 export { evaluateTable, invertTable, type TableInterpolation } from './smooth-table.js';

@@ -10,6 +10,10 @@ import { lerp, share } from './interpolate.js';
 import { scaleExponents, timesPowerOfTwo, type ScaleExponents } from './scale.js';
 import { poolTies } from './pool-ties.js';
 import { pavaSortedWide } from './pava-wide.js';
+import { Slot, scratchF64, scratchU32 } from './scratch.js';
+
+/** The empty array that stands for x, value and weight when a caller asked for no details. */
+const NONE = new Float64Array(0);
 
 /** Weight spreads (log₂) beyond which PAVA runs on block means (see pavaSortedWide). */
 const WIDE_SPREAD = 600;
@@ -19,11 +23,11 @@ export interface IsotonicFit {
   readonly method: 'isotonic';
   /** Direction used (after resolving `'auto'`). */
   readonly direction: Direction;
-  /** Distinct x values of all rows, ascending. */
+  /** Distinct x values of all rows, ascending (empty when isotonicChecked was asked for no details). */
   readonly x: Float64Array;
-  /** Fitted value at each distinct x. */
+  /** Fitted value at each distinct x (empty likewise). */
   readonly value: Float64Array;
-  /** Pooled weight at each distinct x. */
+  /** Pooled weight at each distinct x (empty likewise). */
   readonly weight: Float64Array;
   /** Fitted value for every input row, in input order. */
   readonly fitted: Float64Array;
@@ -47,8 +51,10 @@ export interface IsotonicFit {
  * [lower, upper], which is optimal for the bounded problem in this model.
  *
  * Cost: O(n) time and memory (a radix sort that also returns the sorted x, one pass gathering y
- * and w into x order, one pass that pools ties and runs PAVA at once); typed arrays of about 60
- * bytes per row in all, the result included (68 with weights).
+ * and w into x order, one pass that pools ties and runs PAVA at once); working arrays of about
+ * 60 bytes per row (68 with weights), kept between calls as scratch memory (src/core/scratch.ts),
+ * so a repeated fit allocates only its results: the fitted values and, here, copies of the
+ * distinct x, their values and pooled weights (about 32 bytes per row).
  *
  * Edge cases: tied x values are pooled first (one fitted value per distinct x, the weighted mean
  * of its y with summed weight). Rows with weight 0 get the curve's value at their x (linear
@@ -94,8 +100,13 @@ export function isotonicRegression(
  * too, nor underflow for tiny ones. The factors come from {@link scaleExponents} (src/core/scale.ts),
  * computed first: for data near 1 they are small powers of two; for y or weights near 1e±300 they
  * are the exact rescaling, applied as y and w are gathered. Weights spread over more than 2^600
- * take a pooled path instead (poolTies, then PAVA on block means: pavaSortedWide). Typed arrays
- * of about 60 bytes per row in all, the result's included (68 with weights).
+ * take a pooled path instead (poolTies, then PAVA on block means: pavaSortedWide). Working arrays
+ * of about 60 bytes per row (68 with weights), in scratch memory.
+ *
+ * Scratch memory (src/core/scratch.ts) holds every n-sized working array — the sort's keys and
+ * indices, y and w in x order, the block stack, the groups — so a repeated fit allocates only its
+ * results. `details` false (fitChecked, which keeps only the table, fitted values and levels)
+ * returns x, value and weight empty instead of copying them out: one fresh n-sized array (fitted).
  *
  * @throws RatchetError TOO_FEW_POINTS (fewer than two distinct x with positive weight), NUMERICAL
  *   (positive weights spread over more than about 1e512).
@@ -107,6 +118,7 @@ export function isotonicChecked(
   direction: Direction,
   lower: number,
   upper: number,
+  details = true,
 ): IsotonicFit {
   // One pass finds the power-of-two scales of y and w (src/core/scale.ts). Weights spread over more
   // than 2^600 go to the pooled path with PAVA on block means; everything else runs the one-pass
@@ -131,14 +143,14 @@ export function isotonicChecked(
   const sx = sorted!; // distinct x are compacted into its front
   // y and w in x order, gathered in loops of independent loads (fused with the pooling below, each
   // load would wait behind PAVA's data-dependent branch: 3–4× slower at 10⁶ random rows).
-  const sy = spare ?? new Float64Array(n);
+  const sy = spare;
   let sw: Float64Array | null = null;
   if (ws === null) {
     for (let k = 0; k < n; k++) sy[k] = yScale * ys[order[k]!]! * yScale2;
   } else {
     // Rows of weight 0 take y = 0: their y counts nowhere, and a large one scaled by the positive
     // rows' factor could overflow (0·∞ would then poison the tie's sum).
-    sw = new Float64Array(n);
+    sw = scratchF64(Slot.SortedWeight, n);
     for (let k = 0; k < n; k++) {
       const o = order[k]!;
       const w = ws[o]!;
@@ -150,11 +162,13 @@ export function isotonicChecked(
   // summed weights live in the buffer of the fitted values, which is written only at the end.
   const fitted = new Float64Array(n);
   const stackW = fitted;
-  const stackS = new Float64Array(n);
-  const stackStart = spareOrder ?? new Uint32Array(n);
+  const stackS = scratchF64(Slot.BlockSum, n);
+  const stackStart = spareOrder;
   // First sorted row of each distinct x (and n at the end), and the pooled weight of each.
-  const groupStart = new Uint32Array(n + 1);
-  const weight = new Float64Array(n);
+  const groupStart = scratchU32(Slot.GroupStart, n + 1);
+  // The pooled weight of each distinct x; with weights it is compacted into the front of sw in place
+  // (the weight of distinct x number m is written after its rows, at index m or later, are read).
+  const weight = sw ?? scratchF64(Slot.SortedWeight, n);
   const unit = wScale * wScale2; // one unit weight, scaled (2^-32)
   const wBack = 2 ** wHalf;
   const wBack2 = 2 ** (wExp - wHalf);
@@ -213,7 +227,7 @@ export function isotonicChecked(
   // ones interpolate linearly, those beyond the outermost take the end value.
   const back = sign * 2 ** yHalf;
   const back2 = 2 ** (scales.yExp - yHalf);
-  const value = new Float64Array(m);
+  const value = scratchF64(Slot.GroupValue, m);
   const blocks = top + 1;
   let levels = 0;
   let previous = -Infinity;
@@ -258,8 +272,9 @@ export function isotonicChecked(
     const v = value[g]!;
     for (let r = groupStart[g]!, end = groupStart[g + 1]!; r < end; r++) fitted[order[r]!] = v;
   }
-  const x = m === n ? sx : sx.slice(0, m);
-  return { method: 'isotonic', direction, x, value, weight: m === n ? weight : weight.slice(0, m), fitted, levels, knotX, knotY };
+  // x, value and weight live in scratch memory: the caller gets copies, or nothing.
+  if (!details) return { method: 'isotonic', direction, x: NONE, value: NONE, weight: NONE, fitted, levels, knotX, knotY };
+  return { method: 'isotonic', direction, x: sx.slice(0, m), value: value.slice(0, m), weight: weight.slice(0, m), fitted, levels, knotX, knotY };
 }
 
 /**

@@ -209,7 +209,7 @@ export function fitChecked(
   }
   const fit =
     spec === 0
-      ? isotonicChecked(xs, ys, ws, direction, lower, upper)
+      ? isotonicChecked(xs, ys, ws, direction, lower, upper, false)
       : knotChecked(xs, ys, ws, spec, direction, lower, upper);
   return {
     method: fit.method,

@@ -1,6 +1,7 @@
 /**
  * Stable ascending sort order of finite numbers by LSD radix sort on their IEEE-754 bits.
  */
+import { Slot, scratchBuffer, scratchU32 } from './scratch.js';
 
 /**
  * Returns the permutation that sorts `values` ascending: `values[order[0]] ≤ values[order[1]] ≤ …`.
@@ -16,21 +17,21 @@
  * @example sortOrder([3, 1, 2, 1]) // → Uint32Array [1, 3, 2, 0]
  */
 export function sortOrder(values: ArrayLike<number>): Uint32Array {
-  return sortRows(values, false).order;
+  return sortRows(values, false).order.slice();
 }
 
-/** Result of {@link sortRows}. */
+/**
+ * Result of {@link sortRows}. Every array in it is scratch memory (src/core/scratch.ts): valid
+ * until the next sortRows call, and never to be handed to a caller without a copy.
+ */
 export interface SortedRows {
   /** The stable ascending permutation (as {@link sortOrder}). */
   order: Uint32Array;
   /** `values` in ascending order with −0 turned into +0, or null when not asked for. */
   sorted: Float64Array | null;
-  /**
-   * The radix sort's scratch buffers (n doubles' worth, and n indices), free for the caller to
-   * reuse; null when the input was sorted or short (no radix passes ran).
-   */
-  spare: Float64Array | null;
-  spareOrder: Uint32Array | null;
+  /** The sort's other two buffers (n doubles' worth, and n indices), free for the caller to use. */
+  spare: Float64Array;
+  spareOrder: Uint32Array;
 }
 
 /**
@@ -38,9 +39,11 @@ export interface SortedRows {
  * keys the sort already moved into place — so a caller needs no random gather through the
  * permutation to read x in order (at 10⁶ rows that gather costs about as much as a sort pass).
  *
- * Cost: as sortOrder; the sorted values reuse the key buffer (no extra memory).
+ * Cost: as sortOrder; the sorted values reuse the key buffer (no extra memory). All four buffers
+ * (keys and indices, twice) are scratch memory kept between calls (src/core/scratch.ts), so a
+ * repeated sort of n rows allocates nothing; the result lives in them (see {@link SortedRows}).
  *
- * @param values finite numbers (callers validate first); not modified.
+ * @param values finite numbers (callers validate first; not scratch memory); not modified.
  * @param withSorted true to return the sorted values too.
  * @example sortRows([3, -0, 2], true).sorted // → Float64Array [0, 2, 3]
  */
@@ -53,24 +56,19 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
       break;
     }
   }
-  if (sorted || n < 2) {
-    const order = identity(n);
-    return { order, sorted: withSorted ? gather(values, order) : null, spare: null, spareOrder: null };
-  }
-  if (n < 64) {
-    // Insertion sort is faster than four counting passes on tiny inputs (and stable).
-    const order = identity(n);
-    for (let i = 1; i < n; i++) {
-      const idx = order[i]!;
-      const v = values[idx]!;
-      let j = i - 1;
-      while (j >= 0 && values[order[j]!]! > v) {
-        order[j + 1] = order[j]!;
-        j--;
-      }
-      order[j + 1] = idx;
-    }
-    return { order, sorted: withSorted ? gather(values, order) : null, spare: null, spareOrder: null };
+  const keyA = new Uint32Array(scratchBuffer(Slot.KeyA, 8 * n), 0, 2 * n);
+  const keyB = new Uint32Array(scratchBuffer(Slot.KeyB, 8 * n), 0, 2 * n);
+  const indexA = scratchU32(Slot.IndexA, n);
+  const indexB = scratchU32(Slot.IndexB, n);
+  if (sorted || n < 64) {
+    const order = identity(indexA);
+    if (!sorted) insertionSort(values, order);
+    return {
+      order,
+      sorted: withSorted ? gather(values, order, new Float64Array(keyA.buffer, 0, n)) : null,
+      spare: new Float64Array(keyB.buffer, 0, n),
+      spareOrder: indexB,
+    };
   }
   // Digits of 16 bits (4 passes) for large inputs; of 8 bits (8 passes) below 65,536 elements,
   // where clearing and summing 65,536-bucket histograms would cost more than the passes.
@@ -84,7 +82,7 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
   // all digit histograms are counted in the same pass (they do not depend on the order).
   const f = values instanceof Float64Array ? values : Float64Array.from(values);
   const u = new Uint32Array(f.buffer, f.byteOffset, 2 * n);
-  let key: Uint32Array = new Uint32Array(2 * n);
+  let key: Uint32Array = keyA;
   const counts = histogramBuffer(passes * buckets);
   for (let i = 0; i < n; i++) {
     let l = u[2 * i]!;
@@ -120,14 +118,14 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
   // input sequentially (gathering keys through the permutation would miss the cache). The first
   // pass takes the indices from its loop counter; the last decodes the keys as it writes them.
   let idx: Uint32Array | null = null;
-  let spareIdx: Uint32Array = new Uint32Array(n);
-  let spareKey: Uint32Array = new Uint32Array(2 * n);
-  let spareOrder: Uint32Array | null = null;
+  let spareIdx: Uint32Array = indexA;
+  let spareKey: Uint32Array = keyB;
+  let spareOrder: Uint32Array = indexB;
   for (let q = 0; q < needed.length; q++) {
     const pass = needed[q]!;
     const decode = withSorted && q === needed.length - 1;
     scatter(key, idx, spareKey, spareIdx, counts, pass * buckets, pass < perWord ? 0 : 1, (pass % perWord) * bits, mask, decode);
-    const nextSpare = idx ?? new Uint32Array(n);
+    const nextSpare = idx ?? indexB;
     idx = spareIdx;
     spareIdx = nextSpare;
     [key, spareKey] = [spareKey, key];
@@ -135,8 +133,8 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
   }
   if (idx === null) {
     // Every digit was shared: the values are all equal (then the input was sorted, handled above).
-    idx = identity(n);
-    spareOrder = spareIdx;
+    idx = identity(spareIdx);
+    spareOrder = indexB;
     if (withSorted) decodeInPlace(key);
   }
   const spare = new Float64Array(spareKey.buffer, spareKey.byteOffset, n);
@@ -154,11 +152,24 @@ function histogramBuffer(size: number): Uint32Array {
   return h;
 }
 
-/** 0, 1, …, n − 1. */
-function identity(n: number): Uint32Array {
-  const order = new Uint32Array(n);
-  for (let i = 0; i < n; i++) order[i] = i;
+/** Writes 0, 1, …, n − 1 into `order` and returns it. */
+function identity(order: Uint32Array): Uint32Array {
+  for (let i = 0; i < order.length; i++) order[i] = i;
   return order;
+}
+
+/** Stable insertion sort of `order` by `values` (faster than counting passes below 64 elements). */
+function insertionSort(values: ArrayLike<number>, order: Uint32Array): void {
+  for (let i = 1; i < order.length; i++) {
+    const idx = order[i]!;
+    const v = values[idx]!;
+    let j = i - 1;
+    while (j >= 0 && values[order[j]!]! > v) {
+      order[j + 1] = order[j]!;
+      j--;
+    }
+    order[j + 1] = idx;
+  }
 }
 
 /** Turns sort keys back into the doubles' bit patterns, in place. */
@@ -204,9 +215,8 @@ function scatter(
   }
 }
 
-/** `values` gathered through `order` into a new Float64Array, −0 turned into +0. */
-function gather(values: ArrayLike<number>, order: Uint32Array): Float64Array {
-  const out = new Float64Array(order.length);
+/** `values` gathered through `order` into `out`, −0 turned into +0. */
+function gather(values: ArrayLike<number>, order: Uint32Array, out: Float64Array): Float64Array {
   for (let k = 0; k < order.length; k++) out[k] = values[order[k]!]! + 0;
   return out;
 }

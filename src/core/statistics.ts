@@ -1,7 +1,7 @@
 /**
  * Goodness-of-fit statistics of a fitted curve.
  */
-import { scaleExponents, timesPowerOfTwo } from './scale.js';
+import { scaleExponents, scaleFromExtremes, timesPowerOfTwo } from './scale.js';
 
 import { spearman } from './direction.js';
 
@@ -53,19 +53,21 @@ export function fitStatistics(y: ArrayLike<number>, fitted: ArrayLike<number>, w
     (sae === 0 || sse > TINY) && (sad === 0 || sst > TINY) &&
     // y or weights far from 1 (1e-260 y with 1e-64 weights): products w·|r| may have underflowed
     // to 0 unseen — SAE and SSE would both be 0 — so take the scaled path (see src/core/scale.ts).
-    !scaleExponents(y, w ?? null).needed;
+    // The extremes come from the first pass of plainSums (the rows scaleExponents would read).
+    !scaleFromExtremes(sums[6]!, sums[7]!, sums[8]!).needed;
   if (!safe) return scaledStatistics(y, fitted, w, count);
   // R² below the range of doubles (an awful fit of near-constant y) is reported as −MAX_VALUE.
   const r2 = sst > 0 ? Math.max(1 - sse / sst, -Number.MAX_VALUE) : sse === 0 ? 1 : 0;
   return { n: count, sse, rmse: Math.sqrt(sse / sw), mae: sae / sw, r2 };
 }
 
-/** Scratch for {@link plainSums}: Σw, count, SSE, SAE, SST, Σw|y − ȳ|. */
-const sums = new Float64Array(6);
+/** Scratch for {@link plainSums}: Σw, count, SSE, SAE, SST, Σw|y − ȳ|, largest |y|, largest and smallest weight. */
+const sums = new Float64Array(9);
 
 /**
  * The plain weighted sums behind {@link fitStatistics}, in two passes, written into `out`
- * (Σw, rows with w > 0, SSE, SAE, SST, Σw|y − ȳ|). Results go to a Float64Array rather than an
+ * (Σw, rows with w > 0, SSE, SAE, SST, Σw|y − ȳ|; and from the first pass the largest |y| and
+ * the largest and smallest weight of those rows, for the scale check). Results go to a Float64Array rather than an
  * object literal: accumulators that escape into an object are boxed by V8, which slowed the loops
  * severalfold.
  */
@@ -74,12 +76,20 @@ function plainSums(y: ArrayLike<number>, fitted: ArrayLike<number>, w: ArrayLike
   let sw = 0;
   let swy = 0;
   let count = 0;
+  let maxY = 0;
+  let maxW = 0;
+  let minW = Infinity;
   for (let i = 0; i < n; i++) {
     const wi = w === undefined ? 1 : w[i]!;
     if (wi > 0) {
+      const yi = y[i]!;
       sw += wi;
-      swy += wi * y[i]!;
+      swy += wi * yi;
       count++;
+      const a = Math.abs(yi);
+      if (a > maxY) maxY = a;
+      if (wi > maxW) maxW = wi;
+      if (wi < minW) minW = wi;
     }
   }
   const mean = swy / sw;
@@ -104,6 +114,9 @@ function plainSums(y: ArrayLike<number>, fitted: ArrayLike<number>, w: ArrayLike
   out[3] = sae;
   out[4] = sst;
   out[5] = sad;
+  out[6] = maxY;
+  out[7] = maxW;
+  out[8] = minW;
 }
 
 /** Sums of squares below this (2^-800) may have lost precision to underflow. */

@@ -19,6 +19,7 @@ import {
   interpolateAt,
   invertChecked,
   checkKnotTable,
+  knotRegression,
   quantileKnots,
   suggestKnots,
   type BandKind,
@@ -33,7 +34,7 @@ import { mapError, type CellErrorCode } from '../adapter/errors.js';
 import { MAX_MAGNITUDE, MIN_MAGNITUDE, nonBlank, type Vector } from '../adapter/cells.js';
 import type { CellArg, CellErrorOut, CellOut, InvokeContext } from './types.js';
 import { defineFunction, pairData, positionsOf, type Args } from './define.js';
-import { cachedBand, cachedCrossValidation, cachedFit, type FitEntry, type Shape } from './engine.js';
+import { cachedBand, cachedCrossValidation, cachedFit, memo, type FitEntry, type Shape } from './engine.js';
 import { PARAMS as P } from './params.js';
 
 /** Parameters of the fitting functions after their leading ones: knots, direction, weights, curvature, degree. */
@@ -145,13 +146,32 @@ export const KNOTS = defineFunction({
   params: FIT_PARAMS,
   returnsArray: true,
   run(a) {
-    const { knotX, knotY, interpolation } = fitOf(a).entry.model;
+    const { knotX, knotY, interpolation } = knotTableOf(a);
     const smooth = interpolation === 'quadratic';
     const out: CellOut[][] = new Array(knotX.length);
     for (let j = 0; j < knotX.length; j++) out[j] = smooth ? [knotX[j]!, knotY[j]!, 2] : [knotX[j]!, knotY[j]!];
     return out;
   },
 });
+
+/**
+ * The knot table KNOTS shows. A plain knot fit (knots ≥ 2 or positions, curvature any, degree
+ * linear) is fitted for its table only — the same table as the full fit, without the pass over
+ * every row for fitted values and statistics (README, "Performance") — and cached on its own;
+ * the classic fit and shaped fits share FIT's cached model. Arguments are read in fitOf's order.
+ */
+function knotTableOf(a: Args<FitName>): { knotX: Float64Array; knotY: Float64Array; interpolation?: TableInterpolation } {
+  const data = a.rows(['known_ys', 'known_xs'], 'weights');
+  const knots = a.knots('knots');
+  const direction = a.choice<DirectionOption>('direction');
+  const shape = shapeOf(a);
+  if (knots === 0 || shape.curvature !== 0 || shape.degree !== 1) return cachedFit(data, knots, direction, shape).model;
+  return memo('knot-table', [...data.columns.map((c) => c.vector), data.weights?.vector, knots, direction], () => {
+    const p = pairData(data);
+    const fit = knotRegression(p.columns[1]!, p.columns[0]!, { knots, direction, weights: p.weights, fitted: false });
+    return { value: fit, bytes: fit.knotX.byteLength * 2 + fit.identified.byteLength };
+  });
+}
 
 /** A checked knot table: positions, values and how it is read. */
 type KnotTable = readonly [Float64Array, Float64Array, TableInterpolation];

@@ -93,9 +93,13 @@ export class FitPanel {
     this.summarise(shown, stale, this.view ? settings : this.lastGood?.shape);
   }
 
-  /** The chart's text alternative: knot count, direction and r2 of the fit drawn. */
+  /** A sentence appended to the chart's text alternative for a current fit (the band panel's). */
+  summaryTail: () => string = () => '';
+
+  /** The chart's text alternative: knot count, direction, shape and r2 of the fit drawn (and the tail's sentence for a current fit). */
   summarise(view: FitView | undefined = this.view, stale = false, shape: Pick<FitSettings, 'curvature' | 'degree'> = this.settings()): void {
-    const text = view === undefined ? 'No fit drawn.' : fitSummary(view, stale, shape);
+    const tail = view !== undefined && !stale ? this.summaryTail() : '';
+    const text = view === undefined ? 'No fit drawn.' : `${fitSummary(view, stale, shape)}${tail === '' ? '' : ` ${tail}`}`;
     el<HTMLCanvasElement>('fit-chart').setAttribute('aria-label', text);
     el<HTMLElement>('fit-chart-summary').textContent = text;
   }

@@ -2,7 +2,7 @@
  * The formulas panel: the RATCHET formulas of the current references and settings as text, and
  * the Copy button.
  */
-import { allFormulas, type CvSettings, type FitSettings, type FormulaKind } from '../formulas.js';
+import { allFormulas, bandFormulas, type BandFormulaSettings, type CvSettings, type FitSettings, type FormulaKind } from '../formulas.js';
 import { gridFormula, type SurfaceSettings } from '../surface-view.js';
 import { el } from './dom.js';
 import type { Selection } from './selection.js';
@@ -13,6 +13,8 @@ export interface FormulaInputs {
   readonly cv: () => CvSettings;
   readonly surface: () => SurfaceSettings;
   readonly newXsRef: string | undefined;
+  /** The band controls (undefined while the level is not valid: no BAND or INVERTBAND then). */
+  readonly band?: BandFormulaSettings | undefined;
 }
 
 /** The formulas section of the pane. */
@@ -43,7 +45,8 @@ export class FormulasPanel {
       el<HTMLButtonElement>('copy').disabled = true;
       return e;
     }
-    this.formulas = allFormulas(sel.refs, inputs.fit, cv, inputs.newXsRef);
+    const band = inputs.band ? bandFormulas(sel.refs, inputs.fit, inputs.band, inputs.newXsRef) : {};
+    this.formulas = { ...allFormulas(sel.refs, inputs.fit, cv, inputs.newXsRef), ...band };
     const f = this.formulas as Record<FormulaKind, string>;
     if (sel.x2) this.gridText = gridFormula(sel.refs, sel.x2.ref, inputs.surface());
     area.value = [
@@ -52,6 +55,8 @@ export class FormulasPanel {
       `Fit statistics:   ${f.STATS}`,
       `Cross-validation: ${f.CV}`,
       `Suggested count:  ${f.BESTK}`,
+      ...(band.BAND === undefined ? [] : [`Band at new x:    ${band.BAND}`]),
+      ...(band.INVERTBAND === undefined ? [] : [`Read-back x:      ${band.INVERTBAND}`]),
       ...(this.gridText === undefined ? [] : [`Surface table:    ${this.gridText}`]),
     ].join('\n');
     el<HTMLButtonElement>('copy').disabled = false;

@@ -53,6 +53,18 @@ describe('README "Uncertainty: bands and read-back intervals" examples', () => {
       2.90618,
     ]);
   });
+  it('a falling curve (y → −y, direction down) gives the mirrored interval, and its unreached lower limit names the lower edge rising to the target', () => {
+    const falling = fitBandModel(hours, hardness.map((v) => -v), { knots: 2, direction: 'down' });
+    const [b] = inverseBand(falling, [-12], 0.8, 4);
+    expect([b!.lower, b!.x, b!.upper].map(g6)).toEqual([
+      "target_ys: needs a band whose lower edge rises to -12 inside the data's x range; the lower x limit lies below 1.",
+      1.90909,
+      2.90618,
+    ]);
+    // Far above the curve's top right of the read-back: the upper limit is the one not reached.
+    const [c] = inverseBand(fitBandModel(hours, hardness.map((v) => -v), { knots: 2, direction: 'down' }), [-19.5], 0.8, 4);
+    expect(g6(c!.upper)).toMatch(/^target_ys: needs a band whose upper edge falls to -19\.5 inside the data's x range; the upper x limit lies above 6\.$/);
+  });
   it("INVERTBAND(30, …, 2) → NOT_REACHABLE in all three; INVERTBAND(15, …, 2) → #N/A, 3.5, #N/A", () => {
     const [r] = inverseBand(line, [30]);
     for (const v of [r!.lower, r!.x, r!.upper]) expect(g6(v)).toMatch(/^target_ys: 30 is outside the curve's range \[10\.2857\d*, 19\.71428\d*\]\.$/);

@@ -21,7 +21,7 @@ function tsFiles(dir: string): string[] {
 describe('src/core/index.ts', () => {
   it('exports exactly the runtime names the outer layers import', () => {
     expect(Object.keys(core).sort()).toEqual([
-      'RatchetError', 'SplitMix64', 'bandAt', 'checkKnotTable', 'crossValidate', 'crossValidateSurface',
+      'RatchetError', 'SplitMix64', 'bandAt', 'checkDirection', 'checkKnotTable', 'crossValidate', 'crossValidateSurface',
       'defaultCandidates', 'evaluateTable', 'fail', 'fitBandModel', 'fitMonotone', 'fitShapedBandModel', 'fitSurface',
       'interpolate', 'interpolateAt', 'inverseBand', 'invertAt', 'invertChecked', 'invertTable', 'isRatchetError',
       'kFoldAssignment', 'knotRegression', 'normalDeviates', 'predict', 'predictSurface', 'quantileKnots', 'spearman', 'suggestKnots',

@@ -81,6 +81,23 @@ describe('SplitMix64.below (uniform whole numbers without bias)', () => {
     }
   });
 
+  it('equals the same BigInt rule for any m from 1 to 2^32 and any seed (property)', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 2 ** 32 }), fc.integer({ min: 0, max: Number.MAX_SAFE_INTEGER }), (m, seed) => {
+        const g = SplitMix64.fromSeed(seed);
+        const ref = bigSplitMix(BigInt(seed));
+        const threshold = 2n ** 32n % BigInt(m);
+        for (let k = 0; k < 4; k++) {
+          let r: bigint;
+          do r = ref() >> 32n;
+          while (r < threshold);
+          expect(g.below(m)).toBe(Number(r % BigInt(m)));
+        }
+      }),
+      { seed: 1616, numRuns: 2000 },
+    );
+  });
+
   it('for m = 3·2^30 about a quarter of the draws are rejected (2^32 mod m = 2^30), and results stay in range', () => {
     const m = 3 * 2 ** 30;
     const g = SplitMix64.fromSeed(5);

@@ -171,10 +171,10 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: real data in (browser preview)', () =
         if (text.startsWith('=')) formulas++;
       });
     });
-    expect(formulas).toBe(5);
+    expect(formulas).toBe(6); // KNOTS, STATS, CV, BESTK, PREDICT and BAND (a knot fit has a band)
     const book = evaluate({ wear: cells });
     const ratchet = book.results().filter((q) => q.ratchet);
-    expect(ratchet.length).toBe(5);
+    expect(ratchet.length).toBe(6);
     for (const q of ratchet) expect(q.values.flat().filter((v) => v === '#SPILL!'), `${q.cell} ${q.formula}`).toEqual([]);
     const knots = ratchet.find((q) => q.formula.startsWith('=RATCHET.KNOTS'))!;
     expect(knots.values).toEqual(invoke('KNOTS', [col(wear), col(hours), 5, 1]));
@@ -221,13 +221,13 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: hand-off actions in Excel mode (offic
   const cellsOf = (sheet: string): Promise<Record<string, { value: unknown; formula?: string }> | null> =>
     page.evaluate((sh) => (window as unknown as { __excelStub: { cellsOf(s: string): Record<string, { value: unknown; formula?: string }> | null } }).__excelStub.cellsOf(sh), sheet);
 
-  it('"Insert all" writes every formula with its label, each with room for its result (KNOTS K rows, STATS its rows, CV candidates + 1)', async () => {
+  it('"Insert all" writes every formula with its label, each with room for its result (KNOTS K rows, STATS its rows, CV candidates + 1, BAND a row per x)', async () => {
     await setValue(page, '#knots', '4');
     await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().curve.length === 4);
     const s = await snap(page);
     await page.fill('#target', 'Trials!H2');
     await page.click('#insert-all');
-    await page.waitForFunction(() => /Inserted 5 formulas/.test(document.getElementById('insert-status')?.textContent ?? ''));
+    await page.waitForFunction(() => /Inserted 6 formulas/.test(document.getElementById('insert-status')?.textContent ?? ''));
     const c = (await cellsOf('Trials'))!;
     const stats = invoke('STATS', [col(y), col(x), 4, 1]) as unknown[][];
     const cvRows = (invoke('CV', [col(y), col(x)]) as unknown[][]).length;
@@ -240,6 +240,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: hand-off actions in Excel mode (offic
     expect([c[`H${cvAt}`]?.value, c[`I${cvAt}`]?.formula]).toEqual(['Cross-validation of knot counts', s.formulas.CV]);
     expect([c[`H${bestAt}`]?.value, c[`I${bestAt}`]?.formula]).toEqual(['Suggested knot count', s.formulas.BESTK]);
     expect([c[`H${bestAt + 2}`]?.value, c[`I${bestAt + 2}`]?.formula]).toEqual(['Fitted values at new x', s.formulas.PREDICT]);
+    // PREDICT spills one row per x (12), then one empty row
+    expect([c[`H${bestAt + 2 + 12 + 1}`]?.value, c[`I${bestAt + 2 + 12 + 1}`]?.formula]).toEqual(['Band at new x (lower, fitted, upper)', s.formulas.BAND]);
   });
 
   it('"Portable curve" writes the knot table as values and INDEX/MATCH formulas that the runner evaluates to RATCHET.EVAL', async () => {
@@ -280,10 +282,10 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: hand-off actions in Excel mode (offic
     await page.click('#freeze');
     await page.waitForSelector('#confirm:not([hidden])');
     const question = (await page.textContent('#confirm-text')) ?? '';
-    expect(question).toMatch(/^Replace 6 RATCHET formulas of THIS workbook/);
+    expect(question).toMatch(/^Replace 7 RATCHET formulas of THIS workbook/);
     expect(question).toContain('Trials!I2 =RATCHET.KNOTS(');
     await page.click('#confirm-yes');
-    await page.waitForFunction(() => /Froze 6 formulas/.test(document.getElementById('insert-status')?.textContent ?? ''));
+    await page.waitForFunction(() => /Froze 7 formulas/.test(document.getElementById('insert-status')?.textContent ?? ''));
     const c = (await cellsOf('Trials'))!;
     expect([c.Z2, c.AA2, c.Z3, c.AA3]).toEqual([{ value: 1 }, { value: 2.25 }, { value: 12 }, { value: 8.9 }]);
     expect(Object.entries(c).filter(([, v]) => /RATCHET/i.test(v.formula ?? ''))).toEqual([]);
@@ -294,7 +296,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: hand-off actions in Excel mode (offic
     expect([note.A4?.value, note.B4?.value]).toEqual(['Trials', 'I2']);
     const listed = Object.entries(note).filter(([a, v]) => /^B\d+$/.test(a) && a !== 'B3' && v.value !== '').map(([, v]) => v.value);
     expect(listed).toContain('Z2:AA3');
-    expect(listed.length).toBe(6);
+    expect(listed.length).toBe(7); // the six of "Insert all" and Z2
     expect(problems).toEqual([]);
   });
 });

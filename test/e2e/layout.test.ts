@@ -9,7 +9,7 @@
  * - the defaults and guards show at their fields (y defaults to the sample's named y; x2 = y is
  *   refused inline; knot count 2.5 explains itself and the chart keeps the last good fit, greyed;
  *   a knot count above the distinct x gets a warning with the numbers);
- * - every control has a label, the charts a text alternative (knot count, direction, r2);
+ * - every control has a label, the charts a text alternative (knot count, direction, r2, the band);
  * - the surface directions (0 = from the data, the longest option) fit their drop-downs, and the
  *   status line says which way 0 chose along each input.
  * Screenshots go to test-results/layout-*.png.
@@ -22,6 +22,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { RUN_BROWSER_TESTS, openBrowserPage, type BrowserPage } from './browser.js';
+import { layoutProblems, unlabelled } from './layout-checks.js';
 import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
 import type { Snapshot } from '../../taskpane/app.js';
 
@@ -39,56 +40,6 @@ async function setValue(page: Page, selector: string, value: string): Promise<vo
 
 async function optionFor(page: Page, id: string, header: string): Promise<string> {
   return page.evaluate(({ id, header }) => [...(document.getElementById(id) as HTMLSelectElement).options].find((o) => o.text.startsWith(`${header} — `))!.value, { id, header });
-}
-
-/** Everything the layout rules forbid, as readable lines (empty = fine). */
-async function layoutProblems(page: Page): Promise<string[]> {
-  return page.evaluate(() => {
-    const out: string[] = [];
-    const vw = document.documentElement.clientWidth;
-    const name = (e: Element): string => `${e.tagName.toLowerCase()}${e.id ? `#${e.id}` : ''}${e.className && typeof e.className === 'string' ? `.${e.className.split(' ').join('.')}` : ''}`;
-    if (document.documentElement.scrollWidth > vw) out.push(`page scrolls sideways: scrollWidth ${document.documentElement.scrollWidth} > ${vw}`);
-    const visible = (e: Element): boolean => {
-      const r = e.getBoundingClientRect();
-      return r.width > 0 && r.height > 0 && getComputedStyle(e).visibility !== 'hidden';
-    };
-    // Elements inside a scrolling region may extend past it; the region itself may not.
-    const inScroller = (e: Element): boolean => e.parentElement?.closest('.table-scroll') !== null;
-    for (const e of document.body.querySelectorAll('*')) {
-      if (!visible(e) || inScroller(e) || e.tagName === 'OPTION') continue;
-      const r = e.getBoundingClientRect();
-      if (r.right > vw + 0.5 || r.left < -0.5) out.push(`${name(e)} spans ${Math.round(r.left)}…${Math.round(r.right)} px, viewport ${vw}`);
-    }
-    for (const e of document.querySelectorAll<HTMLElement>('button, input:not([type=file]), label, textarea, h1, h2, .hint, .field-msg, .status')) {
-      if (!visible(e)) continue;
-      if (e.scrollWidth > e.clientWidth + 1) out.push(`${name(e)} text clipped: scrollWidth ${e.scrollWidth} > clientWidth ${e.clientWidth}`);
-    }
-    const canvas = document.createElement('canvas').getContext('2d')!;
-    for (const s of document.querySelectorAll<HTMLSelectElement>('select')) {
-      if (!visible(s) || s.selectedIndex < 0) continue;
-      const cs = getComputedStyle(s);
-      canvas.font = `${cs.fontWeight} ${cs.fontSize} ${cs.fontFamily}`;
-      // the chosen option, which the closed control shows (the open list is as wide as it needs); the arrow takes about 20 px
-      for (const o of [s.options[s.selectedIndex]!]) {
-        const need = canvas.measureText(o.text).width + parseFloat(cs.paddingLeft) + parseFloat(cs.paddingRight) + 20;
-        if (need > s.clientWidth + 1) out.push(`select#${s.id} option "${o.text}" needs ${Math.round(need)} px, has ${s.clientWidth}`);
-      }
-    }
-    return out;
-  });
-}
-
-/** Controls without an accessible name (label, aria-label or aria-labelledby). */
-async function unlabelled(page: Page): Promise<string[]> {
-  return page.evaluate(() =>
-    [...document.querySelectorAll<HTMLElement>('input, select, textarea, button, progress')]
-      .filter((e) => {
-        const labels = (e as HTMLInputElement).labels;
-        const byLabel = labels !== null && labels !== undefined && labels.length > 0 && [...labels].some((l) => l.textContent!.trim() !== '');
-        return !byLabel && !e.getAttribute('aria-label') && !e.getAttribute('aria-labelledby') && !(e.tagName === 'BUTTON' && e.textContent!.trim() !== '');
-      })
-      .map((e) => `${e.tagName.toLowerCase()}#${e.id}`),
-  );
 }
 
 describe.skipIf(!RUN_BROWSER_TESTS)('the pane at 350 and 1280 px, light and dark (playwright-core + Debian chromium)', () => {
@@ -162,7 +113,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('the pane at 350 and 1280 px, light and dark
     const s = await snap(page);
     const r2 = s.stats.find(([k]) => k === 'r2')![1] as number;
     const label = await page.getAttribute('#fit-chart', 'aria-label');
-    expect(label).toBe(`Fit chart: ${s.points.length} points, 4 knots, rising, r2 ${String(Number(r2.toPrecision(4)))}.`);
+    expect(label).toBe(`Fit chart: ${s.points.length} points, 4 knots, rising, r2 ${String(Number(r2.toPrecision(4)))}. 95 % confidence band for the curve shaded.`);
     expect(await page.textContent('#fit-chart-summary')).toBe(label);
     // the heat-map table has row and column headers
     await setValue(page, '#knots1', '4');

@@ -9,7 +9,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { candidateCount, computeFit, knotTableRows } from '../../taskpane/analysis.js';
-import { allFormulas, type CvSettings, type FitSettings } from '../../taskpane/formulas.js';
+import { allFormulas, bandFormulas, type BandFormulaSettings, type CvSettings, type FitSettings } from '../../taskpane/formulas.js';
 import { layoutBlocks, paneBlocks, BLOCK_LABELS } from '../../taskpane/layout.js';
 import { evaluate, type SetupCell } from '../runner/helpers.js';
 import { cellName } from '../../src/runner/address.js';
@@ -45,15 +45,19 @@ function spilled(book: ReturnType<typeof evaluate>): string[] {
 
 describe('the "Copy formulas" block pasted beside the data', () => {
   it.each([
-    ['the classic fit', { knots: 0, direction: 1 }],
-    ['5 knots', { knots: 5, direction: 1 }],
-    ['5 knots, convex', { knots: 5, direction: 1, curvature: 1 }],
-    ['4 knots, concave and smooth (a 7 × 3 knot table)', { knots: 4, direction: 1, curvature: -1, degree: 2 }],
-  ] as [string, FitSettings][])('%s: no #SPILL!, each result fills exactly the room it was given', (_name, fit) => {
+    ['the classic fit', { knots: 0, direction: 1 }, undefined],
+    ['5 knots', { knots: 5, direction: 1 }, undefined],
+    ['5 knots, convex', { knots: 5, direction: 1, curvature: 1 }, undefined],
+    ['4 knots, concave and smooth (a 7 × 3 knot table)', { knots: 4, direction: 1, curvature: -1, degree: 2 }, undefined],
+    ['5 knots with BAND and INVERTBAND (a target y of 40 ft)', { knots: 5, direction: 1 }, { level: 0.9, kind: 2, replicates: 2, targets: '40' }],
+    ['5 knots, concave, with BAND and INVERTBAND', { knots: 5, direction: 1, curvature: -1 }, { level: 0.95, kind: 1, replicates: 1, targets: '40' }],
+  ] as [string, FitSettings, BandFormulaSettings | undefined][])('%s: no #SPILL!, each result fills exactly the room it was given', (_name, fit, band) => {
     const data = { x: cars.x, y: cars.y };
     const view = computeFit(data, fit);
     const sizes = { knotRows: view.knots.length, knotCols: view.smooth ? 3 : 2, candidates: candidateCount(view, cv), newXs: { rows: n, cols: 1 } };
-    const layout = layoutBlocks(paneBlocks(allFormulas(refs, fit, cv), sizes));
+    const formulas = { ...allFormulas(refs, fit, cv), ...(band ? bandFormulas(refs, fit, band) : {}) };
+    const layout = layoutBlocks(paneBlocks(formulas, sizes));
+    expect(layout.blocks.length).toBe(band ? 7 : 5);
     const book = evaluate({ Data: pasted(layout.text, 0, 3) });
     expect(spilled(book)).toEqual([]);
     for (const b of layout.blocks) {

@@ -1,0 +1,142 @@
+/**
+ * The uncertainty layers of the pane's charts: the band shaded around the fitted curve (two
+ * datasets added to the fit chart, the upper edge filled down to the lower one) and the residual
+ * plot (residual against x with a zero line) drawn under the fit chart. Colours come from CSS
+ * custom properties, so both follow the light/dark theme.
+ */
+import { Chart, type ChartConfiguration, type ChartDataset } from 'chart.js';
+import { applyAxisTheme, cssVar, num, palette, tick, TICK_FONT } from './charts.js';
+import { formatSerial } from './dates.js';
+import { percent, type BandView } from './uncertainty.js';
+
+type XY = { x: number; y: number };
+/** A dataset of the band layer, found by its role (the fit chart's own datasets keep their places). */
+type BandDataset = ChartDataset<'scatter', XY[]> & { bandRole?: 'upper' | 'lower'; legendHidden?: boolean };
+
+function bandColour(): string {
+  return cssVar('--chart-fit-band', 'rgba(194, 65, 12, 0.18)');
+}
+
+function roleOf(chart: Chart<'scatter', XY[]>, role: 'upper' | 'lower'): BandDataset | undefined {
+  return (chart.data.datasets as BandDataset[]).find((d) => d.bandRole === role);
+}
+
+/**
+ * Adds the band layer to the fit chart: an upper-edge dataset filled down to the lower-edge one
+ * (drawn under the points and the curve; only the upper edge is in the legend). Call once.
+ * Cost O(1).
+ */
+export function addBandLayer(chart: Chart<'scatter', XY[]>): void {
+  const c = bandColour();
+  const upper: BandDataset = { label: 'Band', data: [], showLine: true, pointRadius: 0, pointHitRadius: 3, borderWidth: 1, borderColor: c, backgroundColor: c, fill: '+1', order: 5, bandRole: 'upper' };
+  const lower: BandDataset = { label: 'Band (lower edge)', data: [], showLine: true, pointRadius: 0, pointHitRadius: 3, borderWidth: 1, borderColor: c, backgroundColor: c, fill: false, order: 5, bandRole: 'lower', legendHidden: true };
+  chart.data.datasets.push(upper, lower);
+  const labels = (chart.options.plugins as { legend: { labels: { filter?: unknown } } }).legend.labels;
+  labels.filter = (item: { datasetIndex?: number }, data: { datasets: BandDataset[] }) => data.datasets[item.datasetIndex ?? -1]?.legendHidden !== true;
+}
+
+/** The legend text of a band. @example bandLabel({ level: 0.95, kind: 1, … }) // → '95 % confidence band' */
+export function bandLabel(band: Pick<BandView, 'level' | 'kind'>): string {
+  return `${percent(band.level)} % ${band.kind === 1 ? 'confidence' : 'prediction'} band`;
+}
+
+/**
+ * Shows `band` on the fit chart (undefined removes it) and updates the chart. Cost O(grid).
+ */
+export function showBand(chart: Chart<'scatter', XY[]>, band: BandView | undefined): void {
+  const upper = roleOf(chart, 'upper');
+  const lower = roleOf(chart, 'lower');
+  if (!upper || !lower) return;
+  const pts = (v: readonly number[]): XY[] => (band ? band.x.map((x, i) => ({ x, y: v[i]! })).filter((p) => Number.isFinite(p.y)) : []);
+  upper.data = pts(band?.upper ?? []);
+  lower.data = pts(band?.lower ?? []);
+  upper.hidden = band === undefined;
+  lower.hidden = band === undefined;
+  if (band) {
+    upper.label = bandLabel(band);
+    lower.label = `${bandLabel(band)} (lower edge)`;
+  }
+  chart.update();
+}
+
+/** The band as drawn (for the tests): upper and lower edge points, or null when none is shown. */
+export function bandDrawn(chart: Chart<'scatter', XY[]>): { label: string; upper: XY[]; lower: XY[] } | null {
+  const upper = roleOf(chart, 'upper');
+  const lower = roleOf(chart, 'lower');
+  if (!upper || !lower || upper.hidden === true || upper.data.length === 0) return null;
+  return { label: upper.label ?? '', upper: upper.data.map((p) => ({ x: p.x, y: p.y })), lower: lower.data.map((p) => ({ x: p.x, y: p.y })) };
+}
+
+/** Re-reads the band colour of the theme. */
+export function themeBand(chart: Chart<'scatter', XY[]>): void {
+  const c = bandColour();
+  for (const role of ['upper', 'lower'] as const) {
+    const d = roleOf(chart, role);
+    if (d) Object.assign(d, { borderColor: c, backgroundColor: c });
+  }
+  chart.update();
+}
+
+/** The residual plot: residual (y − fitted) against x, with a dashed zero line. */
+export class ResidualChart {
+  readonly chart: Chart<'scatter', XY[]>;
+  private xKind: 'number' | 'date' = 'number';
+  constructor(canvas: HTMLCanvasElement) {
+    const p = palette();
+    const config: ChartConfiguration<'scatter', XY[]> = {
+      type: 'scatter',
+      data: {
+        datasets: [
+          { label: 'Residual', data: [], pointRadius: 2.5, pointHoverRadius: 4, backgroundColor: p.points, borderColor: p.points, order: 1 },
+          { label: 'Zero', data: [], showLine: true, pointRadius: 0, pointHitRadius: 0, borderWidth: 1.5, borderDash: [6, 4], borderColor: p.curve, backgroundColor: p.curve, order: 0 },
+        ],
+      },
+      options: {
+        animation: false,
+        maintainAspectRatio: false,
+        responsive: true,
+        parsing: false,
+        normalized: true,
+        scales: {
+          x: { type: 'linear', title: { display: true, text: 'x' }, grid: {}, ticks: { font: TICK_FONT, maxRotation: 0, autoSkipPadding: 8, callback: tick } },
+          y: { type: 'linear', title: { display: true, text: 'residual' }, grid: {}, ticks: { font: TICK_FONT, callback: tick } },
+        },
+        plugins: {
+          legend: { display: false },
+          title: { display: false },
+          tooltip: { callbacks: { label: (c) => `residual ${num(c.parsed.y ?? NaN)} at ${this.xKind === 'date' ? formatSerial(c.parsed.x ?? NaN) : num(c.parsed.x ?? NaN)}` } },
+        },
+      },
+    };
+    this.chart = new Chart(canvas, config);
+    this.theme();
+  }
+
+  /** Shows the residuals (empty clears the plot); `xLabel` names the x axis. Cost O(n). */
+  show(points: readonly XY[], xLabel: string, xKind: 'number' | 'date' = 'number'): void {
+    this.xKind = xKind;
+    const d = this.chart.data.datasets;
+    d[0]!.data = points.map((q) => ({ x: q.x, y: q.y }));
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const q of points) {
+      if (q.x < lo) lo = q.x;
+      if (q.x > hi) hi = q.x;
+    }
+    d[1]!.data = points.length > 0 ? [{ x: lo, y: 0 }, { x: hi, y: 0 }] : [];
+    const sc = this.chart.options.scales!;
+    (sc.x as { title: { text: string } }).title.text = xLabel;
+    (sc.x as { ticks: { callback?: unknown } }).ticks.callback = xKind === 'date' ? (v: number | string) => formatSerial(Number(v)) : tick;
+    this.chart.update();
+  }
+
+  /** Re-reads the theme colours. */
+  theme(): void {
+    const p = palette();
+    const d = this.chart.data.datasets;
+    Object.assign(d[0]!, { backgroundColor: p.points, borderColor: p.points });
+    Object.assign(d[1]!, { backgroundColor: p.curve, borderColor: p.curve });
+    applyAxisTheme(this.chart, p);
+    this.chart.update();
+  }
+}
