@@ -366,8 +366,11 @@ export const STATS = defineFunction({
   params: FIT_PARAMS,
   returnsArray: true,
   run(a) {
-    const { entry } = fitOf(a);
-    const rho = rankCorrelation(a.rows(['known_ys', 'known_xs'], 'weights'));
+    const data = a.rows(['known_ys', 'known_xs'], 'weights');
+    const entry = cachedFit(data, a.knots('knots'), a.choice<DirectionOption>('direction'), shapeOf(a));
+    // ρ depends on the data only (O(n log n): two rankings); cached like the fit.
+    const parts = [...data.columns.map((c) => c.vector), data.weights?.vector];
+    const rho = memo('spearman', parts, () => ({ value: rankCorrelation(data), bytes: 8 }));
     return STATS_ROWS.map(([label, value]) => [label, value(entry, rho)]);
   },
 });

@@ -103,19 +103,21 @@ export function presize(grids: readonly (readonly (readonly RawCellContent[])[])
     if (known !== undefined) return known;
     const grid = grids[sheet]!;
     const spillable = (bySheet.get(sheet) ?? []).some((f) => f.row <= a.bottom && f.col <= a.right);
-    const out: CellValueIn[][] = [];
+    // Each row is allocated at its width (a row grown by push reserves room for 17 cells: at a
+    // million rows that is hundreds of megabytes for the collector to move).
+    const width = a.right - a.left + 1;
+    const out: CellValueIn[][] = new Array<CellValueIn[]>(a.bottom - a.top + 1);
     for (let r = a.top; r <= a.bottom; r++) {
       const line = grid[r];
-      const row: CellValueIn[] = [];
+      const row: CellValueIn[] = new Array<CellValueIn>(width);
       for (let c = a.left; c <= a.right; c++) {
         const v = line === undefined ? null : (line[c] ?? null);
         if (v === null) {
           if (spillable) return undefined;
-          row.push(null);
-        } else if (typeof v === 'boolean' || (typeof v === 'number' && Number.isFinite(v))) row.push(v);
-        else return undefined;
+        } else if (!(typeof v === 'boolean' || (typeof v === 'number' && Number.isFinite(v)))) return undefined;
+        row[c - a.left] = v;
       }
-      out.push(row);
+      out[r - a.top] = row;
     }
     ranges.set(key, out);
     return out;

@@ -131,11 +131,100 @@ interface FormulaCellValue {
   ref?: string;
 }
 
+/** The cells of a workbook as the engine takes them, with its formula cells and defined names. */
+interface WorkbookCells {
+  /** Raw contents by sheet name (formulas as "=…" in the typed form, text with a leading "'"). */
+  readonly sheets: Record<string, RawCellContent[][]>;
+  /** Sheet names in workbook order. */
+  readonly names: readonly string[];
+  /** Formula cells, sheets numbered in workbook order. */
+  readonly formulas: readonly SimpleCellAddress[];
+  /** Defined names over one range, as named expressions. */
+  readonly defined: { name: string; expression: string }[];
+}
+
+/**
+ * Reads an exceljs workbook's cells (see {@link EvaluatedWorkbook.fromExcel} for the cell rules);
+ * the workbook is not modified. O(cells).
+ */
+function cellsOf(wb: ExcelJS.Workbook): WorkbookCells {
+  const sheets: Record<string, RawCellContent[][]> = {};
+  const names: string[] = [];
+  const formulas: SimpleCellAddress[] = [];
+  for (const ws of wb.worksheets) {
+    names.push(ws.name);
+    const grid: RawCellContent[][] = [];
+    const cleared = new Set<string>();
+    const put = (r: number, c: number, v: RawCellContent) => {
+      while (grid.length <= r) grid.push([]);
+      const row = grid[r]!;
+      while (row.length <= c) row.push(null);
+      row[c] = v;
+    };
+    ws.eachRow({ includeEmpty: false }, (row, rowNumber) => {
+      // Each row of the grid is allocated once at its width (cells up to the last filled one):
+      // grown cell by cell, every row would reserve room for 17 cells — at a million rows about
+      // 120 MB more for the collector to move while the engine is built.
+      const r = rowNumber - 1;
+      while (grid.length < r) grid.push([]);
+      if (grid.length === r) grid.push(new Array<RawCellContent>(row.cellCount).fill(null));
+      row.eachCell({ includeEmpty: false }, (cell) => {
+        // Cells merged into another report the first cell's value; they are empty.
+        if (cell.isMerged && cell.master !== cell) return;
+        const r = Number(cell.row) - 1;
+        const c = Number(cell.col) - 1;
+        const v = cell.value as ExcelJS.CellValue;
+        if (v !== null && typeof v === 'object' && ('formula' in v || 'sharedFormula' in v)) {
+          const text = cell.formula;
+          if (typeof text === 'string' && text !== '') {
+            put(r, c, `=${toTypedForm(text.replace(/^=/, ''))}`);
+            formulas.push({ sheet: names.length - 1, row: r, col: c });
+            const fv = v as FormulaCellValue;
+            if (fv.shareType === 'array' && typeof fv.ref === 'string') {
+              const g = parseRange(fv.ref);
+              for (let rr = g.top; rr <= g.bottom; rr++)
+                for (let cc = g.left; cc <= g.right; cc++) if (rr !== r || cc !== c) cleared.add(`${rr}:${cc}`);
+            }
+            return;
+          }
+          put(r, c, null);
+          return;
+        }
+        put(r, c, rawOfValue(v));
+      });
+    });
+    for (const k of cleared) {
+      const [rr, cc] = k.split(':').map(Number) as [number, number];
+      const row = grid[rr];
+      if (row && cc < row.length && !(typeof row[cc] === 'string' && (row[cc] as string).startsWith('='))) row[cc] = null;
+    }
+    sheets[ws.name] = grid;
+  }
+  return { sheets, names, formulas, defined: namedRanges(wb) };
+}
+
+/**
+ * Loads the bytes of an .xlsx file with exceljs and returns its cells only, so that the exceljs
+ * objects are garbage when this returns. O(cells).
+ * @throws WorkbookReadError when exceljs cannot read it or it has no worksheets.
+ */
+async function cellsOfFile(path: string, data: Buffer): Promise<WorkbookCells> {
+  const wb = new ExcelJS.Workbook();
+  try {
+    await wb.xlsx.load(data as unknown as ArrayBuffer);
+  } catch {
+    throw new WorkbookReadError(`Cannot read "${path}": it is not an .xlsx workbook (Excel 2007+ Open XML) or it is damaged.`);
+  }
+  if (wb.worksheets.length === 0) throw new WorkbookReadError(`Cannot read "${path}": it has no worksheets.`);
+  return cellsOf(wb);
+}
+
 /** A workbook loaded into the engine. */
 export class EvaluatedWorkbook {
   private constructor(
     private readonly hf: HyperFormula,
-    private readonly source: ExcelJS.Workbook,
+    /** The workbook as it was read, as .xlsx bytes: what {@link copyBytes} starts from. */
+    private readonly sourceBytes: () => Promise<Uint8Array>,
     private readonly sheetNames: readonly string[],
   ) {}
 
@@ -146,7 +235,6 @@ export class EvaluatedWorkbook {
    * unpack to more than 1 GiB (package-check.ts), or is not an .xlsx workbook.
    */
   static async fromFile(path: string): Promise<EvaluatedWorkbook> {
-    const wb = new ExcelJS.Workbook();
     let data: Buffer;
     try {
       if (statSync(path).isDirectory()) throw new WorkbookReadError(`Cannot read "${path}": it is a folder.`);
@@ -159,13 +247,10 @@ export class EvaluatedWorkbook {
     }
     const problem = packageProblem(data);
     if (problem !== undefined) throw new WorkbookReadError(`Cannot read "${path}": ${problem.reason}.`);
-    try {
-      await wb.xlsx.load(data as unknown as ArrayBuffer);
-    } catch {
-      throw new WorkbookReadError(`Cannot read "${path}": it is not an .xlsx workbook (Excel 2007+ Open XML) or it is damaged.`);
-    }
-    if (wb.worksheets.length === 0) throw new WorkbookReadError(`Cannot read "${path}": it has no worksheets.`);
-    const book = EvaluatedWorkbook.fromExcel(wb);
+    // Only the cells are kept: the exceljs objects (about 500 bytes a cell) can be collected
+    // before the engine is built, and a copy is written from the file's own bytes.
+    const cells = await cellsOfFile(path, data);
+    const book = EvaluatedWorkbook.build(cells, () => Promise.resolve(data));
     book.sourcePath = path;
     return book;
   }
@@ -181,65 +266,29 @@ export class EvaluatedWorkbook {
    * @example EvaluatedWorkbook.fromExcel(wb).value('Data!D2') // → 1 (the first fitted value)
    */
   static fromExcel(wb: ExcelJS.Workbook): EvaluatedWorkbook {
-    const sheets: Record<string, RawCellContent[][]> = {};
-    const names: string[] = [];
-    const formulas: SimpleCellAddress[] = [];
-    for (const ws of wb.worksheets) {
-      names.push(ws.name);
-      const grid: RawCellContent[][] = [];
-      const cleared = new Set<string>();
-      const put = (r: number, c: number, v: RawCellContent) => {
-        while (grid.length <= r) grid.push([]);
-        const row = grid[r]!;
-        while (row.length <= c) row.push(null);
-        row[c] = v;
-      };
-      ws.eachRow({ includeEmpty: false }, (row) => {
-        row.eachCell({ includeEmpty: false }, (cell) => {
-          // Cells merged into another report the first cell's value; they are empty.
-          if (cell.isMerged && cell.master !== cell) return;
-          const r = Number(cell.row) - 1;
-          const c = Number(cell.col) - 1;
-          const v = cell.value as ExcelJS.CellValue;
-          if (v !== null && typeof v === 'object' && ('formula' in v || 'sharedFormula' in v)) {
-            const text = cell.formula;
-            if (typeof text === 'string' && text !== '') {
-              put(r, c, `=${toTypedForm(text.replace(/^=/, ''))}`);
-              formulas.push({ sheet: names.length - 1, row: r, col: c });
-              const fv = v as FormulaCellValue;
-              if (fv.shareType === 'array' && typeof fv.ref === 'string') {
-                const g = parseRange(fv.ref);
-                for (let rr = g.top; rr <= g.bottom; rr++)
-                  for (let cc = g.left; cc <= g.right; cc++) if (rr !== r || cc !== c) cleared.add(`${rr}:${cc}`);
-              }
-              return;
-            }
-            put(r, c, null);
-            return;
-          }
-          put(r, c, rawOfValue(v));
-        });
-      });
-      for (const k of cleared) {
-        const [rr, cc] = k.split(':').map(Number) as [number, number];
-        const row = grid[rr];
-        if (row && cc < row.length && !(typeof row[cc] === 'string' && (row[cc] as string).startsWith('='))) row[cc] = null;
-      }
-      sheets[ws.name] = grid;
-    }
+    return EvaluatedWorkbook.build(cellsOf(wb), async () => new Uint8Array((await wb.xlsx.writeBuffer()) as ArrayBuffer));
+  }
+
+  /**
+   * Builds the engine from the cells of a workbook: results sized ahead (presize.ts), one
+   * `buildFromSheets`, then the re-sizing passes. `cells.sheets` is emptied once the engine holds
+   * its own copy. O(cells) plus the evaluation.
+   */
+  private static build(cells: WorkbookCells, sourceBytes: () => Promise<Uint8Array>): EvaluatedWorkbook {
+    const { sheets, names, formulas, defined } = cells;
     // The engine numbers sheets in the order of the object's keys, which is workbook order unless
     // a name looks like an array index ("2024"): only then are results sized inside the engine.
     const ordered = names.every((n) => !/^(0|[1-9][0-9]*)$/.test(n));
     stageForNextEngine(ordered ? presize(names.map((n) => sheets[n]!), names, formulas) : undefined);
     let hf: HyperFormula;
     try {
-      hf = HyperFormula.buildFromSheets(sheets, HF_CONFIG, namedRanges(wb));
+      hf = HyperFormula.buildFromSheets(sheets, HF_CONFIG, defined);
     } finally {
       stageForNextEngine(undefined);
     }
     // The engine holds its own copy of the cells: let the grid go before the re-sizing passes.
     for (const n of names) delete sheets[n];
-    const book = new EvaluatedWorkbook(hf, wb, names);
+    const book = new EvaluatedWorkbook(hf, sourceBytes, names);
     for (const a of formulas) book.noteFormulaCell({ sheet: hf.getSheetId(names[a.sheet]!)!, row: a.row, col: a.col });
     book.settle();
     // Sizes worked out before the build are for the formulas read from the file only.
@@ -531,7 +580,7 @@ export class EvaluatedWorkbook {
   /** The bytes of the copy {@link writeCopy} writes. O(cells). */
   async copyBytes(): Promise<Uint8Array> {
     const wb = new ExcelJS.Workbook();
-    await wb.xlsx.load((await this.source.xlsx.writeBuffer()) as ArrayBuffer);
+    await wb.xlsx.load((await this.sourceBytes()) as unknown as ArrayBuffer);
     for (const [ref, v] of this.setLog) {
       const p = parseCellRef(ref);
       const ws = wb.getWorksheet(p.sheet)!;

@@ -63,6 +63,28 @@ describe('10,000 PREDICT cells over one 10,000-row dataset', () => {
   });
 });
 
+describe("STATS' rank correlation is cached with the data", () => {
+  const { ys, xs } = dataset(2_000, 5);
+  const stats = functionByName('STATS')!;
+  const rhoOf = (r: unknown): unknown => (r as unknown[][]).find((row) => row[0] === 'spearman')![1];
+
+  it('computed once for the same cells (fresh copies, other knots), again after one y cell changes, equal to the value from scratch', () => {
+    const spy = vi.spyOn(core, 'spearman');
+    const copyOf = (a: CellArg) => (a as number[][]).map((r) => [r[0]!]);
+    const first = rhoOf(stats.invoke([ys, xs]));
+    const second = rhoOf(stats.invoke([copyOf(ys), copyOf(xs), 6]));
+    expect(spy).toHaveBeenCalledTimes(1);
+    expect(second).toBe(first);
+    const changed = copyOf(ys);
+    changed[1_000]![0] = -1e6;
+    const third = rhoOf(stats.invoke([changed, copyOf(xs)]));
+    expect(spy).toHaveBeenCalledTimes(2);
+    clearCaches();
+    expect(rhoOf(stats.invoke([copyOf(changed), copyOf(xs)]))).toBe(third);
+    expect(third).not.toBe(first);
+  });
+});
+
 describe('a change of any input or option fits again', () => {
   const { ys, xs } = dataset(500, 11);
   it('one changed y cell, a blanked cell, other knots, direction or weights', () => {

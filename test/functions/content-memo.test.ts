@@ -103,3 +103,94 @@ describe('no stale result after a caller mutates its arrays', () => {
     );
   });
 });
+
+describe('a remembered column of numbers only (the one-comparison-per-cell path) misses on any one changed cell', () => {
+  // 10,002 rows: not a multiple of four, so the rows after the last block of four are checked too.
+  const BIG = 10_002;
+  const numbers = (): CellValueIn[][] => column(Array.from({ length: BIG }, (_, i) => 1 + (i % 97) / 8));
+  const readAgain = (g: CellValueIn[][], reference = false) => readVector('known_ys', copy(g), 'line', { reference });
+
+  it('the same numbers in fresh arrays are recognised: the remembered vector comes back', () => {
+    const g = numbers();
+    const a = readVector('known_ys', g);
+    expect(readAgain(g)).toBe(a);
+  });
+  it.each([
+    ['the middle row', 5_001],
+    ['the first row', 0],
+    ['the last row (after the blocks of four)', BIG - 1],
+  ])('a number changed in %s is seen', (_, at) => {
+    const g = numbers();
+    const a = readVector('known_ys', g);
+    g[at]![0] = (g[at]![0] as number) + 2 ** -40;
+    const b = readAgain(g);
+    expect(b).not.toBe(a);
+    expect(b.values[at]).toBe((g[at]![0] as number));
+  });
+  it('a number flipped to text in the middle: #VALUE! given directly, its row left out as a reference', () => {
+    const g = numbers();
+    readVector('known_ys', g);
+    readVector('known_ys', g, 'line', { reference: true });
+    g[5_001]![0] = '7';
+    expect(() => readAgain(g)).toThrow('known_ys: needs numbers or blanks; cell 5002 is the text "7" (a number stored as text: convert it with VALUE).');
+    expect(readAgain(g, true).leftOut).toEqual([{ index: 5_001, value: '7' }]);
+  });
+  it.each([
+    ['null', null],
+    ['the empty string', ''],
+    ['a logical', true],
+  ] as const)('a number replaced by %s in the middle is not taken for the number', (_, value) => {
+    const g = numbers();
+    const a = readVector('known_ys', g, 'line', { reference: true });
+    g[5_001]![0] = value;
+    const b = readAgain(g, true);
+    expect(b).not.toBe(a);
+    expect(b.values[5_001]).toBeNaN();
+  });
+  it('a number replaced by an error cell in the middle propagates that error', () => {
+    const g = numbers();
+    readVector('known_ys', g);
+    g[5_001]![0] = { kind: 'error', code: '#N/A' } as CellValueIn;
+    let caught: unknown;
+    try {
+      readAgain(g);
+    } catch (e) {
+      caught = e;
+    }
+    expect(mapError(caught).code).toBe('#N/A');
+  });
+  it('a blank changed to 0 is seen (a column with a blank), and so is a 0 changed back to a blank', () => {
+    const g = numbers();
+    g[5_001]![0] = null;
+    const a = readVector('known_ys', g);
+    g[5_001]![0] = 0;
+    const b = readAgain(g);
+    expect(b).not.toBe(a);
+    expect(b.values[5_001]).toBe(0);
+    expect(b.blanks).toBe(0);
+    g[5_001]![0] = null;
+    expect(readAgain(g)).toBe(a);
+  });
+  it('a row that is no longer a one-cell array is not a match: two cells, a bare number, a typed array', () => {
+    const g = numbers();
+    const a = readVector('known_ys', g);
+    const v = g[5_001]![0] as number;
+    for (const row of [[v, v], v, Float64Array.of(v)]) {
+      const h = copy(g);
+      (h as unknown[])[5_001] = row;
+      expect(() => readVector('known_ys', h)).toThrow('known_ys: needs a rectangular range.');
+    }
+    expect(readAgain(g)).toBe(a);
+  });
+  it('PREDICT over 10,002 rows with fresh copies: one changed y in the middle gives the from-scratch answer', () => {
+    const ys = numbers();
+    const xs2 = column(Array.from({ length: BIG }, (_, i) => i));
+    const call = (): readonly CellArg[] => [[[5_001]], copy(ys), copy(xs2), 0];
+    const before = run('PREDICT', call());
+    expect(run('PREDICT', call())).toEqual(before);
+    ys[5_001]![0] = 1e6;
+    const after = run('PREDICT', call());
+    expect(after).not.toEqual(before);
+    expect(after).toEqual(fresh('PREDICT', call()));
+  });
+});
