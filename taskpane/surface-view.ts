@@ -8,7 +8,7 @@
 import type { CellArg, CellValueIn } from '../src/functions/types.js';
 import { columnArg, run } from './analysis.js';
 import type { DataColumns } from './analysis.js';
-import type { DataRefs, DirectionCode } from './formulas.js';
+import type { DataRefs } from './formulas.js';
 import { heatColour, heatmapFromGrid, hex, type HeatmapView } from '../src/view/heat-scale.js';
 import { DEFAULT_DIGITS, formatNumber } from '../src/view/number-format.js';
 
@@ -22,13 +22,19 @@ export interface SecondInput {
   readonly label: string;
 }
 
+/**
+ * A surface direction as RATCHET.GRID takes it: 1 rising, −1 falling, 0 picked from the data (the
+ * sign of that input's rank correlation with y), 2 no constraint along that input.
+ */
+export type SurfaceDirectionCode = 1 | -1 | 0 | 2;
+
 /** The surface controls: knot counts (0 = every distinct level, the classic case) and directions. */
 export interface SurfaceSettings {
   readonly knots1: number;
   readonly knots2: number;
-  /** 1 rising, −1 falling, 0 no constraint along that input. */
-  readonly direction1: DirectionCode;
-  readonly direction2: DirectionCode;
+  /** 1 rising, −1 falling, 0 picked from the data, 2 no constraint along that input. */
+  readonly direction1: SurfaceDirectionCode;
+  readonly direction2: SurfaceDirectionCode;
 }
 
 /** Largest lattice the pane draws cell by cell (larger ones are summarised in the status line). */
@@ -59,6 +65,45 @@ export function gridFormula(refs: DataRefs, x2Ref: string, s: SurfaceSettings): 
   const args = [refs.y, refs.x, x2Ref, String(s.knots1), String(s.knots2), String(s.direction1), String(s.direction2)];
   if (refs.w) args.push(refs.w);
   return `=RATCHET.GRID(${args.join(',')})`;
+}
+
+/** How a lattice runs along one input (see {@link latticeTrend}). */
+export type LatticeTrend = 'rising' | 'falling' | 'flat' | 'both';
+
+/**
+ * How the shown lattice runs along one input: `'rising'` when values rise from one knot to the
+ * next along that axis and none falls, `'falling'` the reverse, `'flat'` when none changes,
+ * `'both'` when some rise and some fall (possible only without a constraint along it). Reads the
+ * drawn values only; O(K1·K2).
+ * @param axis 1 = along x (the columns), 2 = along x2 (the rows).
+ * @example latticeTrend({ values: [[1, 2], [3, 4]] }, 2) // → 'rising'
+ */
+export function latticeTrend(view: Pick<HeatmapView, 'values'>, axis: 1 | 2): LatticeTrend {
+  let up = false;
+  let down = false;
+  const v = view.values;
+  for (let b = 0; b < v.length; b++) {
+    for (let a = 0; a < v[b]!.length; a++) {
+      const next = axis === 1 ? v[b]![a + 1] : v[b + 1]?.[a];
+      if (next === undefined) continue;
+      if (next > v[b]![a]!) up = true;
+      if (next < v[b]![a]!) down = true;
+    }
+  }
+  return up ? (down ? 'both' : 'rising') : down ? 'falling' : 'flat';
+}
+
+/**
+ * The words for one surface direction in the pane's status line: 1 "rising", −1 "falling",
+ * 2 "no constraint", 0 "picked from the data: " and how the lattice runs along that input — the
+ * direction the rank correlation chose, or "flat" when the fit does not change along it.
+ * @example directionWords(0, 'falling') // → "picked from the data: falling"
+ */
+export function directionWords(code: SurfaceDirectionCode, trend: LatticeTrend): string {
+  if (code === 1) return 'rising';
+  if (code === -1) return 'falling';
+  if (code === 2) return 'no constraint';
+  return trend === 'both' ? 'picked from the data' : `picked from the data: ${trend}`;
 }
 
 /** Rows × columns the GRID result fills: (K2 + 1) × (K1 + 1). */

@@ -432,6 +432,10 @@ function curing(): Sample {
   const X2 = `B2:B${last}`;
   const classic = fitSurface(temp, dwell, hardness);
   const lattice = fitSurface(temp, dwell, hardness, { knots1: 4, knots2: 3 });
+  // Directions 0, 0: each chosen from the data (the sign of its rank correlation with hardness).
+  const chosen = fitSurface(temp, dwell, hardness, { knots1: 4, knots2: 3, direction1: 'auto', direction2: 'auto' });
+  // Directions 1, 2: rising in temperature, no constraint along dwell time.
+  const freeDwell = fitSurface(temp, dwell, hardness, { knots1: 4, knots2: 3, direction1: 'up', direction2: 'none' });
   // New settings to read; the last lies beyond both data ranges (flat extrapolation).
   const newT = [145, 165, 175, 195, 230];
   const newD = [8, 12, 22, 28, 45];
@@ -440,6 +444,8 @@ function curing(): Sample {
   const cvRows: ExpectedCell[][] = [['knots1', 'knots2', 'cv_rmse', 'cv_se', 'cv_r2'], ...cv.scores.map((s) => [s.knots1, s.knots2, s.cvRmse, s.cvSe, s.cvR2])];
   const classicRows = classic.knots2.length + 1;
   const latticeAt = classicRows + 4; // row of the 4 × 3 GRID, below the classic one and its label
+  const chosenAt = latticeAt + 6; // the same lattice with directions 0, 0, below it and its label
+  const freeAt = chosenAt + 6; // and with directions 1, 2
   const seq = 'SEQUENCE(3,1,2)';
   return {
     file: 'coating-cure.xlsx',
@@ -451,6 +457,8 @@ function curing(): Sample {
       'Data sheet: column A oven temperature (°C), column B dwell time (min), column C hardness index.',
       `E:L RATCHET.GRID with knots 0, 0 — the classic case: one value at every temperature × every dwell time (${temps.length} × ${dwells.length} = ${temps.length * dwells.length} values). The first row holds the temperatures, the first column the dwell times.`,
       `E${latticeAt}:I${latticeAt + 3} RATCHET.GRID with 4 × 3 evenly spaced knots (12 values): the same data with far fewer numbers; between knots the surface is bilinear.`,
+      `E${chosenAt}:I${chosenAt + 3} the same 4 × 3 lattice with directions 0, 0: each direction chosen from the data by the sign of the rank correlation of that input with hardness. Hardness rises with both here, so the table equals the one above.`,
+      `E${freeAt}:I${freeAt + 3} the same lattice with directions 1, 2: rising in temperature, no constraint along dwell time (direction 2) — for comparison: where the two tables differ, the free fit lets hardness fall with longer dwell, which the rising fit rules out.`,
       'N:O new settings; P the 4 × 3 surface read there (RATCHET.SURFACE); Q the classic surface. The last setting, 230 °C for 45 min, lies beyond both data ranges: the surface is held flat there — that value is the corner of the lattice, not a measurement.',
       'S:W RATCHET.CVGRID: 5-fold cross-validation (seed 1) of every pair of 2, 3 or 4 knots per input. Compare cv_rmse with cv_se before preferring a larger lattice.',
       '',
@@ -465,10 +473,12 @@ function curing(): Sample {
     ],
     headers: { A: 'oven temp °C', B: 'dwell min', C: 'hardness', E: 'classic lattice (GRID, knots 0, 0)', N: 'new temp °C', O: 'new dwell min', P: '4 × 3 surface', Q: 'classic surface', S: 'cross-validation (CVGRID)' },
     columns: { A: temp, B: dwell, C: hardness, N: newT, O: newD },
-    labels: { [`E${latticeAt - 1}`]: '4 × 3 knots (GRID)' },
+    labels: { [`E${latticeAt - 1}`]: '4 × 3 knots (GRID)', [`E${chosenAt - 1}`]: '4 × 3, directions 0, 0 (from the data)', [`E${freeAt - 1}`]: '4 × 3, directions 1, 2 (dwell free)' },
     formulas: [
       { cell: 'E2', formula: `=RATCHET.GRID(${Y},${X1},${X2},0,0)`, expected: gridTable(classic) },
       { cell: `E${latticeAt}`, formula: `=RATCHET.GRID(${Y},${X1},${X2},4,3)`, expected: gridTable(lattice) },
+      { cell: `E${chosenAt}`, formula: `=RATCHET.GRID(${Y},${X1},${X2},4,3,0,0)`, expected: gridTable(chosen) },
+      { cell: `E${freeAt}`, formula: `=RATCHET.GRID(${Y},${X1},${X2},4,3,1,2)`, expected: gridTable(freeDwell) },
       { cell: 'P2', formula: `=RATCHET.SURFACE(N2:N6,O2:O6,${Y},${X1},${X2},4,3)`, expected: column(predictSurface(lattice, newT, newD)) },
       { cell: 'Q2', formula: `=RATCHET.SURFACE(N2:N6,O2:O6,${Y},${X1},${X2})`, expected: column(predictSurface(classic, newT, newD)) },
       { cell: 'S2', formula: `=RATCHET.CVGRID(${Y},${X1},${X2},${seq},${seq},5,1,1)`, expected: cvRows },

@@ -16,7 +16,7 @@ export { SplitMix64, normalDeviates } from './prng.js';
 export { kFoldAssignment } from './folds.js';
 export { suggestKnots } from './scores.js';
 export { crossValidate, defaultCandidates, type CrossValidationOptions, type CrossValidationResult } from './cross-validate.js';
-export { fitSurface, predictSurface, type SurfaceModel, type AxisDirection } from './surface.js';
+export { fitSurface, predictSurface, type SurfaceModel, type AxisDirection, type AxisDirectionOption } from './surface.js';
 export { crossValidateSurface, suggestSurfaceKnots, type SurfaceCrossValidationOptions, type SurfaceCrossValidationResult } from './surface-cv.js';
 export { fitBandModel, fitShapedBandModel, bandAt, inverseBand, type BandModel, type BandKind, type InverseInterval } from './band.js';
 export { spearman } from './direction.js';

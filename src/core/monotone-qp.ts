@@ -165,6 +165,10 @@ export function solveMonotoneTridiagonal(
   // settled[k] = 1: constraint k was dropped and the very next step re-added it without moving, so
   // its negative multiplier was rounding; it is not dropped again until a step makes progress.
   const settled = new Uint8Array(Math.max(m - 1, 0));
+  // The same for the two bounds: a bound whose multiplier is negative only by rounding is re-added
+  // at once by the ratio test (the free step would cross it) and would otherwise cycle forever.
+  let settledLo = false;
+  let settledHi = false;
   let lastDropped = -3;
   const maxIterations = 50 * m + 1000;
 
@@ -256,8 +260,15 @@ export function solveMonotoneTridiagonal(
       }
     }
     if (block !== -3) {
-      if (alpha > 0) settled.fill(0);
-      else if (block === lastDropped && block >= 0) settled[block] = 1;
+      if (alpha > 0) {
+        settled.fill(0);
+        settledLo = false;
+        settledHi = false;
+      } else if (block === lastDropped) {
+        if (block >= 0) settled[block] = 1;
+        else if (block === -1) settledLo = true;
+        else settledHi = true;
+      }
       lastDropped = -3;
       for (let i = 0; i < m; i++) theta[i] = theta[i]! + alpha * (candidate[i]! - theta[i]!);
       if (block === -1) {
@@ -277,6 +288,8 @@ export function solveMonotoneTridiagonal(
     for (let i = 0; i < m; i++) {
       if (candidate[i] !== theta[i]) {
         settled.fill(0); // progress: every multiplier may be acted on again
+        settledLo = false;
+        settledHi = false;
         break;
       }
     }
@@ -328,7 +341,7 @@ export function solveMonotoneTridiagonal(
     let worst = 0;
     let drop = -3;
     const consider = (lambda: number, size: number, terms: number, which: number): void => {
-      if (which >= 0 && settled[which] === 1) return;
+      if (which >= 0 ? settled[which] === 1 : which === -1 ? settledLo : settledHi) return;
       // Ranked in units of each multiplier's own tolerance, so constraints of different scales compare fairly.
       const tol = MULTIPLIER_TOL * (terms + 1) * size;
       if (!(lambda < -tol)) return;

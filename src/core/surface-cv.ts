@@ -7,7 +7,7 @@ import { checkSeed } from './prng.js';
 import { foldStandardError, pooledR2, pooledRmse, suggestKnots, type SuggestionRule } from './scores.js';
 import { fail } from './errors.js';
 import type { CandidateScore } from './cross-validate.js';
-import { checkSurfaceInputs, surfaceChecked, type AxisDirection } from './surface.js';
+import { checkSurfaceInputs, resolveAxisDirection, surfaceChecked, type AxisDirectionOption } from './surface.js';
 import { evaluateLattice, locate } from './surface-lattice.js';
 import { scaleExponents, timesPowerOfTwo } from './scale.js';
 
@@ -23,10 +23,13 @@ export interface SurfaceCrossValidationOptions {
   repeats?: number;
   /** Whole number 0 … 2⁵³ − 1; default 1; 0 = contiguous folds in row order. */
   seed?: number;
-  /** `'up'` (default), `'down'` or `'none'` along x1. */
-  direction1?: AxisDirection;
-  /** Direction along x2. */
-  direction2?: AxisDirection;
+  /**
+   * `'up'` (default), `'down'`, `'auto'` or `'none'` along x1, as in fitSurface; `'auto'` is
+   * resolved in every fold from that fold's training rows only.
+   */
+  direction1?: AxisDirectionOption;
+  /** Direction along x2, as `direction1`. */
+  direction2?: AxisDirectionOption;
   /** Non-negative weight per row (default 1). Rows with weight 0 are left out entirely. */
   weights?: ArrayLike<number>;
   /** Tolerance of the iterative solver for large lattices (see fitSurface); default 1e-9. */
@@ -84,8 +87,9 @@ function checkPairCandidates(c: ArrayLike<number>, name: string): number[] {
  * repeat r — contiguous blocks for seed 0 (scikit-learn's `KFold(shuffle=False)`), the SplitMix64
  * Fisher–Yates permutation otherwise — once per repeat, shared by every pair. Each pair is fitted
  * on the training rows alone (even knots span the training range of each input; knots 0 uses the
- * training levels) and scored on the held-out rows, which get the surface's value (flat beyond the
- * lattice). Scores are pooled as in crossValidate: cvRmse = √(Σwe²/Σw), cvMae = Σw|e|/Σw,
+ * training levels; an `'auto'` direction is the sign of the rank correlation of that input with y
+ * over the training rows, so the held-out rows never influence it) and scored on the held-out
+ * rows, which get the surface's value (flat beyond the lattice). Scores are pooled as in crossValidate: cvRmse = √(Σwe²/Σw), cvMae = Σw|e|/Σw,
  * cvR2 = 1 − Σwe² / (R·SST), cvSe = sd of the F·R fold RMSEs / √(F·R). Pick a pair with
  * {@link suggestSurfaceKnots}.
  *
@@ -194,10 +198,13 @@ export function crossValidateSurface(
     const tw = pick(pw, tr);
     const ex1 = pick(px1, te);
     const ex2 = pick(px2, te);
+    // 'auto' directions from this fold's training rows only (no leakage), once for every pair.
+    const fd1 = resolveAxisDirection(tx1, ty, tw, d1);
+    const fd2 = resolveAxisDirection(tx2, ty, tw, d2);
     for (let c = 0; c < pairs.length; c++) {
       if (options.signal?.aborted) cancelled();
       const [k1, k2] = pairs[c]!;
-      const model = surfaceChecked(tx1, tx2, ty, tw, k1, k2, d1, d2, tol);
+      const model = surfaceChecked(tx1, tx2, ty, tw, k1, k2, fd1, fd2, tol);
       const pred = evaluateLattice(model.values, model.knots1.length, locate(model.knots1, model.knots2, ex1, ex2));
       let sse = 0;
       let sae = 0;

@@ -6,6 +6,7 @@ import { finiteArray, sameLength, weightArray } from './validate.js';
 import { checkKnotCount, checkKnotPositions, evenKnots } from './knots.js';
 import { fitStatistics, type FitStatistics } from './statistics.js';
 import { fail } from './errors.js';
+import { resolveDirection } from './direction.js';
 import { addTieBreak, assembleLattice, evaluateLattice, locate } from './surface-lattice.js';
 import { inducedOrder, latticeEdges, orderEnvelopeMean, type AxisDirection, type LatticeSolution, type OptimalityCertificate } from './surface-solve.js';
 import { sparsePositiveDefinite, stencilToSparse } from './surface-sparse.js';
@@ -13,6 +14,12 @@ import { activeSetSparse } from './surface-active-set.js';
 import { admmLattice } from './surface-admm.js';
 
 export type { AxisDirection, OptimalityCertificate } from './surface-solve.js';
+
+/**
+ * Direction of one axis as an option: an {@link AxisDirection}, or `'auto'` — rising or falling by
+ * the sign of Spearman's rank correlation of that input with y (see {@link resolveAxisDirection}).
+ */
+export type AxisDirectionOption = AxisDirection | 'auto';
 
 /** Largest lattice (K1·K2 nodes) the surface accepts. */
 export const SURFACE_MAX_NODES = 40000;
@@ -48,10 +55,14 @@ export interface SurfaceOptions {
   knots1?: number | ArrayLike<number> | undefined;
   /** Knots along x2, as `knots1`. */
   knots2?: number | ArrayLike<number> | undefined;
-  /** `'up'` (default), `'down'` or `'none'` (unconstrained) along x1. */
-  direction1?: AxisDirection | undefined;
-  /** Direction along x2, as `direction1`. */
-  direction2?: AxisDirection | undefined;
+  /**
+   * `'up'` (default), `'down'`, `'auto'` (rising or falling by the sign of Spearman's rank
+   * correlation of x1 with y over the rows with positive weight; see {@link resolveAxisDirection})
+   * or `'none'` (unconstrained) along x1.
+   */
+  direction1?: AxisDirectionOption | undefined;
+  /** Direction along x2, as `direction1` (the rank correlation of x2 with y). */
+  direction2?: AxisDirectionOption | undefined;
   /** Non-negative finite weight per row (default all 1); rows with weight 0 have no influence. */
   weights?: ArrayLike<number> | undefined;
   /** Relative tolerance of the optimality conditions for large lattices; default 1e-9, range [1e-14, 1e-3]. */
@@ -62,7 +73,9 @@ export interface SurfaceOptions {
 export interface SurfaceModel {
   /** `'classic'` when both axes use every distinct level, otherwise `'lattice'`. */
   readonly method: 'classic' | 'lattice';
+  /** The direction fitted along x1: `'auto'` resolved to `'up'` or `'down'`. */
   readonly direction1: AxisDirection;
+  /** The direction fitted along x2, as `direction1`. */
   readonly direction2: AxisDirection;
   /** Knot positions along x1 (K1, ascending) and x2 (K2, ascending). */
   readonly knots1: Float64Array;
@@ -104,14 +117,33 @@ export function checkSurfaceKnots(knots: number | ArrayLike<number> | undefined 
 }
 
 /**
- * Validates a direction of one axis: absent → `'up'`; `'up'`, `'down'`, `'none'` pass through. O(1).
- * @throws RatchetError BAD_OPTION for anything else (including `'auto'`, which the surface does not offer).
+ * Validates a direction of one axis: absent → `'up'`; `'up'`, `'down'`, `'auto'`, `'none'` pass
+ * through. O(1).
+ * @throws RatchetError BAD_OPTION for anything else.
  * @example checkAxisDirection(undefined, 'direction1') // → 'up'
  */
-export function checkAxisDirection(d: unknown, name: string): AxisDirection {
+export function checkAxisDirection(d: unknown, name: string): AxisDirectionOption {
   if (d === undefined || d === null) return 'up';
-  if (d === 'up' || d === 'down' || d === 'none') return d;
-  return fail('BAD_OPTION', name, `needs 'up', 'down' or 'none'; got ${String(d)}`);
+  if (d === 'up' || d === 'down' || d === 'auto' || d === 'none') return d;
+  return fail('BAD_OPTION', name, `needs 'up', 'down', 'auto' or 'none'; got ${String(d)}`);
+}
+
+/**
+ * Resolves the direction of one axis. `'up'`, `'down'` and `'none'` pass through; `'auto'` is the
+ * one-input rule of {@link resolveDirection} applied to this input and y: `'down'` when Spearman's
+ * rank correlation (average ranks for ties) of x and y over the rows with positive weight is < 0,
+ * otherwise `'up'` — also when it is exactly 0 or undefined (constant x or constant y).
+ *
+ * Cost: O(n) for `'auto'` (two rank passes), O(1) otherwise.
+ *
+ * @param x the input of this axis, finite, length n.
+ * @param y responses, finite, length n.
+ * @param w weights ≥ 0, length n; rows of weight 0 do not count.
+ * @param d a validated option ({@link checkAxisDirection}).
+ * @example resolveAxisDirection([1, 2, 3], [3, 2, 1], [1, 1, 1], 'auto') // → 'down'
+ */
+export function resolveAxisDirection(x: ArrayLike<number>, y: ArrayLike<number>, w: ArrayLike<number>, d: AxisDirectionOption): AxisDirection {
+  return d === 'auto' ? resolveDirection(x, y, w, 'auto') : d;
 }
 
 /**
@@ -121,8 +153,11 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  * f(x1, x2) = Σ_{a,b} θ_ab h_a(x1) g_b(x2) with h, g the hat functions of the two knot sequences,
  * and flat beyond the lattice (each x clamped to its knot range). It minimises Σᵢ wᵢ (yᵢ − f(xᵢ))²
  * subject to θ monotone along x1 in every row and along x2 in every column (each direction `'up'`,
- * `'down'` or `'none'`). A monotone lattice gives a surface monotone everywhere, because on each
- * cell ∂f/∂x1 is a convex combination of the two edge differences.
+ * `'down'` or `'none'`; `'auto'` is resolved first, per input, by the sign of Spearman's rank
+ * correlation of that input with y over the rows with positive weight — ρ ≥ 0 or undefined gives
+ * `'up'`, ρ < 0 `'down'`, the rule of the one-input fit; the model reports the result). A
+ * monotone lattice gives a surface monotone everywhere, because on each cell ∂f/∂x1 is a convex
+ * combination of the two edge differences.
  *
  * Classic case: with knots1 = knots2 = 0 the lattice is every distinct x1 × every distinct x2 (with
  * positive weight); each row sits on a node, and the fit is bivariate isotonic regression on that
@@ -172,8 +207,8 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  * @param x1 first predictor, finite, length n ≥ 1.
  * @param x2 second predictor, finite, length n.
  * @param y responses, finite, length n.
- * @param options knots1, knots2 (default 0 = classic), direction1, direction2 (default `'up'`),
- *   weights (default 1), tolerance (default 1e-9).
+ * @param options knots1, knots2 (default 0 = classic), direction1, direction2 (`'up'` default,
+ *   `'down'`, `'auto'`, `'none'`), weights (default 1), tolerance (default 1e-9).
  * @throws RatchetError EMPTY_INPUT, LENGTH_MISMATCH, NON_FINITE, BAD_WEIGHT, BAD_OPTION (direction,
  *   tolerance), BAD_KNOTS (count not a whole number in [2, 200], positions not increasing, lattice
  *   over 40,000 nodes, or over 3,600 unless the data touch and determine at most 400, or a lattice
@@ -181,6 +216,7 @@ export function checkAxisDirection(d: unknown, name: string): AxisDirection {
  *   TOO_FEW_POINTS (fewer than 2 distinct values with positive weight along an
  *   axis that places knots from the data), NUMERICAL (iterative solver out of sweeps).
  * @example fitSurface([0, 1, 0, 1], [0, 0, 1, 1], [1, 2, 3, 4]).values // → Float64Array [1, 2, 3, 4]
+ * @example fitSurface([0, 1, 0, 1], [0, 0, 1, 1], [4, 3, 2, 1], { direction1: 'auto', direction2: 'auto' }).direction1 // → 'down'
  * @see Luss, Rosset & Shahar (2012), Annals of Applied Statistics 6(1) — over-fit of multivariate
  *   isotonic fits.
  */
@@ -202,8 +238,8 @@ export interface SurfaceInputs {
   xs2: Float64Array;
   ys: Float64Array;
   ws: Float64Array;
-  d1: AxisDirection;
-  d2: AxisDirection;
+  d1: AxisDirectionOption;
+  d2: AxisDirectionOption;
   tol: number;
 }
 
@@ -271,7 +307,8 @@ function axisKnots(x: Float64Array, w: Float64Array, spec: SurfaceKnotSpec, name
 
 /**
  * {@link fitSurface} on validated copies (used by cross-validation, which validates once): same
- * method, cost, errors and result. Inputs are not modified. `tol` defaults to 1e-9.
+ * method, cost, errors and result; an `'auto'` direction is resolved on these rows. Inputs are not
+ * modified. `tol` defaults to 1e-9.
  * @example surfaceChecked(Float64Array.from([0, 1, 0, 1]), Float64Array.from([0, 0, 1, 1]), Float64Array.from([1, 2, 3, 4]),
  *   Float64Array.from([1, 1, 1, 1]), 0, 0, 'up', 'up').values // → Float64Array [1, 2, 3, 4]
  */
@@ -282,10 +319,12 @@ export function surfaceChecked(
   ws: Float64Array,
   spec1: SurfaceKnotSpec,
   spec2: SurfaceKnotSpec,
-  d1: AxisDirection,
-  d2: AxisDirection,
+  dir1: AxisDirectionOption,
+  dir2: AxisDirectionOption,
   tol = 1e-9,
 ): SurfaceModel {
+  const d1 = resolveAxisDirection(xs1, ys, ws, dir1);
+  const d2 = resolveAxisDirection(xs2, ys, ws, dir2);
   const t1 = axisKnots(xs1, ws, spec1, 'x1', 'knots1');
   const t2 = axisKnots(xs2, ws, spec2, 'x2', 'knots2');
   const k1 = t1.length;

@@ -17,7 +17,7 @@ import {
   type BandModel,
   type Curvature,
   type Degree,
-  type AxisDirection,
+  type AxisDirectionOption,
   type CrossValidationOptions,
   type CrossValidationResult,
   type DirectionOption,
@@ -222,8 +222,8 @@ export function cachedCrossValidation(data: DataArgs, req: CvRequest, direction:
 export interface SurfaceRequest {
   readonly knots1: number | Float64Array;
   readonly knots2: number | Float64Array;
-  readonly direction1: AxisDirection;
-  readonly direction2: AxisDirection;
+  readonly direction1: AxisDirectionOption;
+  readonly direction2: AxisDirectionOption;
 }
 
 /** The surface fit of (known_ys, known_x1s, known_x2s, weights), cached. */
@@ -238,8 +238,8 @@ export function cachedSurface(data: DataArgs, req: SurfaceRequest): SurfaceModel
 /** Candidate knot counts of a surface cross-validation, as parsed. */
 export interface SurfaceCvRequest extends CvRequest {
   readonly candidates2: Float64Array | undefined;
-  readonly direction1: AxisDirection;
-  readonly direction2: AxisDirection;
+  readonly direction1: AxisDirectionOption;
+  readonly direction2: AxisDirectionOption;
 }
 
 /** Cross-validation of surface knot pairs, cached. */

@@ -306,8 +306,8 @@ export async function invertBand(target_ys: any[][], known_ys: any[][], known_xs
  * @param known_x2s Second input, one per known_ys cell (a column or a row). Blank cells leave their row out.
  * @param [knots1] Knots along the first input. Omitted or 0: every distinct value. A whole number K from 2 to 200: K evenly spaced knots. A range: knot positions.
  * @param [knots2] Knots along the second input, as knots1. The surface has knots1 × knots2 values: keep it small.
- * @param [direction1] Along the first input: 1 rising (default), -1 falling, 0 no constraint.
- * @param [direction2] Along the second input: 1 rising (default), -1 falling, 0 no constraint.
+ * @param [direction1] Along the first input: 1 rising (default), -1 falling, 0 pick from the data (sign of its rank correlation with y), 2 no constraint.
+ * @param [direction2] Along the second input: 1 rising (default), -1 falling, 0 pick from the data (sign of its rank correlation with y), 2 no constraint.
  * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
  * @param invocation Supplied by Excel: parameter addresses.
  * @returns The spilled result.
@@ -326,8 +326,8 @@ export async function surface(new_x1s: any[][], new_x2s: any[][], known_ys: any[
  * @param known_x2s Second input, one per known_ys cell (a column or a row). Blank cells leave their row out.
  * @param [knots1] Knots along the first input. Omitted or 0: every distinct value. A whole number K from 2 to 200: K evenly spaced knots. A range: knot positions.
  * @param [knots2] Knots along the second input, as knots1. The surface has knots1 × knots2 values: keep it small.
- * @param [direction1] Along the first input: 1 rising (default), -1 falling, 0 no constraint.
- * @param [direction2] Along the second input: 1 rising (default), -1 falling, 0 no constraint.
+ * @param [direction1] Along the first input: 1 rising (default), -1 falling, 0 pick from the data (sign of its rank correlation with y), 2 no constraint.
+ * @param [direction2] Along the second input: 1 rising (default), -1 falling, 0 pick from the data (sign of its rank correlation with y), 2 no constraint.
  * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
  * @param invocation Supplied by Excel: parameter addresses.
  * @returns The spilled result.
@@ -350,8 +350,8 @@ export async function surfaceGrid(known_ys: any[][], known_x1s: any[][], known_x
  * @param [folds] Number of folds, 2 to the number of rows. Default 5.
  * @param [repeats] Number of repeats with fresh shuffles, ≥ 1. Default 1.
  * @param [seed] Whole number for the shuffle; 0 means no shuffle (blocks in row order). Default 1.
- * @param [direction1] Along the first input: 1 rising (default), -1 falling, 0 no constraint.
- * @param [direction2] Along the second input: 1 rising (default), -1 falling, 0 no constraint.
+ * @param [direction1] Along the first input: 1 rising (default), -1 falling, 0 pick from the data (sign of its rank correlation with y), 2 no constraint.
+ * @param [direction2] Along the second input: 1 rising (default), -1 falling, 0 pick from the data (sign of its rank correlation with y), 2 no constraint.
  * @param [weights] Optional weight ≥ 0 per row, same size as known_ys; a blank weight leaves its row out.
  * @param invocation Supplied by Excel: parameter addresses and cancellation.
  * @returns The spilled result.

@@ -11,6 +11,12 @@ const RISING_FALLING: readonly Choice[] = [
   { code: -1, value: 'down', label: 'falling' },
 ];
 
+/** The choices of a direction: one value means one thing in every function (0 = from the data). */
+const FROM_DATA: Choice = { code: 0, value: 'auto', label: 'pick from the data' };
+
+/** A surface axis adds "no constraint along this input" as its own value, 2. */
+const SURFACE_DIRECTIONS: readonly Choice[] = [...RISING_FALLING, FROM_DATA, { code: 2, value: 'none', label: 'no constraint' }];
+
 /** Every parameter of the RATCHET functions. */
 export const PARAMS = {
   knownYs: {
@@ -40,7 +46,7 @@ export const PARAMS = {
     kind: 'choice',
     optional: true,
     default: 'up',
-    choices: [...RISING_FALLING, { code: 0, value: 'auto', label: 'pick from the data' }],
+    choices: [...RISING_FALLING, FROM_DATA],
     description: '1 rising (default), -1 falling, 0 pick from the data (sign of the rank correlation).',
   },
   weights: {
@@ -201,16 +207,16 @@ export const PARAMS = {
     kind: 'choice',
     optional: true,
     default: 'up',
-    choices: [...RISING_FALLING, { code: 0, value: 'none', label: 'no constraint' }],
-    description: 'Along the first input: 1 rising (default), -1 falling, 0 no constraint.',
+    choices: SURFACE_DIRECTIONS,
+    description: 'Along the first input: 1 rising (default), -1 falling, 0 pick from the data (sign of its rank correlation with y), 2 no constraint.',
   },
   direction2: {
     name: 'direction2',
     kind: 'choice',
     optional: true,
     default: 'up',
-    choices: [...RISING_FALLING, { code: 0, value: 'none', label: 'no constraint' }],
-    description: 'Along the second input: 1 rising (default), -1 falling, 0 no constraint.',
+    choices: SURFACE_DIRECTIONS,
+    description: 'Along the second input: 1 rising (default), -1 falling, 0 pick from the data (sign of its rank correlation with y), 2 no constraint.',
   },
   candidates1: {
     name: 'candidates1',

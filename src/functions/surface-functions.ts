@@ -4,7 +4,7 @@
  * the one table (src/functions/params.ts), the one row pairing with the blank-cell rule (three data
  * columns instead of two) and the one result cache (src/functions/engine.ts).
  */
-import { fail, predictSurface, type AxisDirection } from '../core/index.js';
+import { fail, predictSurface, type AxisDirectionOption } from '../core/index.js';
 import type { CellOut } from './types.js';
 import { defineFunction, type Args } from './define.js';
 import { cachedSurface, cachedSurfaceCrossValidation } from './engine.js';
@@ -14,13 +14,18 @@ import type { SurfaceModel } from '../core/index.js';
 const SURFACE_PARAMS = [P.surfaceYs, P.knownX1s, P.knownX2s, P.knots1, P.knots2, P.direction1, P.direction2, P.weights] as const;
 type SurfaceName = (typeof SURFACE_PARAMS)[number]['name'];
 
-/** The surface fit of the call's data, knots and directions, from the cache or computed once. */
+/**
+ * The surface fit of the call's data, knots and directions, from the cache or computed once.
+ * Directions (PARAMS.direction1/2): 1 rising, −1 falling, 0 picked from the data — the sign of
+ * Spearman's rank correlation of that input with known_ys over the rows the fit uses (rising when
+ * it is 0 or undefined, as in RATCHET.FIT) — and 2 no constraint along that input.
+ */
 function surfaceOf(a: Args<SurfaceName>): SurfaceModel {
   const data = a.rows(['known_ys', 'known_x1s', 'known_x2s'], 'weights');
   const knots1 = a.knots('knots1');
   const knots2 = a.knots('knots2');
-  const direction1 = a.choice<AxisDirection>('direction1');
-  const direction2 = a.choice<AxisDirection>('direction2');
+  const direction1 = a.choice<AxisDirectionOption>('direction1');
+  const direction2 = a.choice<AxisDirectionOption>('direction2');
   return cachedSurface(data, { knots1, knots2, direction1, direction2 });
 }
 
@@ -100,8 +105,8 @@ export const CVGRID = defineFunction({
     const folds = a.number('folds');
     const repeats = a.number('repeats');
     const seed = a.number('seed');
-    const direction1 = a.choice<AxisDirection>('direction1');
-    const direction2 = a.choice<AxisDirection>('direction2');
+    const direction1 = a.choice<AxisDirectionOption>('direction1');
+    const direction2 = a.choice<AxisDirectionOption>('direction2');
     const result = cachedSurfaceCrossValidation(data, { candidates, candidates2, folds, repeats, seed, direction1, direction2 }, ctx);
     const out: CellOut[][] = [CVGRID_HEADER.slice()];
     for (const s of result.scores) out.push([s.knots1, s.knots2, s.cvRmse, s.cvSe, s.cvR2]);

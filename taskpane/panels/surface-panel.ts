@@ -2,8 +2,7 @@
  * The surface panel: shown when a second input is chosen; RATCHET.GRID of the data drawn as a
  * heat-map with its legend and status line.
  */
-import type { DirectionCode } from '../formulas.js';
-import { HEATMAP_MAX_CELLS, computeSurface, knotField, renderHeatmap, type SurfaceSettings } from '../surface-view.js';
+import { HEATMAP_MAX_CELLS, computeSurface, directionWords, knotField, latticeTrend, renderHeatmap, type SurfaceDirectionCode, type SurfaceSettings } from '../surface-view.js';
 import type { HeatmapView } from '../../src/view/heat-scale.js';
 import { el, errorText, fieldMessage, shownDigits } from './dom.js';
 import { readKnotField } from '../guards.js';
@@ -18,7 +17,7 @@ export class SurfacePanel {
 
   /** Reads the surface controls. */
   settings(): SurfaceSettings {
-    const d = (id: string): DirectionCode => Number(el<HTMLSelectElement>(id).value) as DirectionCode;
+    const d = (id: string): SurfaceDirectionCode => Number(el<HTMLSelectElement>(id).value) as SurfaceDirectionCode;
     return { knots1: knotField(el<HTMLInputElement>('knots1').value), knots2: knotField(el<HTMLInputElement>('knots2').value), direction1: d('direction1'), direction2: d('direction2') };
   }
 
@@ -51,7 +50,8 @@ export class SurfacePanel {
       return;
     }
     try {
-      const view = computeSurface(sel.data, sel.x2.cells, this.settings(), shownDigits());
+      const settings = this.settings();
+      const view = computeSurface(sel.data, sel.x2.cells, settings, shownDigits());
       const values = view.knots1.length * view.knots2.length;
       if (values > HEATMAP_MAX_CELLS) {
         table.replaceChildren();
@@ -62,9 +62,10 @@ export class SurfacePanel {
       }
       this.view = view;
       renderHeatmap(table, legend, view, { x1: sel.labels.x, x2: sel.x2.label, y: sel.labels.y }, shownDigits());
+      const along = `along ${sel.labels.x} ${directionWords(settings.direction1, latticeTrend(view, 1))}, along ${sel.x2.label} ${directionWords(settings.direction2, latticeTrend(view, 2))}`;
       s.textContent =
-        `Surface over ${sel.labels.x} and ${sel.x2.label}: ${view.knots1.length} × ${view.knots2.length} = ${values} values` +
-        (rows !== undefined && values >= rows / 2 ? ` from about ${rows} rows — at least one value per two rows: expect over-fit.` : '.');
+        `Surface over ${sel.labels.x} and ${sel.x2.label}: ${view.knots1.length} × ${view.knots2.length} = ${values} values, ${along}` +
+        (rows !== undefined && values >= rows / 2 ? ` — from about ${rows} rows, at least one value per two rows: expect over-fit.` : '.');
       s.classList.remove('error');
     } catch (e) {
       this.error = errorText(e);

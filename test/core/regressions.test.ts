@@ -36,6 +36,26 @@ describe('monotone-qp: the ratio test blocks a constraint the candidate breaks e
   });
 });
 
+describe('monotone-qp: a bound whose multiplier is negative only by rounding is not dropped again and again', () => {
+  // Found by properties.test.ts with FC_SEED=710320652 (shrunk). Before: the solver dropped the upper
+  // bound (multiplier −6e-26 from the refinement of a neighbouring group whose value cancels to 0),
+  // the next step re-added it without moving (the free step would cross it by 1e-32), and so on
+  // until the iteration cap: NUMERICAL "the active-set method did not converge".
+  const x = [0, 0, 0, 0, 0, 0, 3, 0, 2, 0, 4, 5, 0, 0];
+  it.each([-4.455308626551164e-111, -1, -1e-300])('ten knots, upper bound 0, y = %s at x = 3 and 0 elsewhere', (low) => {
+    const y = x.map((v) => (v === 3 ? low : 0));
+    const fit = knotRegression(x, y, { knots: 10, direction: 'up', upper: 0 });
+    // By hand (pool-adjacent-violators on the levels x = 0 (ten rows), 2, 3, 4, 5 with values 0, 0,
+    // low, 0, 0): x = 0, 2, 3 pool to low / 12; x = 4 and 5 stay at 0 = the upper bound. Ten evenly
+    // spaced knots on [0, 5] reproduce that step (x = 3 and x = 4 lie in different knot intervals).
+    const expected = x.map((v) => (v <= 3 ? low / 12 : 0));
+    expect(fit.fitted).toBeAllCloseRel(expected, 1e-12);
+    for (const v of fit.knotY) expect(v).toBeLessThanOrEqual(0);
+    const down = knotRegression(x, y.map((v) => -v), { knots: 10, direction: 'down', lower: 0 });
+    expect(Array.from(down.fitted, (v) => -v + 0)).toBeAllCloseRel(expected, 1e-12);
+  });
+});
+
 describe('interpolation: a point between two values never lands outside them', () => {
   it('lerp from 9.45e-125 to −5.25e-141 at a share just below 1 stays ≥ the far end (before: −1.05e-140)', () => {
     const v = lerp(9.454560432753859e-125, -5.248340709036788e-141, 1 - 2 ** -53);

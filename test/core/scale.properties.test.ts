@@ -15,7 +15,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { crossValidate, crossValidateSurface, fitMonotone, fitSurface, isRatchetError } from '../../src/core/index.js';
+import { crossValidate, crossValidateSurface, fitMonotone, fitSurface, isRatchetError, kFoldAssignment } from '../../src/core/index.js';
 import { hatRow } from './fixtures.js';
 
 const SEED = Number(process.env.FC_SEED ?? 20261201);
@@ -143,7 +143,18 @@ describe('scale invariance: y × 10^k and weights × 10^j (fixed seed)', () => {
         }
         // Pairs whose lattice every training set determines: with 3 × 3 knots some folds leave nodes
         // to the tie-break, whose values are reproducible only to about 1e-6 under any rounding
-        // change (docs/tolerances.md, "Scale and weights"), scaled or not.
+        // change (docs/tolerances.md, "Scale and weights"), scaled or not. The 2 × 3 lattice is
+        // determined when the training rows of every fold hold all three x2 levels (its knots sit on
+        // them) with at least 2 distinct x1 at each level; some shuffles leave one row at a level
+        // (FC_SEED=710320652 found seed 329: one training row at x2 = 0, whose two nodes the data
+        // fix only jointly), and the property does not claim anything for those.
+        const label = kFoldAssignment(24, 3, s, 0);
+        for (let f = 0; f < 3; f++) {
+          for (let level = 0; level < 3; level++) {
+            const at = new Set(x1.filter((_, i) => label[i] !== f && x2[i] === level));
+            fc.pre(at.size >= 2);
+          }
+        }
         const opts = { candidates1: [2], candidates2: [2, 3], folds: 3, seed: s };
         const base = crossValidateSurface(x1, x2, y, { ...opts, weights: w });
         const cv = crossValidateSurface(x1, x2, y.map((v) => v * sy), { ...opts, weights: w.map((v) => v * sw) });

@@ -98,3 +98,33 @@ export async function openBrowserPage(options: BrowserPageOptions): Promise<Brow
     },
   };
 }
+
+/** Options of {@link openExcelModePane}. */
+export interface ExcelModePaneOptions {
+  /** Where the preview server serves the built pane (ends with "/"). */
+  readonly baseUrl: string;
+  readonly viewport: { readonly width: number; readonly height: number };
+  /** Console errors, CSP reports and page errors are pushed here. */
+  readonly problems: string[];
+  /** Cells the office.js stand-in's workbook holds before the test: [sheet, address, value]. */
+  readonly cells: readonly (readonly [string, string, string | number])[];
+}
+
+/**
+ * Opens the task pane in Excel mode: office.js replaced by the stand-in of
+ * test/e2e/office-stub.js, the page loaded with an Excel host in its query, waited for until it
+ * says it runs in Excel, and the stand-in's workbook filled with `cells`. The browser tests' one
+ * way into Excel mode.
+ */
+export async function openExcelModePane(options: ExcelModePaneOptions): Promise<BrowserPage> {
+  const officeStub = fs.readFileSync(path.join(import.meta.dirname, 'office-stub.js'), 'utf8');
+  const browser = await openBrowserPage({ viewport: options.viewport, officeStub, problems: options.problems });
+  const { page } = browser;
+  await page.goto(`${options.baseUrl}taskpane.html?_host_Info=Excel$Win32$16.01$en-US$$$$0`);
+  await page.waitForFunction(() => document.getElementById('host')?.textContent?.startsWith('Running in Excel'));
+  await page.evaluate((cells) => {
+    const s = (window as unknown as { __excelStub: { set(sh: string, a: string, v: unknown): void } }).__excelStub;
+    for (const [sheet, address, value] of cells) s.set(sheet, address, value);
+  }, options.cells);
+  return browser;
+}

@@ -14,10 +14,9 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
-import path from 'node:path';
 import ExcelJS from 'exceljs';
 import type { Page } from 'playwright-core';
-import { RUN_BROWSER_TESTS, openBrowserPage, type BrowserPage } from './browser.js';
+import { RUN_BROWSER_TESTS, openBrowserPage, openExcelModePane, type BrowserPage } from './browser.js';
 import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
 import { functionByName } from '../../src/functions/registry.js';
 import type { CellArg, CellOut } from '../../src/functions/types.js';
@@ -187,26 +186,18 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: hand-off actions in Excel mode (offic
   let page: Page;
   let browser: BrowserPage | undefined;
   const problems: string[] = [];
-  const stub = fs.readFileSync(path.join(import.meta.dirname, 'office-stub.js'), 'utf8');
   const x = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12];
   const y = [2.1, 2.0, 3.4, 3.1, 4.8, 5.5, 5.2, 6.9, 7.4, 7.1, 8.8, 9.0];
 
   beforeAll(async () => {
     if (!server) throw new Error('the preview build did not run');
-    browser = await openBrowserPage({ viewport: { width: 700, height: 1600 }, officeStub: stub, problems });
+    browser = await openExcelModePane({
+      baseUrl: server.url,
+      viewport: { width: 700, height: 1600 },
+      problems,
+      cells: [['Trials', 'A1', 'dose'], ['Trials', 'B1', 'response'], ...x.map((v, i) => ['Trials', `A${i + 2}`, v] as const), ...y.map((v, i) => ['Trials', `B${i + 2}`, v] as const)],
+    });
     ({ page } = browser);
-    await page.goto(`${server.url}taskpane.html?_host_Info=Excel$Win32$16.01$en-US$$$$0`);
-    await page.waitForFunction(() => document.getElementById('host')?.textContent?.startsWith('Running in Excel'));
-    await page.evaluate(
-      ({ x, y }) => {
-        const s = (window as unknown as { __excelStub: { set(sh: string, a: string, v: unknown): void } }).__excelStub;
-        s.set('Trials', 'A1', 'dose');
-        s.set('Trials', 'B1', 'response');
-        x.forEach((v, i) => s.set('Trials', `A${i + 2}`, v));
-        y.forEach((v, i) => s.set('Trials', `B${i + 2}`, v));
-      },
-      { x, y },
-    );
     await setValue(page, '#addr-x', 'Trials!A2:A13');
     await setValue(page, '#addr-y', 'Trials!B2:B13');
     await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().points.length === 12);

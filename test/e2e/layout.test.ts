@@ -9,10 +9,13 @@
  * - the defaults and guards show at their fields (y defaults to the sample's named y; x2 = y is
  *   refused inline; knot count 2.5 explains itself and the chart keeps the last good fit, greyed;
  *   a knot count above the distinct x gets a warning with the numbers);
- * - every control has a label, the charts a text alternative (knot count, direction, r2, the band).
+ * - every control has a label, the charts a text alternative (knot count, direction, r2, the band);
+ * - the surface directions (0 = from the data, the longest option) fit their drop-downs, and the
+ *   status line says which way 0 chose along each input.
  * Screenshots go to test-results/layout-*.png.
  *
- * Sizes 350 × 900 (a typical task pane, common practice) and 1280 × 900.
+ * Sizes 350 × 900 (a typical task pane, common practice) and 1280 × 900, and 320 and 400 px wide, the
+ * ends of the pane widths the README promises ("Narrow panes").
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
@@ -124,18 +127,27 @@ describe.skipIf(!RUN_BROWSER_TESTS)('the pane at 350 and 1280 px, light and dark
     [350, 'dark'],
     [1280, 'light'],
     [1280, 'dark'],
+    // the ends of the task-pane range the layout is made for
+    [320, 'light'],
+    [400, 'dark'],
   ] as const) {
-    it(`at ${width} × 900, ${scheme}: nothing wider than the viewport, no clipped control, a 10 × 10 heat-map fits`, async () => {
+    it(`at ${width} × 900, ${scheme}: nothing wider than the viewport, no clipped control${width >= 350 ? ', a 10 × 10 heat-map fits' : ''}`, async () => {
       await page.setViewportSize({ width, height: 900 });
       await page.emulateMedia({ colorScheme: scheme });
       await setValue(page, '#knots1', '10');
       await setValue(page, '#knots2', '10');
+      // The longest surface direction option, "pick from the data (0)", chosen in both drop-downs.
+      await page.selectOption('#direction1', '0');
+      await page.selectOption('#direction2', '0');
       await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().surface?.knots1.length === 10);
+      // Hardness rises with both inputs in the sample: the status line says which way 0 chose.
+      expect(await page.textContent('#surface-status')).toContain('along oven temp °C picked from the data: rising, along dwell min picked from the data: rising');
       await page.waitForTimeout(150); // charts re-size on the next frame
       await page.screenshot({ path: path.join(resultsDir, `layout-${width}-${scheme}.png`), fullPage: true });
       expect(await layoutProblems(page)).toEqual([]);
+      // A 10 × 10 heat-map fits from 350 px up (README, "Narrow panes"); narrower, it may scroll inside its own box.
       const heat = await page.$eval('.heat-scroll', (e) => ({ scroll: e.scrollWidth, client: e.clientWidth }));
-      expect(heat.scroll).toBeLessThanOrEqual(heat.client);
+      if (width >= 350) expect(heat.scroll).toBeLessThanOrEqual(heat.client);
       // the digits rule in the heat-map: at most 4 significant digits
       const texts = await page.$$eval('#heatmap td.heat', (tds) => tds.map((td) => td.textContent!));
       expect(texts.length).toBe(100);

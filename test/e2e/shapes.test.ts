@@ -17,7 +17,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
-import { RUN_BROWSER_TESTS, openBrowserPage, type BrowserPage } from './browser.js';
+import { RUN_BROWSER_TESTS, openBrowserPage, openExcelModePane, type BrowserPage } from './browser.js';
 import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
 import { functionByName } from '../../src/functions/registry.js';
 import { mapError } from '../../src/adapter/errors.js';
@@ -240,25 +240,19 @@ describe.skipIf(!RUN_BROWSER_TESTS)('shape controls in Excel mode (office.js sta
   let page: Page;
   let browser: BrowserPage | undefined;
   const problems: string[] = [];
-  const stub = fs.readFileSync(path.join(import.meta.dirname, 'office-stub.js'), 'utf8');
   // Invented data: a rising response that levels off.
   const x = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12];
   const y = [2.1, 4.0, 5.2, 6.9, 7.1, 8.4, 8.2, 9.0, 9.4, 9.3, 9.8, 9.9];
 
   beforeAll(async () => {
     if (!server) throw new Error('the preview build did not run');
-    browser = await openBrowserPage({ viewport: { width: 350, height: 900 }, officeStub: stub, problems });
+    browser = await openExcelModePane({
+      baseUrl: server.url,
+      viewport: { width: 350, height: 900 },
+      problems,
+      cells: [...x.map((v, i) => ['Trials', `A${i + 2}`, v] as const), ...y.map((v, i) => ['Trials', `B${i + 2}`, v] as const)],
+    });
     ({ page } = browser);
-    await page.goto(`${server.url}taskpane.html?_host_Info=Excel$Win32$16.01$en-US$$$$0`);
-    await page.waitForFunction(() => document.getElementById('host')?.textContent?.startsWith('Running in Excel'));
-    await page.evaluate(
-      ({ x, y }) => {
-        const s = (window as unknown as { __excelStub: { set(sh: string, a: string, v: unknown): void } }).__excelStub;
-        x.forEach((v, i) => s.set('Trials', `A${i + 2}`, v));
-        y.forEach((v, i) => s.set('Trials', `B${i + 2}`, v));
-      },
-      { x, y },
-    );
     await setValue(page, '#addr-x', 'Trials!A2:A13');
     await setValue(page, '#addr-y', 'Trials!B2:B13');
     await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().points.length === 12);

@@ -38,7 +38,7 @@ describe('defineFunction', () => {
   it('builds the choice message from the spec: codes and labels in order', () => {
     expect(mapError(catchOf(() => SUMS.invoke([col(1, 2), col(1, 2), col(1, 2), 7])))).toEqual({
       code: '#VALUE!',
-      message: 'direction1: needs 1 (rising), -1 (falling) or 0 (no constraint); got 7.',
+      message: 'direction1: needs 1 (rising), -1 (falling), 0 (pick from the data) or 2 (no constraint); got 7.',
     });
   });
 

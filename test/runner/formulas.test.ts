@@ -12,7 +12,7 @@
  *   #VALUE! naming the argument; INVERT outside the range is #N/A; error cells propagate).
  */
 import { describe, expect, it } from 'vitest';
-import { bandAt, crossValidate, fitBandModel, inverseBand, suggestKnots } from '../../src/core/index.js';
+import { bandAt, crossValidate, crossValidateSurface, fitBandModel, inverseBand, suggestKnots } from '../../src/core/index.js';
 import { closeBlock, evaluate, type Setup, type SetupCell } from './helpers.js';
 
 type Value = number | string | boolean | null;
@@ -70,6 +70,27 @@ const coreCv = crossValidate(BASE_X, BASE_Y, { candidates: [2, 3, 4], folds: 3, 
 const coreBandModel = fitBandModel(BASE_X, BASE_Y, { knots: 2 });
 const coreBand = bandAt(coreBandModel, [3.5], 0.9, 'prediction');
 const coreInverse = inverseBand(coreBandModel, [3.5], 0.5, 4)[0]!;
+
+/** A 2 × 2 grid for the surface rows: x1 in A1:A4, y in B1:B4, x2 in C1:C4. */
+function lattice(y: readonly number[], x1: readonly number[] = [0, 1, 0, 1], x2: readonly number[] = [0, 0, 1, 1]): Record<string, SetupCell> {
+  const cells: Record<string, SetupCell> = {};
+  y.forEach((v, i) => {
+    cells[`A${i + 1}`] = x1[i]!;
+    cells[`B${i + 1}`] = v;
+    cells[`C${i + 1}`] = x2[i]!;
+  });
+  return cells;
+}
+// Falling along both inputs: y = 4 3 2 1 at (0,0) (1,0) (0,1) (1,1). Rank correlations (hand, average
+// ranks): x1 ranks 1.5 3.5 1.5 3.5 and x2 ranks 1.5 1.5 3.5 3.5 against y ranks 4 3 2 1 give
+// Σ(rx − 2.5)(ry − 2.5) = −2 and −4: both negative, so directions 0, 0 fit falling along both and
+// reproduce the data; rising along both pools all four to their mean 2.5.
+const GRID_FALLING = lattice([4, 3, 2, 1]);
+// An invented 4 × 4 grid for CVGRID (y ≈ 2·x1 − 0.1·x2 plus a fixed perturbation).
+const CV_X1 = [1, 2, 3, 4, 1, 2, 3, 4, 1, 2, 3, 4, 1, 2, 3, 4];
+const CV_X2 = [10, 10, 10, 10, 20, 20, 20, 20, 30, 30, 30, 30, 40, 40, 40, 40];
+const CV_Y = [1.3, 2.8, 5.1, 7.0, -0.1, 2.25, 3.7, 6.05, -0.8, 0.85, 3.0, 5.1, -2.05, 0.3, 1.8, 4.15];
+const coreCvGrid = crossValidateSurface(CV_X1, CV_X2, CV_Y, { candidates1: [2, 3], candidates2: [2], folds: 4, seed: 0, direction1: 'auto', direction2: 'auto' });
 
 const ROWS: Row[] = [
   // ---- FIT ----
@@ -232,6 +253,23 @@ const ROWS: Row[] = [
   { what: 'BESTK degree 5', setup: BASE, formula: '=RATCHET.BESTK(B1:B6,A1:A6,{2;3},2,1,0,1,,1,0,5)', expected: '#VALUE!', message: 'degree' },
   { what: 'EVAL of a table whose third column is not a degree', setup: {}, formula: '=RATCHET.EVAL(1,{0,0,3;1,1,3;2,2,3})', expected: '#VALUE!', message: 'third column' },
   { what: 'EVAL of a smooth table with an even number of rows', setup: {}, formula: '=RATCHET.EVAL(1,{0,0,2;1,1,2})', expected: '#VALUE!', message: 'odd number of rows' },
+  // ---- SURFACE, GRID, CVGRID: directions 1 rising, -1 falling, 0 from the data, 2 no constraint ----
+  { what: 'GRID rising along both reproduces rising data on a 2 × 2 grid (hand)', setup: lattice([1, 2, 3, 4]), formula: '=RATCHET.GRID(B1:B4,A1:A4,C1:C4)', expected: [['', 0, 1], [0, 1, 2], [1, 3, 4]] },
+  { what: 'GRID directions 0, 0 pick falling along both inputs (hand)', setup: GRID_FALLING, formula: '=RATCHET.GRID(B1:B4,A1:A4,C1:C4,0,0,0,0)', expected: [['', 0, 1], [0, 4, 3], [1, 2, 1]] },
+  { what: 'GRID directions 1, 1 on the same data pool all four (hand)', setup: GRID_FALLING, formula: '=RATCHET.GRID(B1:B4,A1:A4,C1:C4,0,0,1,1)', expected: [['', 0, 1], [0, 2.5, 2.5], [1, 2.5, 2.5]] },
+  { what: 'GRID directions 2, 2 (no constraint) reproduce data that rise and fall (hand)', setup: lattice([1, 4, 3, 2]), formula: '=RATCHET.GRID(B1:B4,A1:A4,C1:C4,0,0,2,2)', expected: [['', 0, 1], [0, 1, 4], [1, 3, 2]] },
+  // Falling fit: at (0.25, 0) the surface is 0.75·4 + 0.25·3 = 3.75 (hand).
+  { what: 'SURFACE with directions 0, 0 reads the falling lattice (hand)', setup: GRID_FALLING, formula: '=RATCHET.SURFACE(0.25,0,B1:B4,A1:A4,C1:C4,0,0,0,0)', expected: [[3.75]] },
+  {
+    what: 'CVGRID with directions 0, 0 against the core (core)',
+    setup: lattice(CV_Y, CV_X1, CV_X2),
+    formula: '=RATCHET.CVGRID(B1:B16,A1:A16,C1:C16,{2;3},2,4,1,0,0,0)',
+    expected: [['knots1', 'knots2', 'cv_rmse', 'cv_se', 'cv_r2'], ...coreCvGrid.scores.map((c) => [c.knots1, c.knots2, c.cvRmse, c.cvSe, c.cvR2])],
+  },
+  { what: 'GRID direction1 3', setup: GRID_FALLING, formula: '=RATCHET.GRID(B1:B4,A1:A4,C1:C4,0,0,3)', expected: '#VALUE!', message: 'direction1: needs 1 (rising), -1 (falling), 0 (pick from the data) or 2 (no constraint); got 3' },
+  { what: 'SURFACE direction2 -2', setup: GRID_FALLING, formula: '=RATCHET.SURFACE(0,0,B1:B4,A1:A4,C1:C4,0,0,1,-2)', expected: '#VALUE!', message: 'direction2: needs 1 (rising), -1 (falling), 0 (pick from the data) or 2 (no constraint); got -2' },
+  { what: 'CVGRID direction1 0.5', setup: lattice(CV_Y, CV_X1, CV_X2), formula: '=RATCHET.CVGRID(B1:B16,A1:A16,C1:C16,2,2,4,1,0,0.5)', expected: '#VALUE!', message: 'direction1: needs 1 (rising)' },
+  { what: 'GRID direction1 as text', setup: GRID_FALLING, formula: '=RATCHET.GRID(B1:B4,A1:A4,C1:C4,0,0,"auto")', expected: '#VALUE!', message: 'direction1' },
   // ---- errors: #N/A for an unreachable target; error cells propagate ----
   { what: 'INVERT target outside the curve', setup: TABLE, formula: '=RATCHET.INVERT(5,D1:E3)', expected: '#N/A', message: 'outside' },
   { what: 'a #DIV/0! cell inside a data range propagates', setup: xy([1, 3, { f: '1/0' }, 4, 6, 5]), formula: '=RATCHET.FIT(B1:B6,A1:A6)', expected: '#DIV/0!' },
@@ -249,7 +287,7 @@ describe('formulas and expected values, evaluated by the runner', () => {
 
   it('covers every RATCHET function', () => {
     const used = new Set(ROWS.flatMap((r) => [...r.formula.matchAll(/RATCHET[._]([A-Z]+)\(/g)].map((m) => m[1])));
-    expect([...used].sort()).toEqual(['BAND', 'BESTK', 'CV', 'EVAL', 'FIT', 'INVERT', 'INVERTBAND', 'KNOTS', 'PREDICT', 'QKNOTS', 'STATS']);
+    expect([...used].sort()).toEqual(['BAND', 'BESTK', 'CV', 'CVGRID', 'EVAL', 'FIT', 'GRID', 'INVERT', 'INVERTBAND', 'KNOTS', 'PREDICT', 'QKNOTS', 'STATS', 'SURFACE']);
   });
 
   it.each(ROWS.map((r, i) => [r.what, r, i] as const))('%s', (_what, row, i) => {

@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { cell, col, err } from '../functions/helpers.js';
-import { crossValidateSurface } from '../../src/core/index.js';
+import { crossValidateSurface, spearman } from '../../src/core/index.js';
 import { functionByName } from '../../src/functions/registry.js';
 import type { CellOut } from '../../src/functions/types.js';
 import fc from 'fast-check';
@@ -33,13 +33,13 @@ describe('RATCHET.GRID', () => {
     for (let i = 0; i < 3; i++) expect(body[i]).toBeAllCloseRel(expected[i]!, 1e-12);
   });
 
-  it('direction 0 leaves an input unconstrained; -1 makes it fall', () => {
+  it('direction 2 leaves an input unconstrained; -1 makes it fall', () => {
     // Along x2 unconstrained, x1 rising: each row of Y separately (1,3,2 → 1,2.5,2.5; 0,2,5; 4,1,6 → 2.5,2.5,6).
-    const r = numbers(cell('GRID', Y, X1, X2, 0, 0, 1, 0)).slice(1).map((row) => row.slice(1));
+    const r = numbers(cell('GRID', Y, X1, X2, 0, 0, 1, 2)).slice(1).map((row) => row.slice(1));
     expect(r[0]).toBeAllCloseRel([1, 2.5, 2.5], 1e-12);
     expect(r[1]).toBeAllCloseRel([0, 2, 5], 1e-12);
     expect(r[2]).toBeAllCloseRel([2.5, 2.5, 6], 1e-12);
-    const down = numbers(cell('GRID', Y, X1, X2, 0, 0, -1, 0)).slice(1).map((row) => row.slice(1));
+    const down = numbers(cell('GRID', Y, X1, X2, 0, 0, -1, 2)).slice(1).map((row) => row.slice(1));
     expect(down[1]).toBeAllCloseRel([7 / 3, 7 / 3, 7 / 3], 1e-12);
   });
 
@@ -98,7 +98,9 @@ describe('errors map to cell errors with the argument named', () => {
   it('bad knots and directions', () => {
     expect(cell('GRID', Y, X1, X2, 1)).toEqual(err('#VALUE!', 'knots1: needs 0 (classic fit), a whole number of knots ≥ 2, or a range of knot positions; got 1.'));
     expect(cell('GRID', Y, X1, X2, 0, 300)).toEqual(err('#VALUE!', 'knots2: needs at most 200 knots; got 300.'));
-    expect(cell('GRID', Y, X1, X2, 0, 0, 2)).toEqual(err('#VALUE!', 'direction1: needs 1 (rising), -1 (falling) or 0 (no constraint); got 2.'));
+    expect(cell('GRID', Y, X1, X2, 0, 0, 3)).toEqual(err('#VALUE!', 'direction1: needs 1 (rising), -1 (falling), 0 (pick from the data) or 2 (no constraint); got 3.'));
+    expect(cell('SURFACE', 1, 1, Y, X1, X2, 0, 0, 1, 0.5)).toEqual(err('#VALUE!', 'direction2: needs 1 (rising), -1 (falling), 0 (pick from the data) or 2 (no constraint); got 0.5.'));
+    expect(cell('CVGRID', Y, X1, X2, 2, 2, 3, 1, 0, -2)).toEqual(err('#VALUE!', 'direction1: needs 1 (rising), -1 (falling), 0 (pick from the data) or 2 (no constraint); got -2.'));
   });
 
   it('too few rows, a single level, text and error cells', () => {
@@ -134,7 +136,8 @@ describe('errors map to cell errors with the argument named', () => {
     const seen = { values: 0, errors: 0 };
     fc.assert(
       fc.property(fc.constantFrom('SURFACE', 'GRID', 'CVGRID'), columns, option, option, option, option, (name, [a, b, c, d, e], o1, o2, o3, o4) => {
-        const args = name === 'SURFACE' ? [a, b, c, d, e, o1, o2, o3, o4] : [c, d, e, o1, o2, o3, o4];
+        // o3, o4 land on direction1, direction2 (every code -2 … 5: 1, -1, 0 and 2 valid); CVGRID keeps its fold defaults.
+        const args = name === 'SURFACE' ? [a, b, c, d, e, o1, o2, o3, o4] : name === 'GRID' ? [c, d, e, o1, o2, o3, o4] : [c, d, e, o1, o2, undefined, undefined, undefined, o3, o4];
         const r = cell(name, ...(args as never[]));
         if (typeof r === 'object' && r !== null && 'error' in r) {
           expect(['#VALUE!', '#N/A', '#DIV/0!']).toContain(r.error.code);
@@ -161,6 +164,15 @@ describe('the surface examples of the README (invented oven data; values as prin
   it('SURFACE with 2 × 2 knots and with every level', () => {
     expect(flat(cell('SURFACE', col(175, 200, 150), col(12, 40, 20), hard, temp, time, 2, 2))).toBeAllCloseRel([44.5632, 56.4064, 43.8641], 5e-6);
     expect(flat(cell('SURFACE', col(175, 200, 150), col(12, 40, 20), hard, temp, time))).toBeAllCloseRel([43.65, 58, 46], 1e-12);
+  });
+
+  it('SURFACE with directions chosen from the data (0, 0) and left free along dwell time (1, 2)', () => {
+    // Rank correlations as printed, scipy 1.10.1 spearmanr: 0.7134266410328863 (temperature), 0.43558460746480243 (dwell).
+    const values = (c: typeof temp) => (c as number[][]).map((r) => r[0]!);
+    expect(spearman(values(temp), values(hard))).toBeCloseRel(0.713, 5e-4);
+    expect(spearman(values(time), values(hard))).toBeCloseRel(0.436, 5e-4);
+    expect(flat(cell('SURFACE', col(175, 200, 150), col(12, 40, 20), hard, temp, time, 0, 0, 0, 0))).toBeAllCloseRel([43.65, 58, 46], 1e-12);
+    expect(flat(cell('SURFACE', col(175, 200, 150), col(12, 40, 20), hard, temp, time, 0, 0, 1, 2))).toBeAllCloseRel([43.95, 58, 46.5], 1e-12);
   });
 
   it('GRID with 2 × 2 knots and with every level', () => {

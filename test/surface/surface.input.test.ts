@@ -105,7 +105,8 @@ describe('bad input: codes and messages', () => {
   });
 
   it('directions and tolerance', () => {
-    expect(() => fitSurface(x1, x2, y, { direction1: 'auto' as never })).toThrow("direction1: needs 'up', 'down' or 'none'; got auto.");
+    expect(() => fitSurface(x1, x2, y, { direction1: 'sideways' as never })).toThrow("direction1: needs 'up', 'down', 'auto' or 'none'; got sideways.");
+    expect(() => fitSurface(x1, x2, y, { direction2: 0 as never })).toThrow("direction2: needs 'up', 'down', 'auto' or 'none'; got 0.");
     expect(() => fitSurface(x1, x2, y, { tolerance: 0 })).toThrow('tolerance: needs a number in [1e-14, 1e-3]; got 0.');
   });
 

@@ -9,7 +9,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { fitSurface, predictSurface } from '../../src/core/index.js';
+import { fitSurface, predictSurface, spearman } from '../../src/core/index.js';
 import { latticeEdges } from '../../src/core/surface-solve.js';
 import { admmLattice } from '../../src/core/surface-admm.js';
 import { assembleLattice, evaluateLattice, locate } from '../../src/core/surface-lattice.js';
@@ -186,5 +186,30 @@ describe('large lattices: ADMM with PAVA row/column steps, then the exact method
       expect(sse).toBeGreaterThanOrEqual(exact.stats.sse * (1 - 1e-12));
       expect(sse - exact.stats.sse).toBeLessThanOrEqual(100 * tol * sst);
     }
+  });
+});
+
+describe("direction 'auto': per input, the explicit direction the sign of the rank correlation picks", () => {
+  it("auto along either input is bit for bit the fit with 'up' where ρ(input, y) ≥ 0 (or undefined) and 'down' where ρ < 0, over rows of positive weight", () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 1e6 }), fc.integer({ min: 8, max: 40 }), fc.integer({ min: 2, max: 4 }), fc.boolean(), dirArb, (seed, n, k, weighted, other) => {
+        const c = makeCase(seed, n, weighted, false);
+        fc.pre(new Set(c.x1).size >= 2 && new Set(c.x2).size >= 2);
+        // The rule written out here, independently of the core's resolution: rows of weight 0 left out.
+        const keep = c.x1.map((_, i) => c.w === null || c.w[i]! > 0);
+        const rho = (x: number[]) => spearman(x.filter((_, i) => keep[i]), c.y.filter((_, i) => keep[i]));
+        const pick = (x: number[]): Dir => (rho(x) < 0 ? 'down' : 'up');
+        const opts = { knots1: k, knots2: k, weights: c.w ?? undefined };
+        const auto1 = fitSurface(c.x1, c.x2, c.y, { ...opts, direction1: 'auto', direction2: other });
+        const given1 = fitSurface(c.x1, c.x2, c.y, { ...opts, direction1: pick(c.x1), direction2: other });
+        expect(auto1.direction1).toBe(pick(c.x1));
+        expect(Array.from(auto1.values)).toEqual(Array.from(given1.values));
+        const auto2 = fitSurface(c.x1, c.x2, c.y, { ...opts, direction1: other, direction2: 'auto' });
+        const given2 = fitSurface(c.x1, c.x2, c.y, { ...opts, direction1: other, direction2: pick(c.x2) });
+        expect(auto2.direction2).toBe(pick(c.x2));
+        expect(Array.from(auto2.values)).toEqual(Array.from(given2.values));
+      }),
+      { numRuns: 60 },
+    );
   });
 });

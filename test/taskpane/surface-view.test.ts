@@ -14,7 +14,7 @@ import fc from 'fast-check';
 import { fitSurface } from '../../src/core/index.js';
 import { buildSamples } from '../../scripts/samples/samples.js';
 import { CellFailure } from '../../taskpane/analysis.js';
-import { computeSurface, gridArgs, gridFormula, gridSpill, knotField, type SurfaceSettings } from '../../taskpane/surface-view.js';
+import { computeSurface, directionWords, gridArgs, gridFormula, gridSpill, knotField, latticeTrend, type SurfaceSettings } from '../../taskpane/surface-view.js';
 import { cellText, contrast, heatColour, heatmapFromGrid, hex, luminance, oklchToRgb, textColourOn } from '../../src/view/heat-scale.js';
 import type { CellValueIn } from '../../src/functions/types.js';
 
@@ -32,9 +32,9 @@ const EXPECTED = [
 
 describe('surface data wiring (RATCHET.GRID through the registry)', () => {
   it('passes known_ys, x, x2, knots1, knots2, direction1, direction2 and weights as one-column ranges, in that order', () => {
-    const s: SurfaceSettings = { knots1: 4, knots2: 3, direction1: -1, direction2: 0 };
-    expect(gridArgs({ x: [1, 2], y: [3, 4] }, [5, 6], s)).toEqual([[[3], [4]], [[1], [2]], [[5], [6]], 4, 3, -1, 0]);
-    expect(gridArgs({ x: [1, 2], y: [3, 4], w: [1, 2] }, [5, 6], s)).toEqual([[[3], [4]], [[1], [2]], [[5], [6]], 4, 3, -1, 0, [[1], [2]]]);
+    const s: SurfaceSettings = { knots1: 4, knots2: 3, direction1: -1, direction2: 2 };
+    expect(gridArgs({ x: [1, 2], y: [3, 4] }, [5, 6], s)).toEqual([[[3], [4]], [[1], [2]], [[5], [6]], 4, 3, -1, 2]);
+    expect(gridArgs({ x: [1, 2], y: [3, 4], w: [1, 2] }, [5, 6], s)).toEqual([[[3], [4]], [[1], [2]], [[5], [6]], 4, 3, -1, 2, [[1], [2]]]);
   });
 
   it('the 3 × 3 example: knots across and down, the biviso lattice inside', () => {
@@ -100,6 +100,21 @@ describe('surface data wiring (RATCHET.GRID through the registry)', () => {
     expect(gridFormula({ y: 'T[y]', x: 'T[x]', w: 'T[w]' }, 'T[x2]', CLASSIC)).toBe('=RATCHET.GRID(T[y],T[x],T[x2],0,0,1,1,T[w])');
     expect(gridSpill({ knots1: [1, 2, 3, 4], knots2: [1, 2, 3] })).toEqual({ rows: 4, cols: 5 });
     expect([knotField(''), knotField(' 4 '), knotField('0')]).toEqual([0, 4, 0]);
+  });
+
+  it('the status words name each direction; for 0 they say which way the fitted lattice runs (the choice made)', () => {
+    // Invented data falling along x2 and rising along x: the 2 × 2 lattice reproduces them.
+    const data = { x: [0, 1, 0, 1], y: [3, 4, 1, 2] };
+    const x2 = [0, 0, 1, 1];
+    const auto = computeSurface(data, x2, { knots1: 0, knots2: 0, direction1: 0, direction2: 0 });
+    expect(auto.values).toEqual([[3, 4], [1, 2]]);
+    expect([latticeTrend(auto, 1), latticeTrend(auto, 2)]).toEqual(['rising', 'falling']);
+    expect([directionWords(0, latticeTrend(auto, 1)), directionWords(0, latticeTrend(auto, 2))]).toEqual(['picked from the data: rising', 'picked from the data: falling']);
+    // Forced to rise along x2 as well, the lattice is flat along it.
+    const forced = computeSurface(data, x2, { knots1: 0, knots2: 0, direction1: 1, direction2: 1 });
+    expect(latticeTrend(forced, 2)).toBe('flat');
+    expect(latticeTrend({ values: [[1, 3, 2]] }, 1)).toBe('both');
+    expect([directionWords(1, 'flat'), directionWords(-1, 'flat'), directionWords(2, 'both'), directionWords(0, 'both')]).toEqual(['rising', 'falling', 'no constraint', 'picked from the data']);
   });
 });
 

@@ -11,7 +11,10 @@ Reads the invented inputs of the sample from samples/expected.json ("inputs": A 
     bilinear design built here (x clamped to the knot range, the hat functions of each axis
     multiplied), and the monotone lattice QP (values rising along both axes) solved by Debian's
     python3-cvxopt (cvxopt.solvers.qp, tolerances 1e-13);
-  - both surfaces at the new settings by the same bilinear design (flat beyond the knots).
+  - both surfaces at the new settings by the same bilinear design (flat beyond the knots);
+  - the directions that 0, 0 choose: the signs of scipy.stats.spearmanr of each input with y;
+  - the 4 x 3 lattice rising along x1 only, no constraint along x2 (directions 1, 2), by the same
+    QP with the x2 constraints left out.
 
 Writes test/runner/fixtures/surface_sample.json: the two lattices (K2 rows of K1 values, as
 RATCHET.GRID lays them out), their knots, the values at the new settings, the package versions
@@ -28,7 +31,9 @@ import sys
 
 import cvxopt
 import numpy as np
+import scipy
 from cvxopt import matrix, solvers
+from scipy.stats import spearmanr
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "reference"))
 from lattice_design import design  # noqa: E402
@@ -53,8 +58,8 @@ new1 = np.array(INPUTS["N"], dtype=float)
 new2 = np.array(INPUTS["O"], dtype=float)
 
 
-def monotone_qp(B, y, K1, K2):
-    """min ||B theta - y||^2 subject to theta rising along x1 and along x2 (cvxopt)."""
+def monotone_qp(B, y, K1, K2, along2=True):
+    """min ||B theta - y||^2 subject to theta rising along x1 and (along2) along x2 (cvxopt)."""
     rows = []
     for b in range(K2):
         for a in range(K1):
@@ -63,7 +68,7 @@ def monotone_qp(B, y, K1, K2):
                 r = np.zeros(K1 * K2)
                 r[n], r[n + 1] = 1.0, -1.0  # theta[n] - theta[n+1] <= 0
                 rows.append(r)
-            if b + 1 < K2:
+            if along2 and b + 1 < K2:
                 r = np.zeros(K1 * K2)
                 r[n], r[n + K1] = 1.0, -1.0
                 rows.append(r)
@@ -131,6 +136,19 @@ out["lattice_4x3"] = {
     "knots2": s2.tolist(),
     "values": theta.reshape(K2, K1).tolist(),
     "at_new": (design(new1, new2, s1, s2) @ theta).tolist(),
+}
+
+# Directions 0, 0: the sign of Spearman's rank correlation of each input with y (scipy).
+out["versions"]["scipy"] = scipy.__version__
+out["spearman"] = {"x1": float(spearmanr(x1, y).correlation), "x2": float(spearmanr(x2, y).correlation)}
+
+# The 4 x 3 lattice rising along x1, no constraint along x2 (directions 1, 2).
+free = monotone_qp(design(x1, x2, s1, s2), y, K1, K2, along2=False)
+out["lattice_4x3_free_x2"] = {
+    "knots1": s1.tolist(),
+    "knots2": s2.tolist(),
+    "values": free.reshape(K2, K1).tolist(),
+    "at_new": (design(new1, new2, s1, s2) @ free).tolist(),
 }
 
 path = os.path.join("test", "runner", "fixtures", "surface_sample.json")
