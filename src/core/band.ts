@@ -929,6 +929,7 @@ export interface ShapedBandFitOptions extends BandFitOptions {
  *   sets), TOO_FEW_POINTS (n_used ≤ p, or coefficients the data do not determine separately),
  *   and the errors of {@link fitBandModel}.
  * @example fitShapedBandModel([1, 2, 3, 4], [1, 3, 2, 4], { knots: 2, curvature: 1 }).sigma // → 0.9486832980505138 (a line: no active row)
+ * @example fitShapedBandModel([1, 2, 3, 4, 5, 6], [1, 3, 2, 4, 5, 7], { knots: 2, degree: 2 }).dfResid // → 3 (one quadratic piece: 3 B-spline coefficients, none held by a constraint)
  */
 export function fitShapedBandModel(x: ArrayLike<number>, y: ArrayLike<number>, options: ShapedBandFitOptions): BandModel {
   const curvature = checkCurvature(options.curvature);
