@@ -133,7 +133,7 @@ export function formulaFor(kind: FitFormulaKind, refs: DataRefs, fit: FitSetting
  * // → '=RATCHET.INVERTBAND(15,$B$2:$B$7,$A$2:$A$7,2,1,,0.9,1)'
  */
 export function bandFormulas(refs: DataRefs, fit: FitSettings, band: BandFormulaSettings, newXs?: string): Partial<Record<'BAND' | 'INVERTBAND', string>> {
-  if (fit.knots === 0 || fit.degree === 2) return {};
+  if (fit.knots === 0) return {};
   const head = [refs.y, refs.x, String(fit.knots), String(fit.direction), refs.w, String(band.level)];
   const shape = shapeArgs(fit);
   const out: Partial<Record<'BAND' | 'INVERTBAND', string>> = { BAND: `=RATCHET.BAND(${argList([newXs ?? refs.x, ...head, String(band.kind), ...shape])})` };

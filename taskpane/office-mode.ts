@@ -21,13 +21,11 @@ function el<T extends HTMLElement>(id: string): T {
 }
 
 /**
- * Why BAND or INVERTBAND has no formula to insert: the classic fit (knots 0) and the smooth curve
- * (degree 2) have no band; a level or readings field that is not valid; INVERTBAND without a target.
+ * Why BAND or INVERTBAND has no formula to insert: the classic fit (knots 0) has no band; a level or readings field that is not valid; INVERTBAND without a target.
  * @example bandMissing('BAND', 0) // → 'BAND needs the knot model: set the knot count to 2 or more (the classic fit has no band).'
  */
-export function bandMissing(kind: 'BAND' | 'INVERTBAND', knots: number, degree: number = 1): string {
+export function bandMissing(kind: 'BAND' | 'INVERTBAND', knots: number): string {
   if (knots === 0) return `${kind} needs the knot model: set the knot count to 2 or more (the classic fit has no band).`;
-  if (degree === 2) return `${kind} needs the piecewise-linear curve: the smooth curve (degree 2) has no band yet.`;
   return kind === 'INVERTBAND'
     ? 'INVERTBAND needs a target: type a target y in the read-back box or a target_ys range above (and a valid level and number of readings).'
     : 'BAND needs a valid level: a number strictly between 0 and 1 (for example 0.95).';
@@ -386,7 +384,7 @@ export class OfficeData {
     const view = this.app.currentFit();
     const formula = this.app.formula(kind);
     if (r && view && !formula && (kind === 'BAND' || kind === 'INVERTBAND')) {
-      this.insertStatus(bandMissing(kind, this.app.fitSettings().knots, this.app.fitSettings().degree), true);
+      this.insertStatus(bandMissing(kind, this.app.fitSettings().knots), true);
       return;
     }
     if (!r || !view || !formula) {

@@ -76,8 +76,8 @@ function bandArgs(first: CellArg, data: DataColumns, fit: FitSettings, level: st
  * The band of the fit at the x of `grid`, by RATCHET.BAND with the same data and settings as the
  * fit shown. Cost: one BAND call (the functions' cache keeps the band model of the data).
  * @param grid the x to evaluate at (bandGrid), at least one.
- * @throws CellFailure with BAND's code and message: knots 0 (the classic fit has no band), degree
- *   2 (no band for the smooth curve yet), too few rows for the fitted groups, a level outside
+ * @throws CellFailure with BAND's code and message: knots 0 (the classic fit has no band), too
+ *   few rows for the fitted groups, a level outside
  *   (0, 1), any problem of the data.
  * @example computeBand({ x: [1, 2, 3, 4, 5, 6], y: [10, 12, 13, 16, 18, 21] }, { knots: 2, direction: 1 }, { level: 0.95, kind: 1 }, [3.5]).upper[0]
  * // → 15.690798077065656
@@ -163,9 +163,9 @@ function readBackValue(v: CellOut | undefined): ReadBackValue {
 
 /**
  * Reads a target y back: RATCHET.INVERTBAND (lower x, x, upper x at `level` for the mean of
- * `replicates` readings) for the knot model; for the classic fit (knots 0) and the smooth curve
- * (degree 2), which have no interval, the x of RATCHET.INVERT on the knot table (tie rule
- * "middle", the default; a smooth table keeps its third column of 2s, so INVERT reads parabolas).
+ * `replicates` readings) for the knot model, the smooth curve (degree 2) included; for the classic
+ * fit (knots 0), which has no interval, the x of RATCHET.INVERT on the knot table (tie rule
+ * "middle", the default).
  * Cost: one function call (the band model is cached).
  * @param target the target y: a number, or text as typed (text that reads as a number is that
  *   number; other text is refused by the function, naming target_ys).
@@ -178,7 +178,7 @@ function readBackValue(v: CellOut | undefined): ReadBackValue {
 export function readBack(data: DataColumns, fit: FitSettings, knotTable: readonly (readonly number[])[], target: CellValueIn, level: string | number, replicates: string | number): ReadBack {
   // A typed number is a number cell; other text stays text, which the function refuses by name.
   if (typeof target === 'string' && target.trim() !== '' && Number.isFinite(Number(target))) target = Number(target);
-  if (fit.knots === 0 || fit.degree === 2) {
+  if (fit.knots === 0) {
     const out = run('INVERT', [[[target]], knotTable.map((r) => [...r])]);
     const v = Array.isArray(out) ? out[0]![0] : out;
     return { target: Number(target), lower: undefined, x: readBackValue(v), upper: undefined, source: 'INVERT' };

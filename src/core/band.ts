@@ -9,8 +9,9 @@ import { knotRegression, type KnotFit } from './knot-fit.js';
 import { intervalIndex, lerp } from './interpolate.js';
 import { invertChecked } from './invert.js';
 import { studentTQuantile } from './student-t.js';
-import { checkCurvature, checkDegree, shapeRegression, type Curvature, type Degree } from './shape-fit.js';
-import { nullSpaceBasis } from './shape-qp.js';
+import { checkCurvature, checkDegree, quadraticBasisAt, shapeRegression, type Curvature, type Degree, type ShapeFit } from './shape-fit.js';
+import { nullSpaceBasis, type SparseRow } from './shape-qp.js';
+import { invertQuadraticChecked, smoothTableAt } from './smooth-table.js';
 
 /**
  * The active set of a constrained knot fit as a reduced design: θ = Z β with Z a sparse K × p
@@ -64,6 +65,26 @@ export interface BandModel {
    */
   readonly knotFactor: Float64Array;
   readonly crossFactor: Float64Array;
+  /**
+   * Present for the smooth fit (degree 2) only; then `knotX`/`knotY` are its 2K − 1-row quadratic
+   * table (knots and interval midpoints) and `knotFactor`/`crossFactor` are empty.
+   */
+  readonly smooth?: SmoothBandPart;
+}
+
+/**
+ * What the band of a smooth fit (quadratic B-splines, K + 1 coefficients) needs per knot interval:
+ * with C = Z(ZᵀHZ)⁻¹Zᵀ the coefficients' covariance factor, interval i (K − 1 of them) meets
+ * coefficients i, i + 1, i + 2, and `block[6i … 6i + 5]` holds C's entries (i,i), (i,i+1), (i,i+2),
+ * (i+1,i+1), (i+1,i+2), (i+2,i+2), so Var f(x) = σ̂² b(x)ᵀC_i b(x) costs O(1) once x is located.
+ */
+export interface SmoothBandPart {
+  /** Knot positions t₀ < … < t_{K−1}. */
+  readonly knots: Float64Array;
+  /** B-spline coefficients (K + 1), user direction. */
+  readonly coefficients: Float64Array;
+  /** Per-interval 3 × 3 covariance factor blocks, 6(K − 1) entries. */
+  readonly block: Float64Array;
 }
 
 /** Band kind: for the curve (the mean) or for one new observation of weight 1. */
@@ -369,6 +390,18 @@ function factorAt(model: BandModel, j: number, u: number): number {
   return f > 0 ? f : 0;
 }
 
+/** Variance factor b(x)ᵀC_i b(x) of the smooth fit at x (clamped to the knots), b scratch of length 3. */
+function smoothFactorAt(smooth: SmoothBandPart, x: number, b: Float64Array): number {
+  const i = quadraticBasisAt(smooth.knots, 2, x, b);
+  const c = smooth.block;
+  const o = 6 * i;
+  const b0 = b[0]!;
+  const b1 = b[1]!;
+  const b2 = b[2]!;
+  const f = b0 * (b0 * c[o]! + 2 * (b1 * c[o + 1]! + b2 * c[o + 2]!)) + b1 * (b1 * c[o + 3]! + 2 * b2 * c[o + 4]!) + b2 * b2 * c[o + 5]!;
+  return f > 0 ? f : 0;
+}
+
 /** Checks a band level: 0 < level < 1. */
 function checkLevel(level: number): number {
   if (typeof level !== 'number' || !(level > 0 && level < 1)) fail('BAD_OPTION', 'level', `needs a number strictly between 0 and 1; got ${String(level)}`);
@@ -403,6 +436,18 @@ export function bandAt(model: BandModel, newX: ArrayLike<number>, level = 0.95, 
   const upper = new Float64Array(n);
   const tx = model.knotX;
   const ty = model.knotY;
+  const smooth = model.smooth;
+  if (smooth !== undefined) {
+    const b = new Float64Array(3);
+    for (let i = 0; i < n; i++) {
+      const f = smoothTableAt(tx, ty, 'quadratic', xs[i]!);
+      const half = t * model.sigma * Math.sqrt(smoothFactorAt(smooth, xs[i]!, b) + extra);
+      fit[i] = f;
+      lower[i] = f - half;
+      upper[i] = f + half;
+    }
+    return { lower, fit, upper, t };
+  }
   for (let i = 0; i < n; i++) {
     const [j, u] = locate(tx, xs[i]!);
     const f = u === 0 ? ty[j]! : u === 1 ? ty[j + 1]! : lerp(ty[j]!, ty[j + 1]!, u);
@@ -454,9 +499,13 @@ export function inverseBand(model: BandModel, targets: ArrayLike<number>, level 
   const ys = finiteArray('target_ys', targets);
   const t = studentTQuantile((1 + level) / 2, model.dfResid);
   const s = model.direction === 'up' ? 1 : -1;
-  const tx = model.knotX;
+  const smooth = model.smooth;
+  // The scan runs over knot intervals: the table's rows for degree 1, the knots for the smooth fit.
+  const tx = smooth === undefined ? model.knotX : smooth.knots;
   const K = tx.length;
-  const ty = Float64Array.from(model.knotY, (v) => s * v); // rising
+  // Rising values: knot values (degree 1) or B-spline coefficients (degree 2).
+  const ty = Float64Array.from(smooth === undefined ? model.knotY : smooth.coefficients, (v) => s * v);
+  const edge = smooth === undefined ? edgeRoot : (_: BandModel, c: Float64Array, j: number, y: number, sc: number, ex: number, lo: number, hi: number, side: -1 | 1) => smoothEdgeRoot(smooth, c, j, y, sc, ex, lo, hi, side);
   const scale = t * model.sigma;
   const extra = 1 / replicates;
   const [dataLo, dataHi] = model.xRange;
@@ -464,7 +513,7 @@ export function inverseBand(model: BandModel, targets: ArrayLike<number>, level 
   for (let i = 0; i < ys.length; i++) {
     let x0: number;
     try {
-      x0 = invertChecked(tx, model.knotY, ys[i]!, 'middle');
+      x0 = smooth === undefined ? invertChecked(tx, model.knotY, ys[i]!, 'middle') : invertQuadraticChecked(model.knotX, model.knotY, ys[i]!, 'middle');
     } catch (err) {
       if (!(err instanceof RatchetError)) throw err;
       // The read-back's own message, under this function's argument name.
@@ -487,7 +536,7 @@ export function inverseBand(model: BandModel, targets: ArrayLike<number>, level 
     for (let j = j0; j >= 0 && tx[j + 1]! > searchLo; j--) {
       const uMax = j === j0 ? u0 : 1;
       const uMin = tx[j]! >= searchLo ? 0 : (searchLo - tx[j]!) / (tx[j + 1]! - tx[j]!);
-      const root = edgeRoot(model, ty, j, y0, scale, extra, uMin, uMax, -1);
+      const root = edge(model, ty, j, y0, scale, extra, uMin, uMax, -1);
       if (root !== null) {
         lower = lerp(tx[j]!, tx[j + 1]!, root);
         break;
@@ -501,7 +550,7 @@ export function inverseBand(model: BandModel, targets: ArrayLike<number>, level 
     for (let j = j0; j < K - 1 && tx[j]! < searchHi; j++) {
       const uMin = j === j0 ? u0 : 0;
       const uMax = tx[j + 1]! <= searchHi ? 1 : (searchHi - tx[j]!) / (tx[j + 1]! - tx[j]!);
-      const root = edgeRoot(model, ty, j, y0, scale, extra, uMin, uMax, 1);
+      const root = edge(model, ty, j, y0, scale, extra, uMin, uMax, 1);
       if (root !== null) {
         upper = lerp(tx[j]!, tx[j + 1]!, root);
         break;
@@ -579,46 +628,321 @@ function edgeRoot(
   return best;
 }
 
+/** Coefficients (ascending powers) of the product of two polynomials. */
+function polyMul(a: readonly number[], b: readonly number[]): number[] {
+  const out = new Array<number>(a.length + b.length - 1).fill(0);
+  for (let i = 0; i < a.length; i++) for (let k = 0; k < b.length; k++) out[i + k] = out[i + k]! + a[i]! * b[k]!;
+  return out;
+}
+
+/** Horner evaluation of a polynomial given by ascending coefficients. */
+function polyAt(a: readonly number[], u: number): number {
+  let v = 0;
+  for (let i = a.length - 1; i >= 0; i--) v = v * u + a[i]!;
+  return v;
+}
+
+/** The derivative's ascending coefficients. */
+function polyDerivative(a: readonly number[]): number[] {
+  const out: number[] = [];
+  for (let i = 1; i < a.length; i++) out.push(i * a[i]!);
+  return out;
+}
+
+/**
+ * Points lo = p₀ < p₁ < … < p_r = hi such that the polynomial is monotone on each [p_k, p_{k+1}]:
+ * the sign changes of its derivative, found by the same rule one degree down (a polynomial of
+ * degree d has at most d − 1 of them, and a constant none), so every root is isolated exactly.
+ */
+function monotonePieces(a: readonly number[], lo: number, hi: number): number[] {
+  const pts = [lo];
+  if (a.length > 2) {
+    const d = polyDerivative(a);
+    const inner = monotonePieces(d, lo, hi);
+    for (let k = 0; k + 1 < inner.length; k++) {
+      const l = inner[k]!;
+      const r = inner[k + 1]!;
+      const fl = polyAt(d, l);
+      const fr = polyAt(d, r);
+      if ((fl < 0 && fr > 0) || (fl > 0 && fr < 0)) {
+        const root = bisectRoot(d, l, r, fl < 0);
+        if (root > pts[pts.length - 1]! && root < hi) pts.push(root);
+      }
+    }
+  }
+  pts.push(hi);
+  return pts;
+}
+
+/**
+ * The sign change of a polynomial monotone on [l, r] (negative at l when `negLeft`), by bisection
+ * to adjacent doubles: exact to the rounding of its evaluation. At most about 64 halvings.
+ */
+function bisectRoot(a: readonly number[], l: number, r: number, negLeft: boolean): number {
+  for (;;) {
+    const mid = l + (r - l) / 2;
+    if (!(mid > l && mid < r)) break;
+    const v = polyAt(a, mid);
+    if (v === 0) return mid;
+    if (v < 0 === negLeft) l = mid;
+    else r = mid;
+  }
+  return Math.abs(polyAt(a, l)) <= Math.abs(polyAt(a, r)) ? l : r;
+}
+
+/**
+ * {@link edgeRoot} for the smooth fit: on knot interval j (u the share of the interval), f is a
+ * quadratic in u (B-spline coefficients `cr`, rising), its variance factor a quartic, so
+ * P(u) = (f(u) − y0)² − c²(factor(u) + extra) is a quartic. Its monotone pieces come from the
+ * sign changes of P′, P″, P‴ (each isolated by the one below), and the first piece, walking from
+ * the read-back outwards, on which P turns from ≤ 0 to > 0 holds the limit; bisection finds it to
+ * rounding. Null when the band does not reach y0 on [uMin, uMax].
+ */
+function smoothEdgeRoot(
+  smooth: SmoothBandPart,
+  cr: Float64Array,
+  j: number,
+  y0: number,
+  c: number,
+  extra: number,
+  uMin: number,
+  uMax: number,
+  side: -1 | 1,
+): number | null {
+  if (!(uMax >= uMin)) return null;
+  const t = smooth.knots;
+  const K = t.length;
+  const a = t[j]!;
+  const b = t[j + 1]!;
+  const tm1 = t[Math.max(j - 1, 0)]!;
+  const tp2 = t[Math.min(j + 2, K - 1)]!;
+  const h = b - a;
+  const al = h / (b - tm1);
+  const be = h / (tp2 - a);
+  const ga = (a - tm1) / (b - tm1);
+  // The three B-splines on the interval as polynomials in u (de Boor's recurrence, expanded).
+  const p0 = [al, -2 * al, al];
+  const p1 = [ga, 2 * al, -al - be];
+  const p2 = [0, 0, be];
+  const c0 = cr[j]!;
+  const c1 = cr[j + 1]!;
+  const c2 = cr[j + 2]!;
+  const F = [c0 * p0[0]! + c1 * p1[0]! - y0, c0 * p0[1]! + c1 * p1[1]!, c0 * p0[2]! + c1 * p1[2]! + c2 * p2[2]!];
+  const S = smooth.block;
+  const o = 6 * j;
+  const V = [extra, 0, 0, 0, 0];
+  const add = (pa: readonly number[], pb: readonly number[], w: number): void => {
+    const q = polyMul(pa, pb);
+    for (let k = 0; k < q.length; k++) V[k] = V[k]! + w * q[k]!;
+  };
+  add(p0, p0, S[o]!);
+  add(p0, p1, 2 * S[o + 1]!);
+  add(p0, p2, 2 * S[o + 2]!);
+  add(p1, p1, S[o + 3]!);
+  add(p1, p2, 2 * S[o + 4]!);
+  add(p2, p2, S[o + 5]!);
+  const FF = polyMul(F, F);
+  const c2t = c * c;
+  const P = FF.map((v, k) => v - c2t * V[k]!);
+  const pts = monotonePieces(P, uMin, uMax);
+  if (side > 0) {
+    if (polyAt(P, pts[0]!) > 0) return pts[0]!;
+    for (let k = 0; k + 1 < pts.length; k++) {
+      if (polyAt(P, pts[k + 1]!) > 0) return bisectRoot(P, pts[k]!, pts[k + 1]!, true);
+    }
+  } else {
+    const last = pts.length - 1;
+    if (polyAt(P, pts[last]!) > 0) return pts[last]!;
+    for (let k = last; k > 0; k--) {
+      if (polyAt(P, pts[k - 1]!) > 0) return bisectRoot(P, pts[k - 1]!, pts[k]!, false);
+    }
+  }
+  return null;
+}
+
+/**
+ * {@link bandModelChecked} for a smooth fit (degree 2): H = BᵀWB on the K + 1 quadratic B-splines
+ * (pentadiagonal, one pass), Z the null space of the fit's active rows, M = ZᵀHZ in band storage,
+ * the band of M⁻¹ (Takahashi), and per knot interval the 3 × 3 block of C = ZM⁻¹Zᵀ on the
+ * coefficients touching it. Cost O(n log K + K·m²) plus the null space, m the bandwidth of M.
+ */
+function smoothBandModelChecked(xs: Float64Array, ys: Float64Array, ws: Float64Array | null, fit: ShapeFit): BandModel {
+  const t = fit.knots;
+  const K = t.length;
+  const nc = K + 1;
+  const coefs = fit.coefficients;
+  const h0 = new Float64Array(nc);
+  const h1 = new Float64Array(nc);
+  const h2 = new Float64Array(nc);
+  const b = new Float64Array(3);
+  let nUsed = 0;
+  let sse = 0;
+  let xmin = Infinity;
+  let xmax = -Infinity;
+  for (let i = 0; i < xs.length; i++) {
+    const w = ws === null ? 1 : ws[i]!;
+    if (!(w > 0)) continue;
+    nUsed++;
+    const xi = xs[i]!;
+    if (xi < xmin) xmin = xi;
+    if (xi > xmax) xmax = xi;
+    const q = quadraticBasisAt(t, 2, xi, b);
+    const b0 = b[0]!;
+    const b1 = b[1]!;
+    const b2 = b[2]!;
+    h0[q] = h0[q]! + w * b0 * b0;
+    h0[q + 1] = h0[q + 1]! + w * b1 * b1;
+    h0[q + 2] = h0[q + 2]! + w * b2 * b2;
+    h1[q] = h1[q]! + w * b0 * b1;
+    h1[q + 1] = h1[q + 1]! + w * b1 * b2;
+    h2[q] = h2[q]! + w * b0 * b2;
+    const r = ys[i]! - (b0 * coefs[q]! + b1 * coefs[q + 1]! + b2 * coefs[q + 2]!);
+    sse += w * r * r;
+  }
+  const activeRows: SparseRow[] = Array.from(fit.active, (i) => fit.constraints[i]!);
+  const basis = denseToBasis(nc, nullSpaceBasis(nc, activeRows));
+  const p = basis.size;
+  const dfResid = nUsed - p;
+  if (dfResid < 1) {
+    fail('TOO_FEW_POINTS', 'known_ys', `needs more rows with positive weight (${nUsed}) than fitted parameters (${p}) to estimate the scatter`);
+  }
+  const sigma = Math.sqrt(sse / dfResid);
+  const { rowStart, col, val } = basis;
+  const hAt = (r: number, q: number): number => {
+    const d = r > q ? r - q : q - r;
+    const lo = r < q ? r : q;
+    return d === 0 ? h0[lo]! : d === 1 ? h1[lo]! : h2[lo]!;
+  };
+  // Bandwidth: the spread of columns over every window of three coefficient rows (H couples them).
+  let m = 0;
+  for (let r = 0; r < nc; r++) {
+    const end = rowStart[Math.min(r + 3, nc)]!;
+    let hiCol = -1;
+    let loCol = p;
+    for (let q = rowStart[r]!; q < end; q++) {
+      hiCol = Math.max(hiCol, col[q]!);
+      loCol = Math.min(loCol, col[q]!);
+    }
+    if (hiCol >= loCol) m = Math.max(m, hiCol - loCol);
+  }
+  const width = m + 1;
+  const band = new Float64Array(p * width);
+  for (let r = 0; r < nc; r++) {
+    for (let r2 = Math.max(0, r - 2); r2 <= Math.min(nc - 1, r + 2); r2++) {
+      const hv = hAt(r, r2);
+      if (hv === 0) continue;
+      for (let q = rowStart[r]!; q < rowStart[r + 1]!; q++) {
+        for (let q2 = rowStart[r2]!; q2 < rowStart[r2 + 1]!; q2++) {
+          const a = col[q]!;
+          const a2 = col[q2]!;
+          if (a2 > a) continue; // lower triangle only; the mirror pair adds the upper one
+          band[a * width + (a - a2)] = band[a * width + (a - a2)]! + hv * val[q]! * val[q2]!;
+        }
+      }
+    }
+  }
+  const S = bandedInverseBand(band, p, m);
+  const entry = (a: number, a2: number): number => (a >= a2 ? S[a * width + (a - a2)]! : S[a2 * width + (a2 - a)]!);
+  const cov = (r: number, r2: number): number => {
+    let v = 0;
+    for (let q = rowStart[r]!; q < rowStart[r + 1]!; q++) {
+      for (let q2 = rowStart[r2]!; q2 < rowStart[r2 + 1]!; q2++) v += val[q]! * val[q2]! * entry(col[q]!, col[q2]!);
+    }
+    return v;
+  };
+  const block = new Float64Array(6 * (K - 1));
+  for (let i = 0; i + 1 < K; i++) {
+    const o = 6 * i;
+    block[o] = cov(i, i);
+    block[o + 1] = cov(i, i + 1);
+    block[o + 2] = cov(i, i + 2);
+    block[o + 3] = cov(i + 1, i + 1);
+    block[o + 4] = cov(i + 1, i + 2);
+    block[o + 5] = cov(i + 2, i + 2);
+  }
+  if (!Number.isFinite(sigma) || !block.every(Number.isFinite)) {
+    fail('NUMERICAL', 'known_ys', 'needs data whose sums of squares stay within the range of doubles for a band');
+  }
+  return {
+    direction: fit.direction,
+    knotX: fit.knotX,
+    knotY: fit.knotY,
+    nUsed,
+    parameters: p,
+    dfResid,
+    sigma,
+    xRange: [xmin, xmax],
+    knotFactor: new Float64Array(0),
+    crossFactor: new Float64Array(0),
+    smooth: { knots: fit.knots, coefficients: coefs, block },
+  };
+}
+
+/** Dense null-space columns as a compressed-row {@link ActiveSetBasis}; entries at or below 1e-14 are dropped. */
+function denseToBasis(K: number, columns: readonly Float64Array[]): ActiveSetBasis {
+  if (columns.length === 0) fail('TOO_FEW_POINTS', 'known_ys', 'needs a fit with at least one free parameter for a band');
+  const rowStart = new Int32Array(K + 1);
+  const col: number[] = [];
+  const val: number[] = [];
+  for (let j = 0; j < K; j++) {
+    rowStart[j] = col.length;
+    for (let c = 0; c < columns.length; c++) {
+      const v = columns[c]![j]!;
+      if (Math.abs(v) > 1e-14) {
+        col.push(c);
+        val.push(v);
+      }
+    }
+  }
+  rowStart[K] = col.length;
+  return { knots: K, size: columns.length, rowStart, col: Int32Array.from(col), val: Float64Array.from(val) };
+}
+
 /** Options of {@link fitShapedBandModel}: those of {@link fitBandModel} plus the shape. */
 export interface ShapedBandFitOptions extends BandFitOptions {
   /** −1 concave, 0 any (default), 1 convex. */
   curvature?: Curvature | undefined;
-  /** 1 piecewise linear (default). Degree 2 (smooth) has no band yet and is refused. */
+  /** 1 piecewise linear (default), 2 smooth (quadratic B-splines). */
   degree?: Degree | undefined;
 }
 
 /**
  * The band model of any knot fit the worksheet offers: the plain knot model as
- * {@link fitBandModel}, and a concave or convex one (curvature ±1, degree 1) conditional on its
- * active set — the active shape rows of {@link shapeRegression} define the null-space basis Z
- * ({@link nullSpaceBasis}), on which the shaped optimum is the plain weighted least-squares fit
- * (docs/shapes.md, "For bands conditional on the active set"), so
- * Var f(x) = σ̂² b(x)ᵀZ(ZᵀBᵀWBZ)⁻¹Zᵀb(x) with p = columns of Z.
+ * {@link fitBandModel}, and a concave or convex one (curvature ±1) or a smooth one (degree 2,
+ * quadratic B-splines, any curvature) conditional on its active set — the active rows of
+ * {@link shapeRegression} define the null-space basis Z ({@link nullSpaceBasis}) of the knot
+ * values (degree 1) or the K + 1 B-spline coefficients (degree 2), on which the shaped optimum is
+ * the plain weighted least-squares fit (docs/shapes.md, "For bands conditional on the active
+ * set"), so Var f(x) = σ̂² b(x)ᵀZ(ZᵀBᵀWBZ)⁻¹Zᵀb(x), b(x) the basis values at x (2 or 3 non-zeros),
+ * p = columns of Z, Student t with n_used − p degrees of freedom. Beyond the end knots: the band
+ * of the end value. The smooth model keeps per knot interval the 3 × 3 covariance factor block
+ * of the coefficients touching it, so {@link bandAt} stays O(log K) per x; {@link inverseBand}
+ * reads back x on its quadratic table (as RATCHET.INVERT) and solves a quartic per interval.
  *
  * Cost: the fit, plus O(K²·a) for the null space of a active rows and O(K·m²) for the banded
  * factorisation (m the bandwidth of ZᵀHZ). Inputs are not modified.
  *
  * @param x, y the data (finite, same length n ≥ 1).
  * @param options knots (≥ 2 or positions; 0 refused as in {@link checkBandKnots}), weights, direction,
- *   curvature (−1, 0 default, 1), degree (1 default; 2 refused).
- * @throws RatchetError BAD_KNOTS (classic fit), BAD_OPTION (degree 2: the smooth fit has no band;
- *   curvature or degree outside their sets), and the errors of {@link fitBandModel}.
+ *   curvature (−1, 0 default, 1), degree (1 default, 2).
+ * @throws RatchetError BAD_KNOTS (classic fit), BAD_OPTION (curvature or degree outside their
+ *   sets), TOO_FEW_POINTS (n_used ≤ p, or coefficients the data do not determine separately),
+ *   and the errors of {@link fitBandModel}.
  * @example fitShapedBandModel([1, 2, 3, 4], [1, 3, 2, 4], { knots: 2, curvature: 1 }).sigma // → 0.9486832980505138 (a line: no active row)
+ * @example fitShapedBandModel([1, 2, 3, 4, 5, 6], [1, 3, 2, 4, 5, 7], { knots: 2, degree: 2 }).dfResid // → 3 (one quadratic piece: 3 B-spline coefficients, none held by a constraint)
  */
 export function fitShapedBandModel(x: ArrayLike<number>, y: ArrayLike<number>, options: ShapedBandFitOptions): BandModel {
   const curvature = checkCurvature(options.curvature);
   const degree = checkDegree(options.degree);
   const knots = checkBandKnots(options.knots);
-  if (degree === 2) {
-    fail('BAD_OPTION', 'degree', 'needs 1 (piecewise linear) for a band: the smooth fit (degree 2) has no band or read-back interval yet');
-  }
-  if (curvature === 0) return fitBandModel(x, y, options);
+  if (curvature === 0 && degree === 1) return fitBandModel(x, y, options);
   const xs = finiteArray('x', x);
   sameLength('x', xs.length, 'y', y);
   const ys = finiteArray('y', y);
   if (xs.length === 0) fail('EMPTY_INPUT', 'x', 'needs at least one value; got none');
   const ws = options.weights === undefined ? null : weightArray(xs.length, options.weights);
-  const fit = shapeRegression(xs, ys, { knots, weights: ws ?? undefined, direction: options.direction, curvature, degree: 1 });
+  const fit = shapeRegression(xs, ys, { knots, weights: ws ?? undefined, direction: options.direction, curvature, degree });
+  if (degree === 2) return smoothBandModelChecked(xs, ys, ws, fit);
   const K = fit.knotX.length;
   const activeRows = Array.from(fit.active, (i) => fit.constraints[i]!);
   const columns = nullSpaceBasis(K, activeRows);

@@ -171,7 +171,7 @@ export function cachedFit(data: DataArgs, knots: number | Float64Array, directio
 /**
  * The band model (σ̂, degrees of freedom and variance factors conditional on the active set) of the
  * knot fit of the data with these options, cached like {@link cachedFit}.
- * @throws RatchetError from the pairing and the core (knots 0, degree 2, too few rows).
+ * @throws RatchetError from the pairing and the core (knots 0, too few rows).
  */
 export function cachedBand(data: DataArgs, knots: number | Float64Array, direction: DirectionOption, shape: Shape): BandModel {
   return memo('band', [...dataParts(data), knots, direction, shape.curvature, shape.degree], () => {

@@ -391,7 +391,7 @@ function threeWide(v: Vector, name: string, values: (i: number) => readonly [Cel
   return triples.map((t) => [t[0], t[1], t[2]]);
 }
 
-/** The knot model's band of the data with the arguments given (knots 0 and degree 2 refused). */
+/** The knot model's band of the data with the arguments given (knots 0 refused). */
 function bandModelOf(a: Args<'known_ys' | 'known_xs' | 'knots' | 'direction' | 'weights' | 'curvature' | 'degree'>) {
   const data = a.rows(['known_ys', 'known_xs'], 'weights');
   const knots = a.knots('knots');

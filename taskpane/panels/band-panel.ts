@@ -74,12 +74,7 @@ export class BandPanel {
           this.band = computeBand(sel.data, fit, this.controls(), bandGrid(this.rows.x, view.knots.map(([x]) => x)));
           this.note = flatHint(view);
         } catch (e) {
-          if (argumentOf(e) === 'degree') {
-            // The smooth curve has no band yet: BAND's own message, the controls disabled.
-            el<HTMLInputElement>('band-level').disabled = true;
-            el<HTMLSelectElement>('band-kind').disabled = true;
-            this.note = `No band for the smooth curve: ${errorText(e)}`;
-          } else if (argumentOf(e) === 'level') {
+          if (argumentOf(e) === 'level') {
             fieldMessage('band-level', errorText(e));
             this.note = 'No band until the level is a number strictly between 0 and 1 (for example 0.95).';
           } else {

@@ -1,12 +1,12 @@
 /**
- * Fuzz: 10,000 argument grids per entry point (fitBandModel + bandAt, fitBandModel + inverseBand)
+ * Fuzz: 10,000 argument grids per entry point (fitBandModel + bandAt, fitBandModel + inverseBand, and the smooth fit through fitShapedBandModel + both)
  * with awkward values — NaN, ±Infinity, huge and tiny numbers, zero and negative weights, too few
  * rows, unsorted knot positions, levels and replicates out of range. Whatever comes in, the core
  * either throws a RatchetError or returns finite, ordered numbers (never a silent NaN).
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { bandAt, fitBandModel, RatchetError } from '../../src/core/index.js';
+import { bandAt, fitBandModel, fitShapedBandModel, RatchetError } from '../../src/core/index.js';
 import { inverseBand } from '../../src/core/band.js';
 
 const plain = fc.integer({ min: -50, max: 50 }).map((v) => v / 4);
@@ -90,5 +90,39 @@ describe('band fuzz (fixed seed)', () => {
       }),
       { numRuns: 10000, seed: 1403 },
     );
+  });
+  it('10,000 grids through the smooth fit (degree 2, any curvature) + bandAt and inverseBand: a RatchetError or finite, ordered values', () => {
+    let smoothReached = 0;
+    fc.assert(
+      fc.property(args, mostly(fc.constantFrom<unknown>(-1, 0, 1), fc.constantFrom<unknown>(2, 0.5, NaN, 'x')), (a, curvature) => {
+        onlyRatchetErrors(() => {
+          const m = fitShapedBandModel(a.x.slice(0, a.n), a.y.slice(0, a.n), {
+            knots: a.knots,
+            weights: a.w === null ? undefined : a.w.slice(0, a.n),
+            direction: a.direction as 'up',
+            curvature: curvature as 0,
+            degree: 2,
+          });
+          const b = bandAt(m, a.points, a.level, a.kind as 'confidence');
+          smoothReached++;
+          for (let i = 0; i < a.points.length; i++) {
+            expect(Number.isFinite(b.lower[i]!) && Number.isFinite(b.upper[i]!)).toBe(true);
+            expect(b.lower[i]! <= b.fit[i]! && b.fit[i]! <= b.upper[i]!).toBe(true);
+          }
+          for (const r of inverseBand(m, a.targets, a.level, a.replicates)) {
+            for (const v of [r.lower, r.x, r.upper]) {
+              if (v instanceof RatchetError) expect(v.code).toBe('NOT_REACHABLE');
+              else expect(Number.isFinite(v)).toBe(true);
+            }
+            if (typeof r.x === 'number') {
+              if (typeof r.lower === 'number') expect(r.lower).toBeLessThanOrEqual(r.x);
+              if (typeof r.upper === 'number') expect(r.upper).toBeGreaterThanOrEqual(r.x);
+            }
+          }
+        });
+      }),
+      { numRuns: 10000, seed: 1404 },
+    );
+    expect(smoothReached).toBeGreaterThan(1500); // the smooth band was computed, not only refused
   });
 });

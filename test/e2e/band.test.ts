@@ -152,7 +152,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: band, residuals, read-back and direct
     expect((await snap(page)).band).not.toBeNull();
   });
 
-  it('a concave band carries curvature -1; the smooth curve (degree 2) has no band: controls disabled, BAND’s message', async () => {
+  it('a concave band carries curvature -1; the smooth curve (degree 2) has its band: RATCHET.BAND with degree 2, controls enabled', async () => {
     await page.selectOption('#curvature', '-1');
     let s = await snap(page);
     const xs = s.band!.upper.map((p) => p.x);
@@ -162,11 +162,14 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: band, residuals, read-back and direct
     await page.selectOption('#curvature', '0');
     await page.selectOption('#degree', '2');
     s = await snap(page);
-    expect(s.band).toBeNull();
-    expect(s.bandNote).toMatch(/^No band for the smooth curve: #VALUE! degree: needs 1 \(piecewise linear\) for a band/);
-    expect(await page.isDisabled('#band-level')).toBe(true);
-    expect(await page.isDisabled('#band-kind')).toBe(true);
-    expect(s.formulas.BAND).toBeUndefined();
+    expect(s.band).not.toBeNull();
+    const xs2 = s.band!.upper.map((p) => p.x);
+    const ref2 = invoke('BAND', [col(xs2), col(hardness), col(hours), 5, 1, undefined, 0.95, 1, undefined, 2]);
+    expectClose(s.band!.upper.map((p) => p.y), ref2.map((r) => r[2]!));
+    expectClose(s.band!.lower.map((p) => p.y), ref2.map((r) => r[0]!));
+    expect(await page.isDisabled('#band-level')).toBe(false);
+    expect(await page.isDisabled('#band-kind')).toBe(false);
+    expect(s.formulas.BAND).toBe('=RATCHET.BAND(cure!$A$2:$A$25,cure!$B$2:$B$25,cure!$A$2:$A$25,5,1,,0.95,1,,2)');
     await page.selectOption('#degree', '1');
     expect((await snap(page)).band).not.toBeNull();
     expect(await page.isDisabled('#band-level')).toBe(false);

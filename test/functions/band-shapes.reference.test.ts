@@ -12,6 +12,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { clearCaches } from '../../src/functions/engine.js';
+import { bandAt, fitShapedBandModel, inverseBand, invertTable } from '../../src/core/index.js';
 import { cell, col, row } from './helpers.js';
 import type { CellArg, CellOut } from '../../src/functions/types.js';
 
@@ -110,10 +111,16 @@ describe('RATCHET.BAND result shapes and refusals', () => {
     expect(out[0]).toEqual(asColumn.map((r) => r[0]));
     expect(out[2]).toEqual(asColumn.map((r) => r[2]));
   });
-  it('degree 2 (smooth) is #VALUE! with a message: no band yet, never a wrong number', () => {
-    expect(cell('BAND', 3, ys, xs, 3, null, null, null, null, 0, 2)).toEqual({
-      error: { code: '#VALUE!', message: 'degree: needs 1 (piecewise linear) for a band: the smooth fit (degree 2) has no band or read-back interval yet.' },
-    });
+  it('degree 2 (smooth) gives the core smooth band (fitShapedBandModel + bandAt) and INVERTBAND the core read-back interval, cell for cell', () => {
+    clearCaches();
+    const model = fitShapedBandModel([1, 2, 3, 4, 5, 6], [10, 14, 12, 17, 16, 21], { knots: 3, degree: 2 });
+    const b = bandAt(model, [3], 0.95, 'confidence');
+    expect(cell('BAND', 3, ys, xs, 3, null, null, null, null, 0, 2)).toEqual([[b.lower[0], b.fit[0], b.upper[0]]]);
+    const r = inverseBand(model, [15], 0.5, 10)[0]!;
+    expect([typeof r.lower, typeof r.upper]).toEqual(['number', 'number']);
+    // The middle value is RATCHET.INVERT's read-back on the smooth fit's quadratic table.
+    expect(r.x).toBe(invertTable(model.knotX, model.knotY, 'quadratic', 15));
+    expect(cell('INVERTBAND', 15, ys, xs, 3, null, null, 0.5, 10, 0, 2)).toEqual([[r.lower, r.x, r.upper]]);
   });
 });
 

@@ -27,7 +27,7 @@ import {
 } from '../../taskpane/uncertainty.js';
 import { directionText } from '../../taskpane/panels/direction-panel.js';
 import { functionByName } from '../../src/functions/registry.js';
-import type { CellArg } from '../../src/functions/types.js';
+import type { CellArg, CellOut } from '../../src/functions/types.js';
 import { CellFailure } from '../../taskpane/analysis.js';
 
 interface LineCase {
@@ -288,22 +288,22 @@ describe('shapes: the band and the read-back follow the curvature and degree of 
       INVERTBAND: '=RATCHET.INVERTBAND(40,$B$2:$B$51,$A$2:$A$51,5,1,,0.9,1,-1)',
     });
   });
-  it('the smooth curve (degree 2) has no band: BAND refuses it naming degree, no formulas, and the read-back is INVERT on the smooth table', () => {
+  it('the smooth curve (degree 2) has a band and a read-back interval: the pane shows RATCHET.BAND and RATCHET.INVERTBAND with degree 2, and inserts both formulas', () => {
     const fit = { knots: 4, direction: 1 as const, degree: 2 as const };
-    let err: unknown;
-    try {
-      computeBand(data, fit, { level: 0.95, kind: 1 }, [10]);
-    } catch (e) {
-      err = e;
-    }
-    expect(argumentOf(err)).toBe('degree');
-    expect(bandFormulas({ y: 'B2:B51', x: 'A2:A51' }, fit, { level: 0.95, kind: 1, replicates: 1, targets: '40' })).toEqual({});
+    const band = computeBand(data, fit, { level: 0.95, kind: 1 }, [10]);
+    const direct = functionByName('BAND')!.invoke([[[10]], data.y.map((v) => [v]), data.x.map((v) => [v]), 4, 1, undefined, 0.95, 1, undefined, 2] as CellArg[]) as CellOut[][];
+    expect([band.lower[0], band.fit[0], band.upper[0]]).toEqual(direct[0]);
+    expect(band.lower[0]!).toBeLessThan(band.fit[0]!);
+    const formulas = bandFormulas({ y: 'B2:B51', x: 'A2:A51' }, fit, { level: 0.95, kind: 1, replicates: 1, targets: '40' });
+    expect(formulas.BAND).toMatch(/^=RATCHET\.BAND\(.*,2\)$/);
+    expect(formulas.INVERTBAND).toMatch(/^=RATCHET\.INVERTBAND\(.*,2\)$/);
     const view = computeFit(data, fit);
     const table = knotTableRows(view);
     const r = readBack(data, fit, table, 40, 0.95, 1);
     const invert = functionByName('INVERT')!.invoke([[[40]], table] as CellArg[]);
-    expect([r.source, r.lower, r.upper]).toEqual(['INVERT', undefined, undefined]);
-    expect(r.x).toBe(Array.isArray(invert) ? invert[0]![0] : invert);
+    expect(r.source).toBe('INVERTBAND');
+    // The middle value is RATCHET.INVERT's on the smooth table.
+    expect(r.x).toBeCloseTo(Number(Array.isArray(invert) ? invert[0]![0] : invert), 12);
   });
 });
 
