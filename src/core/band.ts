@@ -945,23 +945,6 @@ export function fitShapedBandModel(x: ArrayLike<number>, y: ArrayLike<number>, o
   if (degree === 2) return smoothBandModelChecked(xs, ys, ws, fit);
   const K = fit.knotX.length;
   const activeRows = Array.from(fit.active, (i) => fit.constraints[i]!);
-  const columns = nullSpaceBasis(K, activeRows);
-  if (columns.length === 0) fail('TOO_FEW_POINTS', 'known_ys', 'needs a fit with at least one free parameter for a band');
-  // Z in compressed rows; entries below rounding of the basis are dropped.
-  const rowStart = new Int32Array(K + 1);
-  const col: number[] = [];
-  const val: number[] = [];
-  for (let j = 0; j < K; j++) {
-    rowStart[j] = col.length;
-    for (let c = 0; c < columns.length; c++) {
-      const v = columns[c]![j]!;
-      if (Math.abs(v) > 1e-14) {
-        col.push(c);
-        val.push(v);
-      }
-    }
-  }
-  rowStart[K] = col.length;
-  const basis: ActiveSetBasis = { knots: K, size: columns.length, rowStart, col: Int32Array.from(col), val: Float64Array.from(val) };
+  const basis = denseToBasis(K, nullSpaceBasis(K, activeRows));
   return bandModelChecked(xs, ys, ws, fit.knotX, fit.knotY, fit.direction, basis);
 }
