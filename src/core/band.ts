@@ -597,6 +597,7 @@ function edgeRoot(
   const dP = (u: number): number => 2 * a1 * (a0 + a1 * u) - c2 * (v1 + 2 * u * v2);
   const roots: number[] = [];
   const scaleABC = Math.max(Math.abs(A), Math.abs(B), Math.abs(C));
+  let vertex = NaN; // P's maximum when it stays below 0: where the edge comes closest to y0
   if (Math.abs(A) <= 1e-14 * scaleABC) {
     if (B !== 0) roots.push(-C / B);
   } else {
@@ -605,8 +606,10 @@ function edgeRoot(
       const q = -0.5 * (B + (B >= 0 ? 1 : -1) * Math.sqrt(disc));
       roots.push(q / A);
       if (q !== 0) roots.push(C / q);
-    } else if (disc > -1e-12 * B * B) roots.push(-B / (2 * A)); // a touching (double) root
+    } else if (A < 0) vertex = -B / (2 * A);
   }
+  const tol = touchTolerance(Math.abs(ty[j]!) + Math.abs(ty[j + 1]!), y0, c);
+  const touches = (u: number): boolean => touchesTarget(a0 + a1 * u, c * Math.sqrt(Math.max(v0 + u * (v1 + u * v2), 0)), tol, side);
   let best: number | null = null;
   const span = 1e-9;
   for (let u of roots) {
@@ -621,8 +624,16 @@ function edgeRoot(
     }
     u = Math.min(Math.max(u, uMin), uMax);
     const gap = a0 + a1 * u; // f − y0: ≤ 0 on the upper edge's root (left side), ≥ 0 on the lower edge's
-    const tol = 1e-12 * (Math.abs(ty[j]!) + Math.abs(ty[j + 1]!) + Math.abs(y0) + c);
     if (side < 0 ? gap > tol : gap < -tol) continue;
+    if (best === null || (side < 0 ? u > best : u < best)) best = u;
+  }
+  // Touching points (the rule of touchesTarget): P's maximum inside the interval, and the inward
+  // end when P falls from it outwards (the edge turns back there, at a knot).
+  const touching: number[] = [];
+  if (vertex >= uMin - span && vertex <= uMax + span) touching.push(Math.min(Math.max(vertex, uMin), uMax));
+  if (side > 0 ? dP(uMin) <= 0 : dP(uMax) >= 0) touching.push(side > 0 ? uMin : uMax);
+  for (const u of touching) {
+    if (!touches(u)) continue;
     if (best === null || (side < 0 ? u > best : u < best)) best = u;
   }
   return best;
@@ -745,19 +756,44 @@ function smoothEdgeRoot(
   const c2t = c * c;
   const P = FF.map((v, k) => v - c2t * V[k]!);
   const pts = monotonePieces(P, uMin, uMax);
-  if (side > 0) {
-    if (polyAt(P, pts[0]!) > 0) return pts[0]!;
-    for (let k = 0; k + 1 < pts.length; k++) {
-      if (polyAt(P, pts[k + 1]!) > 0) return bisectRoot(P, pts[k]!, pts[k + 1]!, true);
-    }
-  } else {
-    const last = pts.length - 1;
-    if (polyAt(P, pts[last]!) > 0) return pts[last]!;
-    for (let k = last; k > 0; k--) {
-      if (polyAt(P, pts[k - 1]!) > 0) return bisectRoot(P, pts[k - 1]!, pts[k]!, false);
-    }
+  const tol = touchTolerance(Math.abs(c0) + Math.abs(c1) + Math.abs(c2), y0, c);
+  const touches = (u: number): boolean => touchesTarget(polyAt(F, u), c * Math.sqrt(Math.max(polyAt(V, u), 0)), tol, side);
+  // Walk the pieces outwards; each piece's inner end is checked first: P > 0 there (the edge is
+  // already past y0), or a touching point — P does not rise on the piece after it (a maximum of
+  // P: inside the interval, or at the knot where the walk enters) and the edge is within tol of y0.
+  const last = pts.length - 1;
+  for (let k = 0; k < last; k++) {
+    const inner = side > 0 ? pts[k]! : pts[last - k]!;
+    const outer = side > 0 ? pts[k + 1]! : pts[last - k - 1]!;
+    const pIn = polyAt(P, inner);
+    const pOut = polyAt(P, outer);
+    if (pIn > 0 || (pOut <= pIn && touches(inner))) return inner;
+    if (pOut > 0) return side > 0 ? bisectRoot(P, inner, outer, true) : bisectRoot(P, outer, inner, false);
   }
   return null;
+}
+
+/**
+ * The tolerance τ of the touching rule ({@link touchesTarget}), in units of y: 1e-12 times the
+ * size of the numbers the edge on one knot interval is made of — `values`, the sum of the
+ * absolute values defining the curve there (the two knot values for degree 1, the three B-spline
+ * coefficients for degree 2) — plus |y₀| and c = t·σ̂. The same τ bounds the sign of f − y₀ at a
+ * root (which edge it belongs to).
+ */
+function touchTolerance(values: number, y0: number, c: number): number {
+  return 1e-12 * (values + Math.abs(y0) + c);
+}
+
+/**
+ * The touching rule shared by both degrees. At a point where the band edge that must reach y₀
+ * (the upper edge left of the read-back, the lower edge right of it, for rising values) comes
+ * closest to y₀ without crossing it, the edge counts as reaching y₀ there (a double root of the
+ * edge equation) when it misses y₀ by at most τ: c·√V − |f − y₀| ≤ τ, with `gap` = f − y₀ on the
+ * edge's side (≤ τ for side −1, ≥ −τ for side +1) and `half` = c·√V the band's half-width.
+ */
+function touchesTarget(gap: number, half: number, tol: number, side: -1 | 1): boolean {
+  if (side < 0 ? gap > tol : gap < -tol) return false;
+  return half - Math.abs(gap) <= tol;
 }
 
 /**
