@@ -13,7 +13,7 @@ import { insertFormula, type Confirm } from './insert.js';
 import { spillSize, type FormulaKind } from './formulas.js';
 import { candidateCount, knotTableRows } from './analysis.js';
 import { gridSpill } from './surface-view.js';
-import { textCellsOf } from './panels/left-out-panel.js';
+import { leftOutOf } from './panels/left-out-panel.js';
 import { freezeWorkbook, insertAll, insertPortableCurve } from './panels/handoff-panel.js';
 
 function el<T extends HTMLElement>(id: string): T {
@@ -237,7 +237,7 @@ export class OfficeData {
       labels: { x: `x (${x.ref})`, y: `y (${y.ref})` },
       description: `x = ${x.ref}, y = ${y.ref}${w ? `, weight = ${w.ref}` : ''}${x2 ? `, x2 = ${x2.ref}` : ''}`,
       fileStem: 'ratchet',
-      leftOut: [x, y, w, x2].flatMap((q) => (q ? textCellsOf(q.cells, q.area) : [])),
+      leftOut: leftOutOf([x, y, w, x2]),
       x2: x2 ? { cells: x2.cells, ref: x2.ref, label: `x2 (${x2.ref})` } : undefined,
     };
     this.app.setSelection(sel, keepCv);

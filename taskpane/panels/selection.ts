@@ -2,7 +2,7 @@
 import type { DataColumns } from '../analysis.js';
 import type { DataRefs } from '../formulas.js';
 import type { SecondInput } from '../surface-view.js';
-import type { LeftOutCell } from './left-out-panel.js';
+import type { LeftOutEntry } from './left-out-panel.js';
 
 /** The data the pane works on, wherever they come from. */
 export interface Selection {
@@ -19,5 +19,5 @@ export interface Selection {
   /** "date" when the x cells are the serial day numbers of date cells: the chart shows them as dates. Default "number". */
   readonly xKind?: 'number' | 'date' | undefined;
   /** Data cells left out because they hold text or a logical value, with their addresses (listed by the pane). */
-  readonly leftOut?: readonly LeftOutCell[] | undefined;
+  readonly leftOut?: readonly LeftOutEntry[] | undefined;
 }

@@ -113,7 +113,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: real data in (browser preview)', () =
     expect((await snap(page)).leftOut).toEqual([
       'Wear!B5 holds the text "47.6" — convert it with VALUE to use it',
       'Wear!B6 holds the text "n/a" — its row is left out',
-      'Wear!B7 holds the logical value TRUE — its row is left out',
+      'Wear!B7 holds the logical TRUE — its row is left out',
     ]);
     expect(await page.textContent('#left-out-title')).toBe('3 cells left out because they hold text or a logical value:');
   });
