@@ -9,6 +9,7 @@ import { checkShapeSpec, fitChecked, type KnotSpec, type ShapeSpec } from './mod
 import { smoothTableAt } from './smooth-table.js';
 import type { Curvature, Degree } from './shape-fit.js';
 import { knotChecked } from './knot-fit.js';
+import { isotonicChecked } from './isotonic.js';
 import { fitStatistics } from './statistics.js';
 import { checkFolds, holdoutAssignment, kFoldAssignment } from './folds.js';
 import { checkSeed } from './prng.js';
@@ -234,12 +235,24 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
   const sw = new Float64Array(n);
   let sumW = 0;
   let sumWY = 0;
-  for (let k = 0; k < n; k++) {
-    const i = order[k]!;
-    sy[k] = py[i]!;
-    sw[k] = pw[i]!;
-    sumW += sw[k]!;
-    sumWY += sw[k]! * sy[k]!;
+  const weighted = options.weights !== undefined && options.weights !== null;
+  if (weighted) {
+    for (let k = 0; k < n; k++) {
+      const i = order[k]!;
+      sy[k] = py[i]!;
+      sw[k] = pw[i]!;
+      sumW += sw[k]!;
+      sumWY += sw[k]! * sy[k]!;
+    }
+  } else {
+    // Unit weights (all equal, even after rescaling): no gather of the weights.
+    const w = n > 0 ? pw[0]! : 1;
+    sw.fill(w);
+    for (let k = 0; k < n; k++) {
+      sy[k] = py[order[k]!]!;
+      sumW += w;
+      sumWY += w * sy[k]!;
+    }
   }
   if (n < 2 || !(sx[0]! < sx[n - 1]!)) {
     fail('TOO_FEW_POINTS', 'x', 'needs at least 2 distinct values with positive weight to cross-validate');
@@ -247,7 +260,7 @@ function prepare(x: ArrayLike<number>, y: ArrayLike<number>, options: CrossValid
   const mean = sumWY / sumW;
   let sst = 0;
   for (let k = 0; k < n; k++) sst += sw[k]! * (sy[k]! - mean) ** 2;
-  return { n, sx, sy, sw, weighted: options.weights !== undefined && options.weights !== null, rowOf: order, direction, lower, upper, placement, shape, sst, yExp };
+  return { n, sx, sy, sw, weighted, rowOf: order, direction, lower, upper, placement, shape, sst, yExp };
 }
 
 /** Scores back in the units of y after {@link prepare}'s rescaling (R² has no units). */
@@ -346,6 +359,74 @@ function trainingRmse(t: Float64Array, v: Float64Array, xs: Float64Array, ys: Fl
   return Math.sqrt(sse / sw);
 }
 
+/** The training and held-out rows of one fold, each in x order (see {@link splitFold}). */
+interface FoldRows {
+  tx: Float64Array;
+  ty: Float64Array;
+  /** Training weights; all 1 (and not read from `sw`) when splitFold had no weights. */
+  tw: Float64Array;
+  ex: Float64Array;
+  ey: Float64Array;
+  /** Held-out weights, as tw. */
+  ew: Float64Array;
+  /** Held-out rows. */
+  m: number;
+}
+
+/**
+ * Splits the rows (in x order) into those whose label is `fold` (held out) and the rest
+ * (training), keeping the order. The loop has no data-dependent branch: each row is written to
+ * both sides and only the side it belongs to advances (a branch on a random 1-in-F label is
+ * mispredicted about as often as it is taken); each array has one spare slot at its end for the
+ * writes that do not count. `sw` null: unit weights, which are filled instead of copied. O(n).
+ */
+function splitFold(label: Uint32Array, fold: number, sx: Float64Array, sy: Float64Array, sw: Float64Array | null): FoldRows {
+  const n = label.length;
+  let m = 0;
+  for (let k = 0; k < n; k++) m += label[k] === fold ? 1 : 0;
+  const tx = new Float64Array(n - m + 1);
+  const ty = new Float64Array(n - m + 1);
+  const ex = new Float64Array(m + 1);
+  const ey = new Float64Array(m + 1);
+  let tw: Float64Array;
+  let ew: Float64Array;
+  if (sw === null) {
+    for (let k = 0, a = 0, b = 0; k < n; k++) {
+      const out = label[k] === fold ? 1 : 0;
+      const x = sx[k]!;
+      const y = sy[k]!;
+      ex[b] = x;
+      ey[b] = y;
+      tx[a] = x;
+      ty[a] = y;
+      b += out;
+      a += 1 - out;
+    }
+    tw = new Float64Array(n - m).fill(1);
+    ew = new Float64Array(m).fill(1);
+  } else {
+    const twAll = new Float64Array(n - m + 1);
+    const ewAll = new Float64Array(m + 1);
+    for (let k = 0, a = 0, b = 0; k < n; k++) {
+      const out = label[k] === fold ? 1 : 0;
+      const x = sx[k]!;
+      const y = sy[k]!;
+      const w = sw[k]!;
+      ex[b] = x;
+      ey[b] = y;
+      ewAll[b] = w;
+      tx[a] = x;
+      ty[a] = y;
+      twAll[a] = w;
+      b += out;
+      a += 1 - out;
+    }
+    tw = twAll.subarray(0, n - m);
+    ew = ewAll.subarray(0, m);
+  }
+  return { tx: tx.subarray(0, n - m), ty: ty.subarray(0, n - m), tw, ex: ex.subarray(0, m), ey: ey.subarray(0, m), ew, m };
+}
+
 /** Running sums of one candidate. */
 interface Accumulator {
   sse: number;
@@ -387,29 +468,12 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
       for (let k = 0; k < n; k++) label[k] = labelOf[rowOf[k]!]!;
     }
     const fold = task.fold;
-    let m = 0;
-    for (let k = 0; k < n; k++) if (label[k] === fold) m++;
-    const tx = new Float64Array(n - m);
-    const ty = new Float64Array(n - m);
-    const tw = new Float64Array(n - m);
-    const ex = new Float64Array(m);
-    const ey = new Float64Array(m);
-    const ew = new Float64Array(m);
-    for (let k = 0, a = 0, b = 0; k < n; k++) {
-      if (label[k] === fold) {
-        ex[b] = sx[k]!;
-        ey[b] = sy[k]!;
-        ew[b++] = sw[k]!;
-      } else {
-        tx[a] = sx[k]!;
-        ty[a] = sy[k]!;
-        tw[a++] = sw[k]!;
-      }
-    }
+    // Plain candidates (the classic fit, and knot counts without a curvature or degree option) take
+    // the table-only path; they read no weights array when the rows are unweighted.
+    const plain = p.shape.curvature === 0 && p.shape.degree === 1;
+    const { tx, ty, tw, ex, ey, ew, m } = splitFold(label, fold, sx, sy, p.weighted || !plain ? sw : null);
     const direction: Direction = p.direction === 'auto' ? resolveDirection(tx, ty, undefined, 'auto') : p.direction;
     const trainW = p.weighted ? tw : null;
-    // Plain knot candidates (no curvature or degree option) take the table-only path.
-    const plain = p.shape.curvature === 0 && p.shape.degree === 1;
     const pred = new Float64Array(m);
     let spare: Float64Array | null = null;
     for (let c = 0; c < C; c++) {
@@ -418,10 +482,10 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
       let knotX: Float64Array;
       let knotY: Float64Array;
       let trainRmse: number;
-      if (K === 0 || !plain) {
-        // The classic fit, or a shaped knot fit (its own solver): the full model.
-        const spec: KnotSpec = K === 0 ? 0 : p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
-        const model = fitChecked(tx, ty, plain ? trainW : tw, spec, direction, p.lower, p.upper, p.shape);
+      if (!plain) {
+        // A shaped knot fit (its own solver): the full model.
+        const spec: KnotSpec = p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
+        const model = fitChecked(tx, ty, tw, spec, direction, p.lower, p.upper, p.shape);
         knotX = model.knotX;
         knotY = model.knotY;
         trainRmse = model.stats.rmse;
@@ -429,14 +493,23 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
           for (let i = 0; i < m; i++) pred[i] = smoothTableAt(knotX, knotY, 'quadratic', ex[i]!);
         } else interpolateAscending(knotX, knotY, ex, pred);
       } else {
-        // The knot table only (no fitted values); the training RMSE from one merge walk over the
-        // training rows, which are in x order. y and w are already in prepare's rescaled units,
-        // so the walk's sums stay far from overflow and underflow; should they not, the scaled
-        // statistics of the full fitted values take over.
-        const spec: KnotSpec = p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
-        const fit = knotChecked(tx, ty, trainW, spec, direction, p.lower, p.upper, false, false, true);
-        knotX = fit.knotX;
-        knotY = fit.knotY;
+        // The knot table only (no fitted values, no statistics), for the classic fit as for the
+        // knot fit. The training RMSE comes from one merge walk over the training rows, which are
+        // in x order: the table's curve is the fitted curve (for the classic fit too — every
+        // training row has positive weight, since prepare dropped the others, and the table keeps
+        // the first and last x of every block, with no training x between two blocks). y and w are
+        // already in prepare's rescaled units, so the walk's sums stay far from overflow and
+        // underflow; should they not, the statistics of the full fitted values take over.
+        if (K === 0) {
+          const fit = isotonicChecked(tx, ty, trainW, direction, p.lower, p.upper, false, false);
+          knotX = fit.knotX;
+          knotY = fit.knotY;
+        } else {
+          const spec: KnotSpec = p.placement === 'quantile' ? quantileKnotsSorted(tx, K) : K;
+          const fit = knotChecked(tx, ty, trainW, spec, direction, p.lower, p.upper, false, false, true);
+          knotX = fit.knotX;
+          knotY = fit.knotY;
+        }
         trainRmse = trainingRmse(knotX, knotY, tx, ty, trainW);
         if (Number.isNaN(trainRmse)) {
           spare ??= new Float64Array(tx.length);

@@ -107,6 +107,8 @@ export function isotonicRegression(
  * indices, y and w in x order, the block stack, the groups — so a repeated fit allocates only its
  * results. `details` false (fitChecked, which keeps only the table, fitted values and levels)
  * returns x, value and weight empty instead of copying them out: one fresh n-sized array (fitted).
+ * `withFitted` false (cross-validation, which scores the knot table) also returns `fitted` empty
+ * and skips the pass that writes it: the knot table and levels are the same to the bit either way.
  *
  * @throws RatchetError TOO_FEW_POINTS (fewer than two distinct x with positive weight), NUMERICAL
  *   (positive weights spread over more than about 1e512).
@@ -119,6 +121,7 @@ export function isotonicChecked(
   lower: number,
   upper: number,
   details = true,
+  withFitted = true,
 ): IsotonicFit {
   // One pass finds the power-of-two scales of y and w (src/core/scale.ts). Weights spread over more
   // than 2^600 go to the pooled path with PAVA on block means; everything else runs the one-pass
@@ -159,9 +162,10 @@ export function isotonicChecked(
     }
   }
   // Block stack of pool-adjacent-violators: summed weight, summed w·mean, first distinct x. The
-  // summed weights live in the buffer of the fitted values, which is written only at the end.
-  const fitted = new Float64Array(n);
-  const stackW = fitted;
+  // summed weights live in the buffer of the fitted values, which is written only at the end
+  // (in scratch memory when no fitted values are asked for).
+  const fitted = withFitted ? new Float64Array(n) : NONE;
+  const stackW = withFitted ? fitted : scratchF64(Slot.BlockWeight, n);
   const stackS = scratchF64(Slot.BlockSum, n);
   const stackStart = spareOrder;
   // First sorted row of each distinct x (and n at the end), and the pooled weight of each.
@@ -268,7 +272,7 @@ export function isotonicChecked(
     stackS[c] = value[g]!;
   }
   const [knotX, knotY] = minimalTable(sy, stackS, t);
-  for (let g = 0; g < m; g++) {
+  for (let g = 0; g < m && withFitted; g++) {
     const v = value[g]!;
     for (let r = groupStart[g]!, end = groupStart[g + 1]!; r < end; r++) fitted[order[r]!] = v;
   }

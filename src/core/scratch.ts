@@ -26,12 +26,14 @@ export const Slot = {
   SortedWeight: 6,
   /** isotonicChecked: the fitted value of each distinct x (n doubles). */
   GroupValue: 7,
+  /** isotonicChecked without fitted values: summed weight of the block stack (n doubles). */
+  BlockWeight: 8,
 } as const;
 
 /** One of the {@link Slot} numbers. */
 export type SlotId = (typeof Slot)[keyof typeof Slot];
 
-const SLOTS = 8;
+const SLOTS = 9;
 
 /**
  * Largest buffer kept between calls (8 MiB: the radix keys of 1,048,576 rows); bigger requests
