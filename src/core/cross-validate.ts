@@ -363,11 +363,9 @@ function trainingRmse(t: Float64Array, v: Float64Array, xs: Float64Array, ys: Fl
 interface FoldRows {
   tx: Float64Array;
   ty: Float64Array;
-  /** Training weights; all 1 (and not read from `sw`) when splitFold had no weights. */
   tw: Float64Array;
   ex: Float64Array;
   ey: Float64Array;
-  /** Held-out weights, as tw. */
   ew: Float64Array;
   /** Held-out rows. */
   m: number;
@@ -378,53 +376,34 @@ interface FoldRows {
  * (training), keeping the order. The loop has no data-dependent branch: each row is written to
  * both sides and only the side it belongs to advances (a branch on a random 1-in-F label is
  * mispredicted about as often as it is taken); each array has one spare slot at its end for the
- * writes that do not count. `sw` null: unit weights, which are filled instead of copied. O(n).
+ * writes that do not count. O(n).
  */
-function splitFold(label: Uint32Array, fold: number, sx: Float64Array, sy: Float64Array, sw: Float64Array | null): FoldRows {
+function splitFold(label: Uint32Array, fold: number, sx: Float64Array, sy: Float64Array, sw: Float64Array): FoldRows {
   const n = label.length;
   let m = 0;
   for (let k = 0; k < n; k++) m += label[k] === fold ? 1 : 0;
   const tx = new Float64Array(n - m + 1);
   const ty = new Float64Array(n - m + 1);
+  const tw = new Float64Array(n - m + 1);
   const ex = new Float64Array(m + 1);
   const ey = new Float64Array(m + 1);
-  let tw: Float64Array;
-  let ew: Float64Array;
-  if (sw === null) {
-    for (let k = 0, a = 0, b = 0; k < n; k++) {
-      const out = label[k] === fold ? 1 : 0;
-      const x = sx[k]!;
-      const y = sy[k]!;
-      ex[b] = x;
-      ey[b] = y;
-      tx[a] = x;
-      ty[a] = y;
-      b += out;
-      a += 1 - out;
-    }
-    tw = new Float64Array(n - m).fill(1);
-    ew = new Float64Array(m).fill(1);
-  } else {
-    const twAll = new Float64Array(n - m + 1);
-    const ewAll = new Float64Array(m + 1);
-    for (let k = 0, a = 0, b = 0; k < n; k++) {
-      const out = label[k] === fold ? 1 : 0;
-      const x = sx[k]!;
-      const y = sy[k]!;
-      const w = sw[k]!;
-      ex[b] = x;
-      ey[b] = y;
-      ewAll[b] = w;
-      tx[a] = x;
-      ty[a] = y;
-      twAll[a] = w;
-      b += out;
-      a += 1 - out;
-    }
-    tw = twAll.subarray(0, n - m);
-    ew = ewAll.subarray(0, m);
+  const ew = new Float64Array(m + 1);
+  for (let k = 0, a = 0, b = 0; k < n; k++) {
+    const out = label[k] === fold ? 1 : 0;
+    const x = sx[k]!;
+    const y = sy[k]!;
+    const w = sw[k]!;
+    ex[b] = x;
+    ey[b] = y;
+    ew[b] = w;
+    tx[a] = x;
+    ty[a] = y;
+    tw[a] = w;
+    b += out;
+    a += 1 - out;
   }
-  return { tx: tx.subarray(0, n - m), ty: ty.subarray(0, n - m), tw, ex: ex.subarray(0, m), ey: ey.subarray(0, m), ew, m };
+  const t = n - m;
+  return { tx: tx.subarray(0, t), ty: ty.subarray(0, t), tw: tw.subarray(0, t), ex: ex.subarray(0, m), ey: ey.subarray(0, m), ew: ew.subarray(0, m), m };
 }
 
 /** Running sums of one candidate. */
@@ -469,9 +448,9 @@ function evaluate(p: Prepared, tasks: Task[], candidates: number[], options: Cro
     }
     const fold = task.fold;
     // Plain candidates (the classic fit, and knot counts without a curvature or degree option) take
-    // the table-only path; they read no weights array when the rows are unweighted.
+    // the table-only path.
     const plain = p.shape.curvature === 0 && p.shape.degree === 1;
-    const { tx, ty, tw, ex, ey, ew, m } = splitFold(label, fold, sx, sy, p.weighted || !plain ? sw : null);
+    const { tx, ty, tw, ex, ey, ew, m } = splitFold(label, fold, sx, sy, sw);
     const direction: Direction = p.direction === 'auto' ? resolveDirection(tx, ty, undefined, 'auto') : p.direction;
     const trainW = p.weighted ? tw : null;
     const pred = new Float64Array(m);

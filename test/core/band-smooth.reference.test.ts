@@ -7,6 +7,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { bandAt, fitShapedBandModel, inverseBand } from '../../src/core/index.js';
 import { shapeRegression } from '../../src/core/shape-fit.js';
+import { touchingBandSpecs } from './touching-band.js';
 
 interface BandRow {
   level: number;
@@ -161,29 +162,5 @@ const touch2 = {
 
 describe('smooth INVERTBAND (degree 2) at a touching band edge equals R (lm on splineDesign(ord = 3), polyroot): the touching point is the limit', () => {
   const model = fitShapedBandModel(touch2.x, touch2.y, { knots: touch2.knots, degree: 2 });
-  it('target = the maximum of the lower edge (R 4.2.2 polyroot): the touching point is the upper limit, to 1e-8 relative (a double root moves as the square root of a change in the target); lower limit and read-back to 1e-9', () => {
-    const [r] = inverseBand(model, [touch2.y0], 0.95, 4);
-    expect(r!.x as number).toBeCloseRel(touch2.atTouch.x, 1e-9);
-    expect(r!.lower as number).toBeCloseRel(touch2.atTouch.lower, 1e-9);
-    expect(r!.upper as number).toBeCloseRel(touch2.xt, 1e-8);
-  });
-  it('target 1e-6 below the touch (R 4.2.2 uniroot): the crossing just before the touching point', () => {
-    const [r] = inverseBand(model, [touch2.y0 - 1e-6], 0.95, 4);
-    expect(r!.x as number).toBeCloseRel(touch2.below.x, 1e-9);
-    expect(r!.lower as number).toBeCloseRel(touch2.below.lower, 1e-9);
-    expect(r!.upper as number).toBeCloseRel(touch2.below.upper, 1e-8);
-  });
-  it('target 1e-6 above the touch (R 4.2.2 optimize: the edge stays below): the upper limit is NOT_REACHABLE, the lower limit still R\'s', () => {
-    expect(touch2.above.edgeMax).toBeLessThan(touch2.y0 + 1e-6);
-    const [r] = inverseBand(model, [touch2.y0 + 1e-6], 0.95, 4);
-    expect(r!.x as number).toBeCloseRel(touch2.above.x, 1e-9);
-    expect(r!.lower as number).toBeCloseRel(touch2.above.lower, 1e-9);
-    expect(r!.upper).toMatchObject({ code: 'NOT_REACHABLE' });
-  });
-  it('the tolerance rule (docs/bands.md): a miss of 1e-12 (below τ = 1e-12·(|values| + |y0| + t·σ̂) ≈ 4e-11) still touches; 1e-9 above is NOT_REACHABLE', () => {
-    const [near] = inverseBand(model, [touch2.y0 + 1e-12], 0.95, 4);
-    expect(near!.upper as number).toBeCloseRel(touch2.xt, 1e-8);
-    const [off] = inverseBand(model, [touch2.y0 + 1e-9], 0.95, 4);
-    expect(off!.upper).toMatchObject({ code: 'NOT_REACHABLE' });
-  });
+  touchingBandSpecs(model, touch2);
 });
