@@ -15,7 +15,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
-import { RUN_BROWSER_TESTS, openBrowserPage, openExcelModePane, type BrowserPage } from './browser.js';
+import { RUN_BROWSER_TESTS, openBrowserPage, openExcelModePane, type BrowserPage, saveScreenshot } from './browser.js';
 import { layoutProblems, unlabelled } from './layout-checks.js';
 import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
 import { functionByName } from '../../src/functions/registry.js';
@@ -290,7 +290,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: band, residuals, read-back and direct
       expect(await page.isVisible('#direction-warning')).toBe(true);
       expect((await snap(page)).band).not.toBeNull();
       fs.mkdirSync(resultsDir, { recursive: true });
-      await page.screenshot({ path: path.join(resultsDir, `band-${width}-${scheme}.png`), fullPage: true });
+      await saveScreenshot(page, path.join(resultsDir, `band-${width}-${scheme}.png`));
       expect(await layoutProblems(page)).toEqual([]);
       expect(await unlabelled(page)).toEqual([]);
     });
@@ -379,7 +379,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: inserting BAND and INVERTBAND in Exce
       expect(await layoutProblems(page)).toEqual([]);
       expect(await unlabelled(page)).toEqual([]);
       fs.mkdirSync(resultsDir, { recursive: true });
-      await page.screenshot({ path: path.join(resultsDir, `band-office-350-${scheme}.png`), fullPage: true });
+      await saveScreenshot(page, path.join(resultsDir, `band-office-350-${scheme}.png`));
       await page.setViewportSize({ width: 700, height: 1600 });
     });
   }

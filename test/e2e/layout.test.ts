@@ -21,7 +21,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
-import { RUN_BROWSER_TESTS, openBrowserPage, type BrowserPage } from './browser.js';
+import { RUN_BROWSER_TESTS, openBrowserPage, type BrowserPage, saveScreenshot } from './browser.js';
 import { layoutProblems, unlabelled } from './layout-checks.js';
 import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
 import type { Snapshot } from '../../taskpane/app.js';
@@ -143,7 +143,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('the pane at 350 and 1280 px, light and dark
       // Hardness rises with both inputs in the sample: the status line says which way 0 chose.
       expect(await page.textContent('#surface-status')).toContain('along oven temp °C picked from the data: rising, along dwell min picked from the data: rising');
       await page.waitForTimeout(150); // charts re-size on the next frame
-      await page.screenshot({ path: path.join(resultsDir, `layout-${width}-${scheme}.png`), fullPage: true });
+      await saveScreenshot(page, path.join(resultsDir, `layout-${width}-${scheme}.png`));
       expect(await layoutProblems(page)).toEqual([]);
       // A 10 × 10 heat-map fits from 350 px up (README, "Narrow panes"); narrower, it may scroll inside its own box.
       const heat = await page.$eval('.heat-scroll', (e) => ({ scroll: e.scrollWidth, client: e.clientWidth }));
