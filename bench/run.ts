@@ -29,7 +29,7 @@ function emit(r: BenchRecord): void {
   }
   const extra = Object.entries(r)
     .filter(([k]) => !['case', 'n', 'knots', 'ms'].includes(k))
-    .map(([k, v]) => `${k}=${typeof v === 'number' ? Number(v.toPrecision(4)) : String(v)}`)
+    .map(([k, v]) => `${k}=${typeof v === 'number' ? (Number.isInteger(v) ? v : Number(v.toPrecision(4))) : String(v)}`)
     .join(' ');
   console.log(`${r.case.padEnd(34)} ${String(r.n).padStart(8)} ${String(r.knots).padStart(6)} ${r.ms.toFixed(2).padStart(10)} ms  ${extra}`);
 }

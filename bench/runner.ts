@@ -2,6 +2,9 @@
  * Headless runner: evaluating a workbook in HyperFormula with the RATCHET plugin, and
  * recalculating after one input changes (array results re-sized). Times include the engine.
  */
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import ExcelJS from 'exceljs';
 import type { BenchRecord } from './harness.js';
@@ -31,45 +34,36 @@ function workbook(n: number, predicts: number): ExcelJS.Workbook {
   return wb;
 }
 
-/**
- * A workbook of `n` data rows (x in A, y in B, from row 1) read only by spilling RATCHET formulas:
- * FIT (n rows), KNOTS with 8 knots, STATS, and PREDICT at 1,000 new x (N1:N1000).
- */
-function scaleWorkbook(n: number): ExcelJS.Workbook {
-  const { x, y } = risingData(n);
-  const wb = new ExcelJS.Workbook();
-  const ws = wb.addWorksheet('Data');
-  for (let i = 0; i < n; i++) {
-    const row = ws.getRow(i + 1);
-    row.getCell(1).value = x[i]!;
-    row.getCell(2).value = y[i]!;
-  }
-  for (let i = 0; i < 1000; i++) ws.getCell(i + 1, 14).value = (100 * i) / 1000;
-  const Y = `B1:B${n}`;
-  const X = `A1:A${n}`;
-  const f = (a: string, formula: string) => (ws.getCell(a).value = { formula } as ExcelJS.CellFormulaValue);
-  f('D1', `_xldudf_RATCHET_FIT(${Y},${X})`);
-  f('F1', `_xldudf_RATCHET_KNOTS(${Y},${X},8)`);
-  f('I1', `_xldudf_RATCHET_STATS(${Y},${X})`);
-  f('O1', `_xldudf_RATCHET_PREDICT(N1:N1000,${Y},${X},8)`);
-  return wb;
+/** Runs bench/runner-child.ts in a fresh Node process with these arguments; returns its stdout. */
+function child(args: string[]): string {
+  return execFileSync(process.execPath, [...process.execArgv, join(import.meta.dirname, 'runner-child.ts'), ...args], { encoding: 'utf8', maxBuffer: 1 << 20 }).trim();
 }
 
-/** Evaluation time of {@link scaleWorkbook} at two sizes, and their ratio, measured in this run. */
+/**
+ * The scale case, as `npm run sheet` meets it: the workbook of bench/runner-child.ts written to an
+ * .xlsx file at two sizes, each read and evaluated by `EvaluatedWorkbook.fromFile` in a fresh
+ * process (peak memory per size). Reports the evaluation (cells to evaluated engine), the reading
+ * (exceljs's parse), their ratios between the sizes, and the peak memory.
+ */
 async function runScale(emit: (r: BenchRecord) => void, quick: boolean): Promise<void> {
   const [small, large] = quick ? [10000, 100000] : [100000, 1048576];
-  const times: number[] = [];
-  for (const n of [small, large]) {
-    const wb = scaleWorkbook(n);
-    const t0 = performance.now();
-    const book = EvaluatedWorkbook.fromExcel(wb);
-    const ms = performance.now() - t0;
-    times.push(ms);
-    const rows = book.result('Data!D1').length;
-    // ratchetCalls 4: each result was sized before the build and evaluated once (presize.ts).
-    emit({ case: 'runner: FIT+KNOTS+STATS+PREDICT, data read only by them', n, knots: '0/8', ms, fitRows: rows, ratchetCalls: book.ratchetCalls, maxRssMB: Math.round(process.resourceUsage().maxRSS / 1024), goalMs: quick ? '-' : 30000, goalMaxRssMB: quick ? '-' : 4096 });
+  const dir = mkdtempSync(join(tmpdir(), 'ratchet-bench-'));
+  try {
+    const runs: { readMs: number; evaluateMs: number }[] = [];
+    for (const n of [small, large]) {
+      const file = join(dir, `scale-${n}.xlsx`);
+      child(['write', String(n), file]);
+      const r = JSON.parse(child(['read', file])) as { readMs: number; evaluateMs: number; fitRows: number; ratchetCalls: number; maxRssMB: number };
+      runs.push(r);
+      // ratchetCalls 4: each result was sized before the build and evaluated once (presize.ts).
+      emit({ case: 'runner: FIT+KNOTS+STATS+PREDICT, data read only by them (evaluate)', n, knots: '0/8', ms: r.evaluateMs, readMs: r.readMs, fitRows: r.fitRows, ratchetCalls: r.ratchetCalls, maxRssMB: r.maxRssMB, goalMs: quick ? '-' : 30000, goalMaxRssMB: quick ? '-' : 4096 });
+    }
+    const [s, l] = runs as [(typeof runs)[0], (typeof runs)[0]];
+    emit({ case: `runner: evaluate, ratio ${large} / ${small} rows`, n: large, knots: '0/8', ms: l.evaluateMs - s.evaluateMs, ratio: l.evaluateMs / s.evaluateMs, rowsRatio: large / small, goal: 12 });
+    emit({ case: `runner: read .xlsx, ratio ${large} / ${small} rows`, n: large, knots: '-', ms: l.readMs - s.readMs, ratio: l.readMs / s.readMs, rowsRatio: large / small });
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
   }
-  emit({ case: `runner: ratio ${large} / ${small} rows`, n: large, knots: '0/8', ms: times[1]! - times[0]!, ratio: times[1]! / times[0]!, rowsRatio: large / small, goal: 12 });
 }
 
 export async function run(emit: (r: BenchRecord) => void, { quick }: { quick: boolean }): Promise<void> {

@@ -32,8 +32,14 @@ import { Vector, clearParsed, sameVector } from '../adapter/cells.js';
 import { pairData, type DataArgs } from './define.js';
 import type { InvokeContext } from './types.js';
 
-/** Default bounds of the result cache: entries and bytes. */
-export const CACHE_LIMITS = { entries: 512, bytes: 64 * 1024 * 1024 };
+/**
+ * Default bounds of the result cache: entries and bytes. The byte bound holds the four
+ * computations a sheet typically makes over one million-row column pair (the classic fit, a knot
+ * fit with its fitted values, a knot table and the rank correlation: about 92 MB at 1,048,576
+ * rows, each entry counting its own copy of the inputs) twice over; with 64 MB they evicted each
+ * other between two evaluations of the same workbook, and every formula fitted again.
+ */
+export const CACHE_LIMITS = { entries: 512, bytes: 256 * 1024 * 1024 };
 
 /**
  * The result cache of every worksheet function (LRU by entries and bytes). Exported so that tests

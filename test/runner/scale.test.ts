@@ -8,6 +8,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import ExcelJS from 'exceljs';
+import { CACHE_LIMITS, clearCaches, resultCache } from '../../src/functions/engine.js';
 import { functionByName } from '../../src/functions/registry.js';
 import type { CellValueIn } from '../../src/functions/types.js';
 import { EvaluatedWorkbook } from '../../src/runner/workbook.js';
@@ -34,7 +35,16 @@ describe('runner at 200,000 rows', () => {
     f('I1', `_xldudf_RATCHET_STATS(B1:B${N},A1:A${N})`);
     f('L1', `_xldudf_RATCHET_PREDICT(N1:N7,B1:B${N},A1:A${N})`);
     f('O1', `_xldudf_RATCHET_PREDICT(N1:N7,B1:B${N},A1:A${N},8)`);
+    clearCaches();
+    const misses = resultCache.stats.misses;
     const book = EvaluatedWorkbook.fromExcel(wb);
+    // Four computations (the classic fit, the knot table, the knot fit, the rank correlation), each
+    // once: the engine's evaluation finds every result sized before the build in the cache.
+    expect(resultCache.stats.misses - misses).toBe(4);
+    // The default byte bound holds the same four at 1,048,576 rows twice over (they grow linearly in
+    // rows), so a million-row sheet does not evict its own results between the two evaluations.
+    expect(2 * resultCache.stats.bytes * (1048576 / N)).toBeLessThanOrEqual(CACHE_LIMITS.bytes);
+    expect(book.timings.evaluateMs).toBeGreaterThan(0);
 
     const fit = book.result('Data!D1');
     expect(fit).toHaveLength(N);
