@@ -1,5 +1,7 @@
 /**
- * Stable ascending sort order of finite numbers by LSD radix sort on their IEEE-754 bits.
+ * Stable ascending sort order of finite numbers by radix sort on their IEEE-754 bits: LSD passes
+ * over the high 32 bits of each 64-bit key, then each run of rows that share those bits put in
+ * order by the low 32 bits.
  */
 import { Slot, scratchBuffer, scratchU32 } from './scratch.js';
 
@@ -7,10 +9,12 @@ import { Slot, scratchBuffer, scratchU32 } from './scratch.js';
  * Returns the permutation that sorts `values` ascending: `values[order[0]] ≤ values[order[1]] ≤ …`.
  * The sort is stable (equal values keep their input order) and treats −0 as equal to +0.
  *
- * Cost: O(n) time (one histogram pass, then up to four scatter passes over 16-bit digits of the
- * 64-bit key — eight over 8-bit digits below 65,536 elements — each skipped when all elements
- * share that digit), O(n) extra memory (about 24 bytes per element). A linear scan first returns
- * the identity at once when `values` is already sorted.
+ * Cost: O(n) time for any input: one histogram pass, up to two scatter passes over 16-bit digits
+ * of the key's high word (four over 8-bit digits below 65,536 elements), each skipped when all
+ * elements share that digit, then one pass that puts each run of equal high words in order by
+ * the low word — insertion for runs of up to 32, radix passes for longer ones (for random data
+ * the runs are mostly single rows). O(n) extra memory (about 24 bytes per element). A linear scan
+ * first returns the identity at once when `values` is already sorted.
  *
  * @param values finite numbers (NaN is not allowed — callers validate first); not modified.
  * @returns a new Uint32Array of indices (empty for empty input).
@@ -70,16 +74,16 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
       spareOrder: indexB,
     };
   }
-  // Digits of 16 bits (4 passes) for large inputs; of 8 bits (8 passes) below 65,536 elements,
-  // where clearing and summing 65,536-bucket histograms would cost more than the passes.
+  // Digits of 16 bits for large inputs; of 8 bits below 65,536 elements, where clearing and
+  // summing 65,536-bucket histograms would cost more than the extra passes.
   const bits = n >= 65536 ? 16 : 8;
   const buckets = 1 << bits;
   const mask = buckets - 1;
-  const perWord = 32 / bits;
-  const passes = 2 * perWord;
+  const passes = 32 / bits;
   // Map each double to a 64-bit unsigned key whose unsigned order is the numeric order, stored
-  // as (low word, high word) pairs in one array so a scatter moves a key with one 8-byte stride;
-  // all digit histograms are counted in the same pass (they do not depend on the order).
+  // as (low word, high word) pairs in one array so a scatter moves a key with one 8-byte stride.
+  // The radix passes sort by the high word only (its digit histograms are counted here); rows
+  // that share a high word are then put in order by the low word, run by run (see orderRuns).
   const f = values instanceof Float64Array ? values : Float64Array.from(values);
   const u = new Uint32Array(f.buffer, f.byteOffset, 2 * n);
   let key: Uint32Array = keyA;
@@ -96,10 +100,7 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
     }
     key[2 * i] = l;
     key[2 * i + 1] = h;
-    for (let p = 0; p < perWord; p++) {
-      counts[p * buckets + ((l >>> (p * bits)) & mask)]!++;
-      counts[(p + perWord) * buckets + ((h >>> (p * bits)) & mask)]!++;
-    }
+    for (let p = 0; p < passes; p++) counts[p * buckets + ((h >>> (p * bits)) & mask)]!++;
   }
   // Exclusive prefix sums; a pass whose digit is the same for every element is skipped.
   const needed: number[] = [];
@@ -116,29 +117,130 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
   }
   // Stable scatter passes that carry the keys along with the indices, so every pass reads its
   // input sequentially (gathering keys through the permutation would miss the cache). The first
-  // pass takes the indices from its loop counter; the last decodes the keys as it writes them.
+  // pass takes the indices from its loop counter.
   let idx: Uint32Array | null = null;
   let spareIdx: Uint32Array = indexA;
   let spareKey: Uint32Array = keyB;
-  let spareOrder: Uint32Array = indexB;
   for (let q = 0; q < needed.length; q++) {
     const pass = needed[q]!;
-    const decode = withSorted && q === needed.length - 1;
-    scatter(key, idx, spareKey, spareIdx, counts, pass * buckets, pass < perWord ? 0 : 1, (pass % perWord) * bits, mask, decode);
+    scatter(key, idx, spareKey, spareIdx, counts, pass * buckets, pass * bits, mask);
     const nextSpare = idx ?? indexB;
     idx = spareIdx;
     spareIdx = nextSpare;
     [key, spareKey] = [spareKey, key];
-    spareOrder = spareIdx;
   }
   if (idx === null) {
-    // Every digit was shared: the values are all equal (then the input was sorted, handled above).
+    // Every high word the same (values within a factor of about 1 + 2⁻²⁰ of each other): one run,
+    // not in order (sorted input returned above).
     idx = identity(spareIdx);
-    spareOrder = indexB;
-    if (withSorted) decodeInPlace(key);
-  }
+    spareIdx = indexB;
+    radixRunByLow(key, idx, 0, n, spareKey, spareIdx);
+  } else orderRuns(key, idx, spareKey, spareIdx);
+  if (withSorted) decodeInPlace(key);
   const spare = new Float64Array(spareKey.buffer, spareKey.byteOffset, n);
-  return { order: idx, sorted: withSorted ? new Float64Array(key.buffer, key.byteOffset, n) : null, spare, spareOrder };
+  return { order: idx, sorted: withSorted ? new Float64Array(key.buffer, key.byteOffset, n) : null, spare, spareOrder: spareIdx };
+}
+
+/** Runs up to this length are put in order by insertion; longer ones by radix passes. */
+const INSERTION_RUN = 32;
+
+/**
+ * With the keys (and their indices) in order of the high word, puts each run of equal high words
+ * in order of the low word, stably: then the keys are in order of the whole 64-bit key, stable —
+ * the same permutation as radix passes over all four (or eight) digits, in fewer passes, since
+ * for most data the runs are short (at 10⁶ random doubles, mostly single rows). A run already in
+ * order (equal values, say) is left as it is; a short one is sorted by insertion, a long one by
+ * {@link radixRunByLow} through the spare buffers. O(n) plus O(run²) for short runs.
+ */
+function orderRuns(key: Uint32Array, idx: Uint32Array, spareKey: Uint32Array, spareIdx: Uint32Array): void {
+  const n = idx.length;
+  let s = 0;
+  let h = key[1]!;
+  let ordered = true;
+  for (let i = 1; i <= n; i++) {
+    if (i < n) {
+      const hi = key[2 * i + 1]!;
+      if (hi === h) {
+        if (key[2 * i]! < key[2 * i - 2]!) ordered = false;
+        continue;
+      }
+      h = hi;
+    }
+    if (!ordered) {
+      if (i - s <= INSERTION_RUN) insertionRunByLow(key, idx, s, i);
+      else radixRunByLow(key, idx, s, i, spareKey, spareIdx);
+      ordered = true;
+    }
+    s = i;
+  }
+}
+
+/** Stable insertion sort of keys s … e − 1 (and their indices) by the low word; all share the high word. */
+function insertionRunByLow(key: Uint32Array, idx: Uint32Array, s: number, e: number): void {
+  for (let i = s + 1; i < e; i++) {
+    const l = key[2 * i]!;
+    const id = idx[i]!;
+    let j = i - 1;
+    while (j >= s && key[2 * j]! > l) {
+      key[2 * j + 2] = key[2 * j]!;
+      idx[j + 1] = idx[j]!;
+      j--;
+    }
+    key[2 * j + 2] = l;
+    idx[j + 1] = id;
+  }
+}
+
+/** Histograms of {@link radixRunByLow} for runs shorter than 65,536: four 8-bit digits. */
+const runCounts = new Uint32Array(4 * 256);
+
+/**
+ * Stable LSD radix sort of keys s … e − 1 (and their indices) by the low word — in 16-bit digits
+ * from 65,536 keys on, 8-bit below — through the same range of the spare buffers; the result is
+ * left in key and idx. All the keys share the high word. O(e − s).
+ */
+function radixRunByLow(key: Uint32Array, idx: Uint32Array, s: number, e: number, spareKey: Uint32Array, spareIdx: Uint32Array): void {
+  const wide = e - s >= 65536;
+  const bits = wide ? 16 : 8;
+  const buckets = 1 << bits;
+  const mask = buckets - 1;
+  const passes = 32 / bits;
+  const counts = wide ? histogramBuffer(2 * 65536) : runCounts.fill(0);
+  for (let i = s; i < e; i++) {
+    const l = key[2 * i]!;
+    for (let p = 0; p < passes; p++) counts[p * buckets + ((l >>> (p * bits)) & mask)]!++;
+  }
+  const h = key[2 * s + 1]!;
+  let fromKey = key;
+  let fromIdx = idx;
+  let toKey = spareKey;
+  let toIdx = spareIdx;
+  for (let p = 0; p < passes; p++) {
+    let sum = s;
+    let nonEmpty = 0;
+    for (let b = p * buckets, end = b + buckets; b < end; b++) {
+      const k = counts[b]!;
+      if (k !== 0) nonEmpty++;
+      counts[b] = sum;
+      sum += k;
+    }
+    if (nonEmpty < 2) continue;
+    const base = p * buckets;
+    const shift = p * bits;
+    for (let i = s; i < e; i++) {
+      const l = fromKey[2 * i]!;
+      const at = counts[base + ((l >>> shift) & mask)]!++;
+      toKey[2 * at] = l;
+      toKey[2 * at + 1] = h;
+      toIdx[at] = fromIdx[i]!;
+    }
+    [fromKey, toKey] = [toKey, fromKey];
+    [fromIdx, toIdx] = [toIdx, fromIdx];
+  }
+  if (fromKey !== key) {
+    key.set(fromKey.subarray(2 * s, 2 * e), 2 * s);
+    idx.set(fromIdx.subarray(s, e), s);
+  }
 }
 
 /** The histogram buffer, kept between calls (1 MB at most): allocating it anew each time costs more. */
@@ -183,9 +285,8 @@ function decodeInPlace(key: Uint32Array): void {
 }
 
 /**
- * One stable counting-sort pass on the digit `(key word >>> shift) & mask`, moving keys and
- * indices (`idx` null: the identity); with `decode`, the keys are written back as the doubles'
- * bit patterns.
+ * One stable counting-sort pass on the digit `(high word >>> shift) & mask`, moving keys and
+ * indices (`idx` null: the identity).
  */
 function scatter(
   key: Uint32Array,
@@ -194,24 +295,17 @@ function scatter(
   outIdx: Uint32Array,
   counts: Uint32Array,
   base: number,
-  word: number,
   shift: number,
   mask: number,
-  decode: boolean,
 ): void {
   const n = outIdx.length;
   for (let i = 0; i < n; i++) {
     const l = key[2 * i]!;
     const h = key[2 * i + 1]!;
-    const at = counts[base + (((word === 0 ? l : h) >>> shift) & mask)]!++;
+    const at = counts[base + ((h >>> shift) & mask)]!++;
     outIdx[at] = idx === null ? i : idx[i]!;
-    if (decode) {
-      outKey[2 * at] = h & 0x80000000 ? l : ~l >>> 0;
-      outKey[2 * at + 1] = h & 0x80000000 ? (h & 0x7fffffff) >>> 0 : ~h >>> 0;
-    } else {
-      outKey[2 * at] = l;
-      outKey[2 * at + 1] = h;
-    }
+    outKey[2 * at] = l;
+    outKey[2 * at + 1] = h;
   }
 }
 

@@ -41,6 +41,27 @@ describe('sortOrder', () => {
     expect(Array.from(sortOrder(v))).toEqual(referenceOrder(v));
   });
 
+  // The radix passes order by the keys' high 32 bits (sign, exponent, 20 mantissa bits); runs of
+  // equal high words are then ordered by the low word: insertion up to 32 rows, radix passes
+  // (8-bit digits below 65,536 rows, 16-bit from there) beyond. These inputs reach each path.
+  it.each([
+    ['one high word, 8-bit low passes', 1000, 1e-9],
+    ['one high word, 16-bit low passes', 70000, 1e-9],
+    ['runs of about 40 rows sharing a high word', 20000, 5e-4],
+    ['runs of a few rows sharing a high word', 20000, 1e-2],
+  ])('matches the definition when values share their high 32 bits: %s (n = %i, spread %d)', (_name, n, spread) => {
+    let s = n >>> 0;
+    const v = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+      // Values in [1, 1 + spread): a high word covers 2⁻²⁰ ≈ 9.5e-7 of that range, and every
+      // 97th row repeats an earlier value (ties inside a run keep their input order).
+      v[i] = i % 97 === 96 ? v[i - 50]! : 1 + spread * (s / 4294967296);
+    }
+    expect(Array.from(sortOrder(v))).toEqual(referenceOrder(v));
+    expect(Array.from(sortOrder(v.map((t) => -t)))).toEqual(referenceOrder(v.map((t) => -t)));
+  });
+
   it('returns the identity for sorted input and treats −0 as +0', () => {
     expect(Array.from(sortOrder([1, 2, 2, 3]))).toEqual([0, 1, 2, 3]);
     expect(Array.from(sortOrder([0, -0, 0]))).toEqual([0, 1, 2]);
