@@ -5,23 +5,11 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { bandAt, fitShapedBandModel, inverseBand } from '../../src/core/index.js';
+import { fitShapedBandModel } from '../../src/core/index.js';
 import { shapeRegression } from '../../src/core/shape-fit.js';
 import { touchingBandSpecs } from './touching-band.js';
+import { expectBandRows, expectInvertSets, type BandRow, type InvertSet } from './band-fixture-checks.js';
 
-interface BandRow {
-  level: number;
-  fit: number[];
-  conf_lower: number[];
-  conf_upper: number[];
-  pred_lower: number[];
-  pred_upper: number[];
-}
-interface InvertSet {
-  level: number;
-  replicates: number;
-  intervals: { target: number; lower: number | null; x: number; upper: number | null }[];
-}
 interface SmoothCase {
   name: string;
   source: string;
@@ -56,32 +44,13 @@ function checkCase(c: SmoothCase): void {
   expect(model.parameters).toBe(c.parameters);
   expect(model.dfResid).toBe(c.df_resid);
   expect(model.sigma).toBeCloseRel(c.sigma, 1e-9);
-  for (const row of c.bands) {
-    const conf = bandAt(model, c.new_x, row.level, 'confidence');
-    const pred = bandAt(model, c.new_x, row.level, 'prediction');
-    expect(conf.fit).toBeAllCloseRel(row.fit, 1e-9);
-    expect(conf.lower).toBeAllCloseRel(row.conf_lower, 1e-9);
-    expect(conf.upper).toBeAllCloseRel(row.conf_upper, 1e-9);
-    expect(pred.lower).toBeAllCloseRel(row.pred_lower, 1e-9);
-    expect(pred.upper).toBeAllCloseRel(row.pred_upper, 1e-9);
-  }
+  expectBandRows(model, c.new_x, c.bands);
 }
 
 /** INVERTBAND's three values against R's scan of |f − y0| ≤ t·se_pred (null there: not reached). */
 function checkInvert(c: SmoothCase): void {
   const model = fitShapedBandModel(c.x, c.y, { knots: c.knot_x, weights: c.w ?? undefined, degree: 2 });
-  for (const set of c.invert) {
-    const got = inverseBand(model, set.intervals.map((r) => r.target), set.level, set.replicates);
-    set.intervals.forEach((r, i) => {
-      const g = got[i]!;
-      expect(g.x as number).toBeCloseRel(r.x, 1e-9);
-      for (const side of ['lower', 'upper'] as const) {
-        const want = r[side];
-        if (want === null) expect(g[side]).toMatchObject({ code: 'NOT_REACHABLE' });
-        else expect(g[side] as number).toBeCloseRel(want, 1e-8);
-      }
-    });
-  }
+  expectInvertSets(model, c.invert);
 }
 
 describe('smooth BAND with no active constraint equals R predict.lm on lm(y ~ splineDesign(knots_ext, x, ord = 3) - 1) (gen_band_smooth.R, R datasets package)', () => {

@@ -12,15 +12,8 @@ import { spearman } from '../../src/core/direction.js';
 import { spreadStatistics } from '../../src/core/statistics.js';
 import { studentTCdf, studentTQuantile } from '../../src/core/student-t.js';
 import { touchingBandSpecs } from './touching-band.js';
+import { expectBandRows, type BandRow } from './band-fixture-checks.js';
 
-interface BandRow {
-  level: number;
-  fit: number[];
-  conf_lower: number[];
-  conf_upper: number[];
-  pred_lower: number[];
-  pred_upper: number[];
-}
 interface BandCase {
   name: string;
   source: string;
@@ -65,15 +58,7 @@ function checkBands(c: BandCase, knots: number | number[]): void {
   const model = fitBandModel(c.x, c.y, { knots, weights: c.w ?? undefined });
   expect(model.sigma).toBeCloseRel(c.sigma, 1e-9);
   expect(model.dfResid).toBe(c.df_resid);
-  for (const row of c.bands) {
-    const conf = bandAt(model, c.new_x, row.level, 'confidence');
-    const pred = bandAt(model, c.new_x, row.level, 'prediction');
-    expect(conf.fit).toBeAllCloseRel(row.fit, 1e-9);
-    expect(conf.lower).toBeAllCloseRel(row.conf_lower, 1e-9);
-    expect(conf.upper).toBeAllCloseRel(row.conf_upper, 1e-9);
-    expect(pred.lower).toBeAllCloseRel(row.pred_lower, 1e-9);
-    expect(pred.upper).toBeAllCloseRel(row.pred_upper, 1e-9);
-  }
+  expectBandRows(model, c.new_x, c.bands);
 }
 
 describe('Student t quantile against R stats::qt (gen_band.R)', () => {
