@@ -4,9 +4,8 @@
  * plot (residual against x with a zero line) drawn under the fit chart. Colours come from CSS
  * custom properties, so both follow the light/dark theme.
  */
-import { Chart, type ChartConfiguration, type ChartDataset } from 'chart.js';
-import { applyAxisTheme, cssVar, num, palette, tick, TICK_FONT } from './charts.js';
-import { formatSerial } from './dates.js';
+import type { Chart, ChartDataset } from 'chart.js';
+import { cssVar, dataScales, num, palette, paneChart, recolour, setXAxis, tick, xText, type XKind } from './charts.js';
 import { percent, type BandView } from './uncertainty.js';
 
 type XY = { x: number; y: number };
@@ -80,40 +79,26 @@ export function themeBand(chart: Chart<'scatter', XY[]>): void {
 /** The residual plot: residual (y − fitted) against x, with a dashed zero line. */
 export class ResidualChart {
   readonly chart: Chart<'scatter', XY[]>;
-  private xKind: 'number' | 'date' = 'number';
+  private xKind: XKind = 'number';
   constructor(canvas: HTMLCanvasElement) {
     const p = palette();
-    const config: ChartConfiguration<'scatter', XY[]> = {
-      type: 'scatter',
-      data: {
-        datasets: [
-          { label: 'Residual', data: [], pointRadius: 2.5, pointHoverRadius: 4, backgroundColor: p.points, borderColor: p.points, order: 1 },
-          { label: 'Zero', data: [], showLine: true, pointRadius: 0, pointHitRadius: 0, borderWidth: 1.5, borderDash: [6, 4], borderColor: p.curve, backgroundColor: p.curve, order: 0 },
-        ],
+    this.chart = paneChart(canvas, 'scatter', [
+      { label: 'Residual', data: [], pointRadius: 2.5, pointHoverRadius: 4, backgroundColor: p.points, borderColor: p.points, order: 1 },
+      { label: 'Zero', data: [], showLine: true, pointRadius: 0, pointHitRadius: 0, borderWidth: 1.5, borderDash: [6, 4], borderColor: p.curve, backgroundColor: p.curve, order: 0 },
+    ], {
+      normalized: true,
+      scales: dataScales('residual'),
+      plugins: {
+        legend: { display: false },
+        title: { display: false },
+        tooltip: { callbacks: { label: (c) => `residual ${num(c.parsed.y ?? NaN)} at ${xText(c.parsed.x ?? NaN, this.xKind)}` } },
       },
-      options: {
-        animation: false,
-        maintainAspectRatio: false,
-        responsive: true,
-        parsing: false,
-        normalized: true,
-        scales: {
-          x: { type: 'linear', title: { display: true, text: 'x' }, grid: {}, ticks: { font: TICK_FONT, maxRotation: 0, autoSkipPadding: 8, callback: tick } },
-          y: { type: 'linear', title: { display: true, text: 'residual' }, grid: {}, ticks: { font: TICK_FONT, callback: tick } },
-        },
-        plugins: {
-          legend: { display: false },
-          title: { display: false },
-          tooltip: { callbacks: { label: (c) => `residual ${num(c.parsed.y ?? NaN)} at ${this.xKind === 'date' ? formatSerial(c.parsed.x ?? NaN) : num(c.parsed.x ?? NaN)}` } },
-        },
-      },
-    };
-    this.chart = new Chart(canvas, config);
+    });
     this.theme();
   }
 
   /** Shows the residuals (empty clears the plot); `xLabel` names the x axis. Cost O(n). */
-  show(points: readonly XY[], xLabel: string, xKind: 'number' | 'date' = 'number'): void {
+  show(points: readonly XY[], xLabel: string, xKind: XKind = 'number'): void {
     this.xKind = xKind;
     const d = this.chart.data.datasets;
     d[0]!.data = points.map((q) => ({ x: q.x, y: q.y }));
@@ -124,19 +109,13 @@ export class ResidualChart {
       if (q.x > hi) hi = q.x;
     }
     d[1]!.data = points.length > 0 ? [{ x: lo, y: 0 }, { x: hi, y: 0 }] : [];
-    const sc = this.chart.options.scales!;
-    (sc.x as { title: { text: string } }).title.text = xLabel;
-    (sc.x as { ticks: { callback?: unknown } }).ticks.callback = xKind === 'date' ? (v: number | string) => formatSerial(Number(v)) : tick;
+    setXAxis(this.chart, xLabel, xKind, tick);
     this.chart.update();
   }
 
   /** Re-reads the theme colours. */
   theme(): void {
     const p = palette();
-    const d = this.chart.data.datasets;
-    Object.assign(d[0]!, { backgroundColor: p.points, borderColor: p.points });
-    Object.assign(d[1]!, { backgroundColor: p.curve, borderColor: p.curve });
-    applyAxisTheme(this.chart, p);
-    this.chart.update();
+    recolour(this.chart, [p.points, p.curve], p);
   }
 }

@@ -16,6 +16,7 @@ import {
   Tooltip,
   type ChartConfiguration,
   type ChartDataset,
+  type ChartOptions,
 } from 'chart.js';
 import type { CvRow, FitView } from './analysis.js';
 import { formatNumber } from '../src/view/number-format.js';
@@ -63,46 +64,94 @@ export const tick = (v: number | string): string => (typeof v === 'number' ? num
 /** Ticks small enough for a 320 px pane. */
 export const TICK_FONT = { size: 11 };
 
+/** How a chart shows its x values: as numbers, or (serial day numbers) as dates. */
+export type XKind = 'number' | 'date';
+
+/**
+ * An x value as a chart's tooltip shows it: a date for serial day numbers (`kind` "date"), the
+ * digits shown otherwise. O(1). @example xText(45000.5, 'date') // → '2023-03-15 12:00'
+ */
+export function xText(v: number, kind: XKind): string {
+  return kind === 'date' ? formatSerial(v) : num(v);
+}
+
+/**
+ * A chart of the pane on `canvas`: `type`, `datasets` of `{x, y}` points, and `options` over the
+ * options every chart of the pane shares (no animation, sized by its box rather than an aspect
+ * ratio, no parsing: the data are given as points). The caller sets the theme colours (`recolour`).
+ * O(datasets).
+ */
+export function paneChart<T extends 'scatter' | 'line'>(canvas: HTMLCanvasElement, type: T, datasets: ChartDataset<T, XY[]>[], options: ChartOptions<T>): Chart<T, XY[]> {
+  const config = { type, data: { datasets }, options: { animation: false, maintainAspectRatio: false, responsive: true, parsing: false, ...options } };
+  return new Chart(canvas, config as ChartConfiguration<T, XY[]>);
+}
+
+/**
+ * A linear value axis titled `title`, ticks with the digits shown (a fresh object per call, so
+ * each chart can retitle its own). O(1). @example valueScale('residual').title // → { display: true, text: 'residual' }
+ */
+export function valueScale(title: string) {
+  return { type: 'linear' as const, title: { display: true, text: title }, grid: {}, ticks: { font: TICK_FONT, callback: tick } };
+}
+
+/**
+ * The two axes of a chart drawn against the data's x: x titled "x" (renamed by `setXAxis`) with
+ * level ticks at least 8 px apart, y titled `yTitle`; both linear, ticks with the digits shown.
+ * Fresh objects per call. O(1).
+ */
+export function dataScales(yTitle: string) {
+  const x = valueScale('x');
+  return { x: { ...x, ticks: { ...x.ticks, maxRotation: 0, autoSkipPadding: 8 } }, y: valueScale(yTitle) };
+}
+
+/**
+ * Names the x axis of `chart` `label` and sets how its ticks show x: dates for `kind` "date",
+ * `numberTicks` otherwise (undefined: Chart.js's own ticks). The caller updates the chart. O(1).
+ */
+export function setXAxis(chart: Chart, label: string, kind: XKind, numberTicks: ((v: number | string) => string) | undefined): void {
+  const x = chart.options.scales!.x as { title: { text: string }; ticks: { callback?: unknown } };
+  x.title.text = label;
+  x.ticks.callback = kind === 'date' ? (v: number | string) => formatSerial(Number(v)) : numberTicks;
+}
+
+/**
+ * Re-reads the theme into `chart`: dataset i gets border and fill colour `colours[i]` (datasets
+ * past the list keep theirs), the axes, legend and title the colours of `p`; then updates the
+ * chart. O(datasets + axes).
+ */
+export function recolour(chart: Chart, colours: readonly string[], p: Palette): void {
+  const d = chart.data.datasets;
+  colours.forEach((c, i) => Object.assign(d[i]!, { backgroundColor: c, borderColor: c }));
+  applyAxisTheme(chart, p);
+  chart.update();
+}
+
 /** The fit chart. */
 export class FitChart {
   readonly chart: Chart<'scatter', XY[]>;
   constructor(canvas: HTMLCanvasElement) {
     const p = palette();
-    const config: ChartConfiguration<'scatter', XY[]> = {
-      type: 'scatter',
-      data: {
-        datasets: [
-          { label: 'Data', data: [], pointRadius: 3, pointHoverRadius: 5, backgroundColor: p.points, borderColor: p.points, order: 3 },
-          { label: 'Fitted curve', data: [], showLine: true, pointRadius: 0, pointHitRadius: 4, borderWidth: 2.5, borderColor: p.curve, backgroundColor: p.curve, order: 1 },
-          { label: 'Knots', data: [], pointStyle: 'rectRot', pointRadius: 5, pointHoverRadius: 7, backgroundColor: p.knots, borderColor: p.knots, order: 0 },
-        ],
+    this.chart = paneChart(canvas, 'scatter', [
+      { label: 'Data', data: [], pointRadius: 3, pointHoverRadius: 5, backgroundColor: p.points, borderColor: p.points, order: 3 },
+      { label: 'Fitted curve', data: [], showLine: true, pointRadius: 0, pointHitRadius: 4, borderWidth: 2.5, borderColor: p.curve, backgroundColor: p.curve, order: 1 },
+      { label: 'Knots', data: [], pointStyle: 'rectRot', pointRadius: 5, pointHoverRadius: 7, backgroundColor: p.knots, borderColor: p.knots, order: 0 },
+    ], {
+      normalized: true,
+      scales: dataScales('y'),
+      plugins: {
+        legend: { position: 'bottom', labels: { sort: (a, b) => (a.datasetIndex ?? 0) - (b.datasetIndex ?? 0) } },
+        title: { display: false },
+        tooltip: { callbacks: { label: (c) => `${c.dataset.label}: (${xText(c.parsed.x ?? NaN, this.xKind)}, ${num(c.parsed.y ?? NaN)})` } },
       },
-      options: {
-        animation: false,
-        maintainAspectRatio: false,
-        responsive: true,
-        parsing: false,
-        normalized: true,
-        scales: {
-          x: { type: 'linear', title: { display: true, text: 'x' }, grid: {}, ticks: { font: TICK_FONT, maxRotation: 0, autoSkipPadding: 8, callback: tick } },
-          y: { type: 'linear', title: { display: true, text: 'y' }, grid: {}, ticks: { font: TICK_FONT, callback: tick } },
-        },
-        plugins: {
-          legend: { position: 'bottom', labels: { sort: (a, b) => (a.datasetIndex ?? 0) - (b.datasetIndex ?? 0) } },
-          title: { display: false },
-          tooltip: { callbacks: { label: (c) => `${c.dataset.label}: (${this.xKind === 'date' ? formatSerial(c.parsed.x ?? NaN) : num(c.parsed.x ?? NaN)}, ${num(c.parsed.y ?? NaN)})` } },
-        },
-      },
-    };
-    this.chart = new Chart(canvas, config);
+    });
     this.theme();
   }
 
   /** How the x axis and the tooltips show x: as numbers, or (serial day numbers) as dates. */
-  private xKind: 'number' | 'date' = 'number';
+  private xKind: XKind = 'number';
 
   /** Shows a fit; `labels` name the axes; `xKind` "date" shows x (serial day numbers) as dates. */
-  show(view: FitView | undefined, labels: { x: string; y: string }, xKind: 'number' | 'date' = 'number'): void {
+  show(view: FitView | undefined, labels: { x: string; y: string }, xKind: XKind = 'number'): void {
     this.xKind = xKind;
     const d = this.chart.data.datasets;
     d[0]!.data = view ? view.points.map((q) => ({ x: q.x, y: q.y })) : [];
@@ -113,22 +162,15 @@ export class FitChart {
     d[2]!.data = markers;
     // Many knots (classic fit at every distinct x): smaller markers so the data stay visible.
     (d[2] as ChartDataset<'scatter', XY[]>).pointRadius = markers.length > 40 ? 2.5 : 5;
-    const sc = this.chart.options.scales!;
-    (sc.x as { title: { text: string } }).title.text = labels.x;
-    (sc.x as { ticks: { callback?: unknown } }).ticks.callback = xKind === 'date' ? (v: number | string) => formatSerial(Number(v)) : undefined;
-    (sc.y as { title: { text: string } }).title.text = labels.y;
+    setXAxis(this.chart, labels.x, xKind, undefined);
+    (this.chart.options.scales!.y as { title: { text: string } }).title.text = labels.y;
     this.chart.update();
   }
 
   /** Re-reads the theme colours. */
   theme(): void {
     const p = palette();
-    const d = this.chart.data.datasets;
-    Object.assign(d[0]!, { backgroundColor: p.points, borderColor: p.points });
-    Object.assign(d[1]!, { backgroundColor: p.curve, borderColor: p.curve });
-    Object.assign(d[2]!, { backgroundColor: p.knots, borderColor: p.knots });
-    applyAxisTheme(this.chart, p);
-    this.chart.update();
+    recolour(this.chart, [p.points, p.curve, p.knots], p);
   }
 }
 
@@ -170,34 +212,23 @@ export class CvChart {
   private classic = false;
   constructor(canvas: HTMLCanvasElement) {
     const p = palette();
-    const config: ChartConfiguration<'line', XY[]> = {
-      type: 'line',
-      data: {
-        datasets: [
-          { label: 'cv_rmse ± cv_se', data: [], pointRadius: 0, borderWidth: 1, borderColor: p.band, backgroundColor: p.band, fill: '+1', order: 4 },
-          { label: 'cv_rmse − cv_se', data: [], pointRadius: 0, borderWidth: 1, borderColor: p.band, backgroundColor: p.band, fill: false, order: 4 },
-          { label: 'cv_rmse', data: [], pointRadius: 3, borderWidth: 2, borderColor: p.points, backgroundColor: p.points, fill: false, order: 2 },
-          { label: 'Rule threshold', data: [], pointRadius: 0, borderWidth: 1.5, borderDash: [6, 4], borderColor: p.mark, backgroundColor: p.mark, fill: false, order: 3 },
-          { label: 'Suggested', data: [], showLine: false, pointStyle: 'star', pointRadius: 11, pointBorderWidth: 2.5, borderColor: p.mark, backgroundColor: p.mark, order: 0 },
-        ],
+    this.chart = paneChart(canvas, 'line', [
+      { label: 'cv_rmse ± cv_se', data: [], pointRadius: 0, borderWidth: 1, borderColor: p.band, backgroundColor: p.band, fill: '+1', order: 4 },
+      { label: 'cv_rmse − cv_se', data: [], pointRadius: 0, borderWidth: 1, borderColor: p.band, backgroundColor: p.band, fill: false, order: 4 },
+      { label: 'cv_rmse', data: [], pointRadius: 3, borderWidth: 2, borderColor: p.points, backgroundColor: p.points, fill: false, order: 2 },
+      { label: 'Rule threshold', data: [], pointRadius: 0, borderWidth: 1.5, borderDash: [6, 4], borderColor: p.mark, backgroundColor: p.mark, fill: false, order: 3 },
+      { label: 'Suggested', data: [], showLine: false, pointStyle: 'star', pointRadius: 11, pointBorderWidth: 2.5, borderColor: p.mark, backgroundColor: p.mark, order: 0 },
+    ], {
+      scales: {
+        x: { type: 'linear', title: { display: true, text: 'knot count' }, grid: {}, ticks: { precision: 0, font: TICK_FONT, maxRotation: 0, callback: (v) => knotTick(Number(v), this.classic) } },
+        y: valueScale('cv_rmse'),
       },
-      options: {
-        animation: false,
-        maintainAspectRatio: false,
-        responsive: true,
-        parsing: false,
-        scales: {
-          x: { type: 'linear', title: { display: true, text: 'knot count' }, grid: {}, ticks: { precision: 0, font: TICK_FONT, maxRotation: 0, callback: (v) => knotTick(Number(v), this.classic) } },
-          y: { type: 'linear', title: { display: true, text: 'cv_rmse' }, grid: {}, ticks: { font: TICK_FONT, callback: tick } },
-        },
-        plugins: {
-          title: { display: true, text: 'No cross-validation yet' },
-          legend: { position: 'bottom', labels: { filter: (item) => item.text !== 'cv_rmse − cv_se', sort: (a, b) => (a.datasetIndex ?? 0) - (b.datasetIndex ?? 0) } },
-          tooltip: { callbacks: { label: (c) => `${c.dataset.label}: ${num(c.parsed.y ?? NaN)} at ${knotTick(c.parsed.x ?? NaN, this.classic)}` } },
-        },
+      plugins: {
+        title: { display: true, text: 'No cross-validation yet' },
+        legend: { position: 'bottom', labels: { filter: (item) => item.text !== 'cv_rmse − cv_se', sort: (a, b) => (a.datasetIndex ?? 0) - (b.datasetIndex ?? 0) } },
+        tooltip: { callbacks: { label: (c) => `${c.dataset.label}: ${num(c.parsed.y ?? NaN)} at ${knotTick(c.parsed.x ?? NaN, this.classic)}` } },
       },
-    };
-    this.chart = new Chart(canvas, config);
+    });
     this.theme();
   }
 
@@ -240,14 +271,7 @@ export class CvChart {
   /** Re-reads the theme colours. */
   theme(): void {
     const p = palette();
-    const d = this.chart.data.datasets;
-    Object.assign(d[0]!, { borderColor: p.band, backgroundColor: p.band });
-    Object.assign(d[1]!, { borderColor: p.band, backgroundColor: p.band });
-    Object.assign(d[2]!, { borderColor: p.points, backgroundColor: p.points });
-    Object.assign(d[3]!, { borderColor: p.mark, backgroundColor: p.mark });
-    Object.assign(d[4]!, { borderColor: p.mark, backgroundColor: p.mark });
-    applyAxisTheme(this.chart, p);
-    this.chart.update();
+    recolour(this.chart, [p.band, p.band, p.points, p.mark, p.mark], p);
   }
 }
 

@@ -168,25 +168,13 @@ export class OfficeData {
     for (const id of ['addr-x', 'addr-y', 'addr-w', 'addr-x2']) {
       el<HTMLInputElement>(id).addEventListener('change', safe(() => this.read(), fitStatus));
     }
-    el<HTMLInputElement>('addr-targets').addEventListener('change', () => {
-      const v = el<HTMLInputElement>('addr-targets').value.trim();
-      app.targetsRef = v === '' ? undefined : this.absolute(v);
-      try {
-        app.targetsShape = v === '' ? undefined : areaSize(parseAddress(v));
-      } catch {
-        app.targetsShape = undefined;
-      }
-      app.updateFormulas();
+    this.onOptionalRange('addr-targets', (ref, shape) => {
+      app.targetsRef = ref;
+      app.targetsShape = shape;
     });
-    el<HTMLInputElement>('addr-newx').addEventListener('change', () => {
-      const v = el<HTMLInputElement>('addr-newx').value.trim();
-      app.newXsRef = v === '' ? undefined : this.absolute(v);
-      try {
-        app.newXsShape = v === '' ? undefined : areaSize(parseAddress(v));
-      } catch {
-        app.newXsShape = undefined;
-      }
-      app.updateFormulas();
+    this.onOptionalRange('addr-newx', (ref, shape) => {
+      app.newXsRef = ref;
+      app.newXsShape = shape;
     });
     for (const b of document.querySelectorAll<HTMLButtonElement>('[data-insert]')) {
       b.addEventListener('click', safe(() => this.insert(b.dataset.insert as FormulaKind), (t) => this.insertStatus(t, true)));
@@ -201,6 +189,26 @@ export class OfficeData {
       if (e.key === 'Escape') this.answer(false);
     });
     app.setHostText('Running in Excel. Choose the data ranges; the chart follows their cells.');
+  }
+
+  /**
+   * Wires the optional range field `id`: on each change `set` gets the field's absolute reference
+   * and its size (both undefined when the field is blank; the size undefined when it is not a cell
+   * address), then the formulas are rewritten.
+   */
+  private onOptionalRange(id: string, set: (ref: string | undefined, shape: { rows: number; cols: number } | undefined) => void): void {
+    el<HTMLInputElement>(id).addEventListener('change', () => {
+      const v = el<HTMLInputElement>(id).value.trim();
+      const ref = v === '' ? undefined : this.absolute(v);
+      let shape: { rows: number; cols: number } | undefined;
+      try {
+        shape = v === '' ? undefined : areaSize(parseAddress(v));
+      } catch {
+        shape = undefined;
+      }
+      set(ref, shape);
+      this.app.updateFormulas();
+    });
   }
 
   private absolute(address: string): string {
@@ -312,11 +320,8 @@ export class OfficeData {
       this.insertStatus('Choose a second x range whose surface is drawn without an error first.', true);
       return;
     }
-    const target = el<HTMLInputElement>('target').value.trim();
-    if (target === '') {
-      this.insertStatus('Pick the top-left cell of the result first.', true);
-      return;
-    }
+    const target = this.targetCell();
+    if (target === undefined) return;
     const size = gridSpill(view);
     const inputs = [r.x.area, r.y.area, r.x2.area, ...(r.w ? [r.w.area] : [])];
     const outcome = await insertFormula(Excel, { formula, target, rows: size.rows, cols: size.cols, inputs }, this.confirm);
@@ -336,30 +341,35 @@ export class OfficeData {
     return target === '' ? undefined : target;
   }
 
-  /** "Insert all": every formula of the pane, laid out so that no result collides (asks before writing over anything). */
-  async insertAll(): Promise<void> {
+  /**
+   * The start of an insert action that needs `needed` (a layout or fit of the chosen ranges,
+   * undefined when there is none): clears the insert status and returns `needed` with the target
+   * cell, or undefined after saying which of the two is missing.
+   */
+  private readyToInsert<T>(needed: T | undefined): { needed: T; target: string } | undefined {
     this.insertStatus('');
-    const layout = this.ranges ? this.app.blockLayout() : undefined;
-    if (!layout) {
+    if (needed === undefined) {
       this.insertStatus('Choose data that fit without an error first.', true);
-      return;
+      return undefined;
     }
     const target = this.targetCell();
-    if (target === undefined) return;
+    return target === undefined ? undefined : { needed, target };
+  }
+
+  /** "Insert all": every formula of the pane, laid out so that no result collides (asks before writing over anything). */
+  async insertAll(): Promise<void> {
+    const ready = this.readyToInsert(this.ranges ? this.app.blockLayout() : undefined);
+    if (!ready) return;
+    const { needed: layout, target } = ready;
     const outcome = await insertAll(Excel, layout, target, this.inputAreas(), this.confirm);
     this.insertStatus(outcome.written ? `Inserted ${layout.blocks.length} formulas with their labels in ${outcome.area}; each result has room to spill.` : outcome.message, !outcome.written);
   }
 
   /** "Portable curve": the knot table as values with INDEX/MATCH formulas beside it. */
   async insertPortable(): Promise<void> {
-    this.insertStatus('');
-    const view = this.ranges ? this.app.currentFit() : undefined;
-    if (!view) {
-      this.insertStatus('Choose data that fit without an error first.', true);
-      return;
-    }
-    const target = this.targetCell();
-    if (target === undefined) return;
+    const ready = this.readyToInsert(this.ranges ? this.app.currentFit() : undefined);
+    if (!ready) return;
+    const { needed: view, target } = ready;
     // A smooth fit's table keeps its third column: the portable formulas refuse it with a message.
     const outcome = await insertPortableCurve(Excel, knotTableRows(view), target, this.inputAreas(), this.confirm);
     this.insertStatus(
@@ -391,11 +401,8 @@ export class OfficeData {
       this.insertStatus('Choose data that fit without an error first.', true);
       return;
     }
-    const target = el<HTMLInputElement>('target').value.trim();
-    if (target === '') {
-      this.insertStatus('Pick the top-left cell of the result first.', true);
-      return;
-    }
+    const target = this.targetCell();
+    if (target === undefined) return;
     const cv = this.app.cvSettings();
     let newXs = { rows: r.x.area.r2 - r.x.area.r1 + 1, cols: r.x.area.c2 - r.x.area.c1 + 1 };
     const nx = el<HTMLInputElement>('addr-newx').value.trim();

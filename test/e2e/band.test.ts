@@ -11,33 +11,14 @@
  * implementations the worksheet functions use — RATCHET.BAND, INVERTBAND, FIT, STATS). All data
  * are invented.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
-import type { Page } from 'playwright-core';
-import { RUN_BROWSER_TESTS, openBrowserPage, openExcelModePane, type BrowserPage, saveScreenshot } from './browser.js';
+import { RUN_BROWSER_TESTS, saveScreenshot } from './browser.js';
 import { layoutProblems, unlabelled } from './layout-checks.js';
-import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
-import { functionByName } from '../../src/functions/registry.js';
-import type { CellArg, CellOut } from '../../src/functions/types.js';
+import { RESULTS_DIR, TRIALS, blockPage, invokeRows as invoke, openPreviewPane, openTrialsPane, setValue, snap, usePreviewSite, waitForPoints } from './pane.js';
+import type { CellOut } from '../../src/functions/types.js';
 import type { Snapshot } from '../../taskpane/app.js';
-
-const root = path.resolve(import.meta.dirname, '../..');
-const resultsDir = path.join(root, 'test-results');
-
-function invoke(name: string, args: CellArg[]): CellOut[][] {
-  const r = functionByName(name)!.invoke(args);
-  return Array.isArray(r) ? r : [[r]];
-}
-
-async function snap(page: Page): Promise<Snapshot> {
-  return page.evaluate(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot());
-}
-
-async function setValue(page: Page, selector: string, value: string): Promise<void> {
-  await page.fill(selector, value);
-  await page.dispatchEvent(selector, 'change');
-}
 
 /**
  * Numbers computed in the page equal those computed in Node to 1e-12 relative: the same code, but
@@ -63,28 +44,16 @@ const tack = hours.map((h, i) => Number((50 - 30 * (1 - Math.exp(-h / 6)) + (((i
 const csv = (ys: readonly number[]): string => `hours,value\r\n${hours.map((h, i) => `${h},${ys[i]}`).join('\r\n')}\r\n`;
 const col = (v: readonly number[]): number[][] => v.map((q) => [q]);
 
-let dir: string | undefined;
-let server: PreviewServer | undefined;
+const site = usePreviewSite();
 
 describe.skipIf(!RUN_BROWSER_TESTS)('pane: band, residuals, read-back and direction warning (browser preview)', () => {
-  let page: Page;
-  let browser: BrowserPage | undefined;
   const problems: string[] = [];
+  const page = blockPage(() => openPreviewPane(site, { viewport: { width: 900, height: 1400 }, problems }), 90_000);
 
   beforeAll(async () => {
-    dir = await buildPreview(undefined, true, ['preview', 'taskpane']);
-    server = await startPreviewServer(dir, 0);
-    browser = await openBrowserPage({ viewport: { width: 900, height: 1400 }, problems });
-    ({ page } = browser);
-    await page.goto(server.url);
-    await page.waitForFunction(() => (document.getElementById('sample') as HTMLSelectElement | null)?.options.length === 5);
     await page.setInputFiles('#file', { name: 'cure.csv', mimeType: 'text/csv', buffer: Buffer.from(csv(hardness)) });
-    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().points.length === 24);
-  }, 90_000);
-
-  afterAll(async () => {
-    await browser?.close();
-  });
+    await waitForPoints(page, 24);
+  }, 60_000);
 
   it('shades the 95 % confidence band of RATCHET.BAND around a 5-knot curve, over the data’s x range, and names it in the text alternative', async () => {
     await setValue(page, '#knots', '5');
@@ -289,8 +258,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: band, residuals, read-back and direct
       await page.waitForTimeout(150); // charts re-size on the next frame
       expect(await page.isVisible('#direction-warning')).toBe(true);
       expect((await snap(page)).band).not.toBeNull();
-      fs.mkdirSync(resultsDir, { recursive: true });
-      await saveScreenshot(page, path.join(resultsDir, `band-${width}-${scheme}.png`));
+      fs.mkdirSync(RESULTS_DIR, { recursive: true });
+      await saveScreenshot(page, path.join(RESULTS_DIR, `band-${width}-${scheme}.png`));
       expect(await layoutProblems(page)).toEqual([]);
       expect(await unlabelled(page)).toEqual([]);
     });
@@ -303,32 +272,13 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: band, residuals, read-back and direct
 
 /** Excel mode with office.js replaced by the stand-in (test/e2e/office-stub.js). */
 describe.skipIf(!RUN_BROWSER_TESTS)('pane: inserting BAND and INVERTBAND in Excel mode (office.js stand-in)', () => {
-  let page: Page;
-  let browser: BrowserPage | undefined;
   const problems: string[] = [];
-  const x = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12];
-  const y = [2.1, 2.0, 3.4, 3.1, 4.8, 5.5, 5.2, 6.9, 7.4, 7.1, 8.8, 9.0];
+  // The dose-response rows, and three read-back targets in D2:D4.
+  const page = blockPage(() => openTrialsPane(site, { viewport: { width: 700, height: 1600 }, problems, ...TRIALS, cells: [4, 6, 8].map((v, i) => ['Trials', `D${i + 2}`, v] as const) }), 60_000);
 
   beforeAll(async () => {
-    if (!server) throw new Error('the preview build did not run');
-    browser = await openExcelModePane({
-      baseUrl: server.url,
-      viewport: { width: 700, height: 1600 },
-      problems,
-      cells: [...x.map((v, i) => ['Trials', `A${i + 2}`, v] as const), ...y.map((v, i) => ['Trials', `B${i + 2}`, v] as const), ...[4, 6, 8].map((v, i) => ['Trials', `D${i + 2}`, v] as const)],
-    });
-    ({ page } = browser);
-    await setValue(page, '#addr-x', 'Trials!A2:A13');
-    await setValue(page, '#addr-y', 'Trials!B2:B13');
-    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().points.length === 12);
     await setValue(page, '#knots', '4');
   }, 60_000);
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-    if (dir) fs.rmSync(dir, { recursive: true, force: true });
-  });
 
   const cellsOf = (sheet: string): Promise<Record<string, { value: unknown; formula?: string }>> =>
     page.evaluate((sh) => (window as unknown as { __excelStub: { cellsOf(s: string): Record<string, { value: unknown; formula?: string }> } }).__excelStub.cellsOf(sh), sheet);
@@ -378,8 +328,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: inserting BAND and INVERTBAND in Exce
       expect(await page.isVisible('[data-insert="INVERTBAND"]')).toBe(true);
       expect(await layoutProblems(page)).toEqual([]);
       expect(await unlabelled(page)).toEqual([]);
-      fs.mkdirSync(resultsDir, { recursive: true });
-      await saveScreenshot(page, path.join(resultsDir, `band-office-350-${scheme}.png`));
+      fs.mkdirSync(RESULTS_DIR, { recursive: true });
+      await saveScreenshot(page, path.join(RESULTS_DIR, `band-office-350-${scheme}.png`));
       await page.setViewportSize({ width: 700, height: 1600 });
     });
   }

@@ -12,29 +12,13 @@
  *
  * The browser is /usr/bin/chromium or RATCHET_BROWSER (test/e2e/browser.ts).
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import fs from 'node:fs';
+import { describe, expect, it } from 'vitest';
 import ExcelJS from 'exceljs';
 import type { Page } from 'playwright-core';
-import { RUN_BROWSER_TESTS, openBrowserPage, openExcelModePane, type BrowserPage } from './browser.js';
-import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
-import { functionByName } from '../../src/functions/registry.js';
-import type { CellArg, CellOut } from '../../src/functions/types.js';
+import { RUN_BROWSER_TESTS } from './browser.js';
+import { TRIALS, blockPage, invoke, openPreviewPane, openTrialsPane, setValue, snap, usePreviewSite } from './pane.js';
 import type { Snapshot } from '../../taskpane/app.js';
 import { evaluate, type SetupCell } from '../runner/helpers.js';
-
-function invoke(name: string, args: CellArg[]): CellOut[][] | CellOut {
-  return functionByName(name)!.invoke(args);
-}
-
-async function snap(page: Page): Promise<Snapshot> {
-  return page.evaluate(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot());
-}
-
-async function setValue(page: Page, selector: string, value: string): Promise<void> {
-  await page.fill(selector, value);
-  await page.dispatchEvent(selector, 'change');
-}
 
 async function choose(page: Page, selector: string, value: string): Promise<void> {
   await page.selectOption(selector, value);
@@ -46,27 +30,12 @@ const wear = hours.map((h, i) => Number((25 + 0.1 * h + (((i * 7) % 5) - 2) * 0.
 /** The same data as a German-style CSV: semicolons, decimal commas, a title line and a blank line. */
 const wearCsv = `Verschleißprüfung Charge 7\r\n\r\nStunden;Verschleiß (µm)\r\n${hours.map((h, i) => `${h};${wear[i]!.toFixed(1).replace('.', ',')}`).join('\r\n')}\r\n`;
 
-let dir: string | undefined;
-let server: PreviewServer | undefined;
+const site = usePreviewSite();
 const col = (v: readonly number[]): number[][] => v.map((q) => [q]);
 
 describe.skipIf(!RUN_BROWSER_TESTS)('pane: real data in (browser preview)', () => {
-  let page: Page;
-  let browser: BrowserPage | undefined;
   const problems: string[] = [];
-
-  beforeAll(async () => {
-    dir = await buildPreview(undefined, true, ['preview', 'taskpane']);
-    server = await startPreviewServer(dir, 0);
-    browser = await openBrowserPage({ viewport: { width: 900, height: 1400 }, problems });
-    ({ page } = browser);
-    await page.goto(server.url);
-    await page.waitForFunction(() => (document.getElementById('sample') as HTMLSelectElement | null)?.options.length === 5);
-  }, 90_000);
-
-  afterAll(async () => {
-    await browser?.close();
-  });
+  const page = blockPage(() => openPreviewPane(site, { viewport: { width: 900, height: 1400 }, problems }), 90_000);
 
   it('a semicolon CSV with decimal commas opens with a full chart (every row a point, the curve RATCHET.KNOTS), and says how it was read', async () => {
     await page.setInputFiles('#file', { name: 'wear.csv', mimeType: 'text/csv', buffer: Buffer.from(wearCsv) });
@@ -183,31 +152,9 @@ describe.skipIf(!RUN_BROWSER_TESTS)('pane: real data in (browser preview)', () =
 
 /** Excel mode with office.js replaced by the stand-in (test/e2e/office-stub.js). */
 describe.skipIf(!RUN_BROWSER_TESTS)('pane: hand-off actions in Excel mode (office.js stand-in)', () => {
-  let page: Page;
-  let browser: BrowserPage | undefined;
   const problems: string[] = [];
-  const x = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12];
-  const y = [2.1, 2.0, 3.4, 3.1, 4.8, 5.5, 5.2, 6.9, 7.4, 7.1, 8.8, 9.0];
-
-  beforeAll(async () => {
-    if (!server) throw new Error('the preview build did not run');
-    browser = await openExcelModePane({
-      baseUrl: server.url,
-      viewport: { width: 700, height: 1600 },
-      problems,
-      cells: [['Trials', 'A1', 'dose'], ['Trials', 'B1', 'response'], ...x.map((v, i) => ['Trials', `A${i + 2}`, v] as const), ...y.map((v, i) => ['Trials', `B${i + 2}`, v] as const)],
-    });
-    ({ page } = browser);
-    await setValue(page, '#addr-x', 'Trials!A2:A13');
-    await setValue(page, '#addr-y', 'Trials!B2:B13');
-    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().points.length === 12);
-  }, 60_000);
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-    if (dir) fs.rmSync(dir, { recursive: true, force: true });
-  });
+  const { x, y } = TRIALS;
+  const page = blockPage(() => openTrialsPane(site, { viewport: { width: 700, height: 1600 }, problems, x, y, headers: ['dose', 'response'] }), 60_000);
 
   const cellsOf = (sheet: string): Promise<Record<string, { value: unknown; formula?: string }> | null> =>
     page.evaluate((sh) => (window as unknown as { __excelStub: { cellsOf(s: string): Record<string, { value: unknown; formula?: string }> | null } }).__excelStub.cellsOf(sh), sheet);

@@ -17,51 +17,26 @@
  * Sizes 350 × 900 (a typical task pane, common practice) and 1280 × 900, and 320 and 400 px wide, the
  * ends of the pane widths the README promises ("Narrow panes").
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
-import { RUN_BROWSER_TESTS, openBrowserPage, type BrowserPage, saveScreenshot } from './browser.js';
+import { RUN_BROWSER_TESTS, saveScreenshot } from './browser.js';
 import { layoutProblems, unlabelled } from './layout-checks.js';
-import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
+import { RESULTS_DIR, blockPage, openPreviewPane, setValue, snap, usePreviewSite } from './pane.js';
 import type { Snapshot } from '../../taskpane/app.js';
-
-const root = path.resolve(import.meta.dirname, '../..');
-const resultsDir = path.join(root, 'test-results');
-
-async function snap(page: Page): Promise<Snapshot> {
-  return page.evaluate(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot());
-}
-
-async function setValue(page: Page, selector: string, value: string): Promise<void> {
-  await page.fill(selector, value);
-  await page.dispatchEvent(selector, 'change');
-}
 
 async function optionFor(page: Page, id: string, header: string): Promise<string> {
   return page.evaluate(({ id, header }) => [...(document.getElementById(id) as HTMLSelectElement).options].find((o) => o.text.startsWith(`${header} — `))!.value, { id, header });
 }
 
+const site = usePreviewSite();
+
 describe.skipIf(!RUN_BROWSER_TESTS)('the pane at 350 and 1280 px, light and dark (playwright-core + Debian chromium)', () => {
-  let dir: string | undefined;
-  let server: PreviewServer | undefined;
-  let page: Page;
-  let browser: BrowserPage | undefined;
+  const page = blockPage(() => openPreviewPane(site, { viewport: { width: 350, height: 900 } }), 90_000);
 
-  beforeAll(async () => {
-    dir = await buildPreview(undefined, true, ['preview', 'taskpane']);
-    server = await startPreviewServer(dir, 0);
-    browser = await openBrowserPage({ viewport: { width: 350, height: 900 } });
-    ({ page } = browser);
-    await page.goto(server.url);
-    await page.waitForFunction(() => (document.getElementById('sample') as HTMLSelectElement | null)?.options.length === 5);
-    fs.mkdirSync(resultsDir, { recursive: true });
-  }, 90_000);
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-    if (dir) fs.rmSync(dir, { recursive: true, force: true });
+  beforeAll(() => {
+    fs.mkdirSync(RESULTS_DIR, { recursive: true });
   });
 
   it('the coating-cure sample starts y on its named y column (hardness), not on the second column', async () => {
@@ -143,7 +118,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('the pane at 350 and 1280 px, light and dark
       // Hardness rises with both inputs in the sample: the status line says which way 0 chose.
       expect(await page.textContent('#surface-status')).toContain('along oven temp °C picked from the data: rising, along dwell min picked from the data: rising');
       await page.waitForTimeout(150); // charts re-size on the next frame
-      await saveScreenshot(page, path.join(resultsDir, `layout-${width}-${scheme}.png`));
+      await saveScreenshot(page, path.join(RESULTS_DIR, `layout-${width}-${scheme}.png`));
       expect(await layoutProblems(page)).toEqual([]);
       // A 10 × 10 heat-map fits from 350 px up (README, "Narrow panes"); narrower, it may scroll inside its own box.
       const heat = await page.$eval('.heat-scroll', (e) => ({ scroll: e.scrollWidth, client: e.clientWidth }));

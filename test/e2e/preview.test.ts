@@ -9,25 +9,20 @@
  * The browser is /usr/bin/chromium or RATCHET_BROWSER (test/e2e/browser.ts); without one the file
  * is skipped with a notice, except under CI=true, where the run fails (test/global-setup.ts).
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import ExcelJS from 'exceljs';
-import type { Page } from 'playwright-core';
-import { RUN_BROWSER_TESTS, openBrowserPage, type BrowserPage } from './browser.js';
-import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
-import { functionByName } from '../../src/functions/registry.js';
+import { RUN_BROWSER_TESTS, openBrowserPage } from './browser.js';
+import { REPO_ROOT, RESULTS_DIR, TRIALS, blockPage, invoke, openPreviewPane, setValue, snap, usePreviewSite } from './pane.js';
 import { parseCsv } from '../../taskpane/csv.js';
-import type { CellArg, CellOut, CellValueIn } from '../../src/functions/types.js';
+import type { CellValueIn } from '../../src/functions/types.js';
 import type { Snapshot } from '../../taskpane/app.js';
-
-const root = path.resolve(import.meta.dirname, '../..');
-const resultsDir = path.join(root, 'test-results');
 
 /** Columns of a sample's "Data" sheet read in Node, by header name. */
 async function sampleColumns(file: string, xHeader: string, yHeader: string): Promise<{ xs: CellValueIn[][]; ys: CellValueIn[][]; used: number }> {
   const wb = new ExcelJS.Workbook();
-  await wb.xlsx.readFile(path.join(root, 'samples', file));
+  await wb.xlsx.readFile(path.join(REPO_ROOT, 'samples', file));
   const ws = wb.getWorksheet('Data');
   if (!ws) throw new Error(`${file} has no Data sheet`);
   const header = ws.getRow(1);
@@ -54,40 +49,12 @@ async function sampleColumns(file: string, xHeader: string, yHeader: string): Pr
   return { xs, ys, used };
 }
 
-function invoke(name: string, args: CellArg[]): CellOut[][] | CellOut {
-  return functionByName(name)!.invoke(args);
-}
-
-async function snap(page: Page): Promise<Snapshot> {
-  return page.evaluate(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot());
-}
-
-async function setValue(page: Page, selector: string, value: string): Promise<void> {
-  await page.fill(selector, value);
-  await page.dispatchEvent(selector, 'change');
-}
-
-let dir: string | undefined;
-let server: PreviewServer | undefined;
+const site = usePreviewSite();
 
 describe.skipIf(!RUN_BROWSER_TESTS)('browser preview (playwright-core + Debian chromium)', () => {
-  let page: Page;
-  let browser: BrowserPage | undefined;
   const requests: string[] = [];
   const problems: string[] = [];
-
-  beforeAll(async () => {
-    dir = await buildPreview(undefined, true, ['preview', 'taskpane']);
-    server = await startPreviewServer(dir, 0);
-    browser = await openBrowserPage({ viewport: { width: 900, height: 1400 }, acceptDownloads: true, problems, requests });
-    ({ page } = browser);
-    await page.goto(server.url);
-    await page.waitForFunction(() => (document.getElementById('sample') as HTMLSelectElement | null)?.options.length === 5);
-  }, 90_000);
-
-  afterAll(async () => {
-    await browser?.close();
-  });
+  const page = blockPage(() => openPreviewPane(site, { viewport: { width: 900, height: 1400 }, acceptDownloads: true, problems, requests }), 90_000);
 
   it('opens a sample: the chart holds every usable row as a point and the KNOTS table as curve vertices', async () => {
     await page.selectOption('#sample', 'kiln-strength.xlsx');
@@ -124,8 +91,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('browser preview (playwright-core + Debian c
     expect(s.cv!.rows.map((r) => [r.knots, r.cvRmse, r.cvSe, r.cvR2, r.cvMae, r.trainRmse])).toEqual(cv.slice(1));
     expect(s.cv!.points.length).toBe(cv.length - 1);
     expect(await page.textContent('#cv-status')).toContain('one-standard-error rule');
-    fs.mkdirSync(resultsDir, { recursive: true });
-    await page.screenshot({ path: path.join(resultsDir, 'preview-kiln.png'), fullPage: true });
+    fs.mkdirSync(RESULTS_DIR, { recursive: true });
+    await page.screenshot({ path: path.join(RESULTS_DIR, 'preview-kiln.png'), fullPage: true });
   });
 
   it('downloads the knot table as CSV equal to RATCHET.KNOTS', async () => {
@@ -259,13 +226,13 @@ describe.skipIf(!RUN_BROWSER_TESTS)('browser preview (playwright-core + Debian c
       const s = await snap(page);
       expect(s.surface!.formula).toBe(`=RATCHET.GRID(Data!$C$2:$C$49,Data!$A$2:$A$49,Data!$B$2:$B$49,${k1},${k2},1,1)`);
       expect(s.surfaceError).toBeNull();
-      fs.mkdirSync(resultsDir, { recursive: true });
-      if (k1 === 0) await page.locator('#surface').screenshot({ path: path.join(resultsDir, 'preview-surface-classic.png') });
+      fs.mkdirSync(RESULTS_DIR, { recursive: true });
+      if (k1 === 0) await page.locator('#surface').screenshot({ path: path.join(RESULTS_DIR, 'preview-surface-classic.png') });
       if (k1 === 4) {
-        await page.locator('#surface').screenshot({ path: path.join(resultsDir, 'preview-surface.png') });
+        await page.locator('#surface').screenshot({ path: path.join(RESULTS_DIR, 'preview-surface.png') });
         await page.emulateMedia({ colorScheme: 'dark' });
         await page.waitForTimeout(100);
-        await page.locator('#surface').screenshot({ path: path.join(resultsDir, 'preview-surface-dark.png') });
+        await page.locator('#surface').screenshot({ path: path.join(RESULTS_DIR, 'preview-surface-dark.png') });
         await page.emulateMedia({ colorScheme: 'light' });
       }
     }
@@ -291,7 +258,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('browser preview (playwright-core + Debian c
     await page.waitForTimeout(100);
     const bg = await page.evaluate(() => getComputedStyle(document.body).backgroundColor);
     expect(bg).toBe('rgb(24, 24, 27)');
-    await page.screenshot({ path: path.join(resultsDir, 'preview-dark.png'), fullPage: true });
+    await page.screenshot({ path: path.join(RESULTS_DIR, 'preview-dark.png'), fullPage: true });
     await page.emulateMedia({ colorScheme: 'light' });
   });
 
@@ -319,10 +286,10 @@ describe.skipIf(!RUN_BROWSER_TESTS)('browser preview (playwright-core + Debian c
 
   it('sent no request beyond localhost and logged no error or CSP violation', async () => {
     // Even with Office's host parameter in its address, the preview page never asks for office.js.
-    await page.goto(`${server!.url}preview.html?_host_Info=Excel$Win32$16.01$en-US$$$$0`);
+    await page.goto(`${site.url}preview.html?_host_Info=Excel$Win32$16.01$en-US$$$$0`);
     await page.waitForFunction(() => document.getElementById('host')?.textContent?.startsWith('Browser preview'));
     expect(requests.length).toBeGreaterThan(3);
-    const outside = requests.filter((u) => !(u.startsWith(server!.url) || u.startsWith('data:') || u.startsWith('blob:')));
+    const outside = requests.filter((u) => !(u.startsWith(site.url) || u.startsWith('data:') || u.startsWith('blob:')));
     expect(outside).toEqual([]);
     expect(requests.some((u) => u.includes('office.js'))).toBe(false);
     expect(problems).toEqual([]);
@@ -331,20 +298,15 @@ describe.skipIf(!RUN_BROWSER_TESTS)('browser preview (playwright-core + Debian c
 
 /** The Excel side of the pane in a real browser, with office.js replaced by test/e2e/office-stub.js. */
 describe.skipIf(!RUN_BROWSER_TESTS)('task pane in Excel mode (office.js stand-in)', () => {
-  let page: Page;
-  let browser: BrowserPage | undefined;
   const requests: string[] = [];
   const problems: string[] = [];
   const stub = fs.readFileSync(path.join(import.meta.dirname, 'office-stub.js'), 'utf8');
   // Invented data: 12 rows on sheet "Trials", and a table "Assay" at D1:E7.
-  const x = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12];
-  const y = [2.1, 2.0, 3.4, 3.1, 4.8, 5.5, 5.2, 6.9, 7.4, 7.1, 8.8, 9.0];
+  const { x, y } = TRIALS;
+  const page = blockPage(() => openBrowserPage({ viewport: { width: 700, height: 1600 }, officeStub: stub, problems, requests }), 60_000);
 
   beforeAll(async () => {
-    if (!server) throw new Error('the preview build did not run');
-    browser = await openBrowserPage({ viewport: { width: 700, height: 1600 }, officeStub: stub, problems, requests });
-    ({ page } = browser);
-    await page.goto(`${server.url}taskpane.html?_host_Info=Excel$Win32$16.01$en-US$$$$0`);
+    await page.goto(`${site.url}taskpane.html?_host_Info=Excel$Win32$16.01$en-US$$$$0`);
     await page.waitForFunction(() => document.getElementById('host')?.textContent?.startsWith('Running in Excel'));
     await page.evaluate(
       ({ x, y }) => {
@@ -362,12 +324,6 @@ describe.skipIf(!RUN_BROWSER_TESTS)('task pane in Excel mode (office.js stand-in
       { x, y },
     );
   }, 60_000);
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-    if (dir) fs.rmSync(dir, { recursive: true, force: true });
-  });
 
   const stubCall = <T>(fn: string, ...args: unknown[]): Promise<T> =>
     page.evaluate(({ fn, args }) => (window as unknown as { __excelStub: Record<string, (...a: unknown[]) => T> }).__excelStub[fn]!(...args), { fn, args });
@@ -409,8 +365,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('task pane in Excel mode (office.js stand-in
     await page.waitForSelector('#confirm:not([hidden])');
     expect(await page.textContent('#confirm-text')).toBe('The result needs 3 × 2 cells (Trials!H2:I4), but 2 are not empty: H2, I4. Overwrite them?');
     expect(await page.evaluate(() => document.activeElement?.id)).toBe('confirm-no');
-    fs.mkdirSync(resultsDir, { recursive: true });
-    await page.screenshot({ path: path.join(resultsDir, 'office-confirm.png'), fullPage: true });
+    fs.mkdirSync(RESULTS_DIR, { recursive: true });
+    await page.screenshot({ path: path.join(RESULTS_DIR, 'office-confirm.png'), fullPage: true });
     await page.keyboard.press('Enter'); // "Keep the cells"
     await page.waitForFunction(() => /Nothing was written/.test(document.getElementById('insert-status')?.textContent ?? ''));
     expect(await stubCall('get', 'Trials', 'I4')).toEqual({ value: 'note' });
@@ -460,11 +416,11 @@ describe.skipIf(!RUN_BROWSER_TESTS)('task pane in Excel mode (office.js stand-in
     await page.click('#insert-grid');
     await page.waitForFunction(() => /Inserted/.test(document.getElementById('insert-status')?.textContent ?? ''));
     expect((await stubCall<{ formula: string }>('get', 'Trials', 'M2')).formula).toBe('=RATCHET.GRID(Trials!$B$2:$B$13,Trials!$A$2:$A$13,Trials!$C$2:$C$13,3,2,1,1)');
-    await page.screenshot({ path: path.join(resultsDir, 'office-surface.png'), fullPage: true });
+    await page.screenshot({ path: path.join(RESULTS_DIR, 'office-surface.png'), fullPage: true });
   });
 
   it('requested office.js only because it is hosted (served by the stand-in), nothing else outside localhost, no errors', () => {
-    const outside = requests.filter((u) => !(u.startsWith(server!.url) || u.startsWith('data:') || u.startsWith('blob:')));
+    const outside = requests.filter((u) => !(u.startsWith(site.url) || u.startsWith('data:') || u.startsWith('blob:')));
     expect(outside).toEqual(['https://appsforoffice.microsoft.com/lib/1/hosted/office.js']);
     expect(problems).toEqual([]);
   });

@@ -13,32 +13,15 @@
  *   and the chart keeps the last good fit, greyed, until the field is fixed;
  * - in Excel mode the insert action writes the formula with the curvature and degree arguments.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
-import { RUN_BROWSER_TESTS, openBrowserPage, openExcelModePane, type BrowserPage } from './browser.js';
-import { buildPreview, startPreviewServer, type PreviewServer } from '../../taskpane/preview-server.js';
-import { functionByName } from '../../src/functions/registry.js';
+import { RUN_BROWSER_TESTS } from './browser.js';
+import { RESULTS_DIR, blockPage, invoke, openPreviewPane, openTrialsPane, setValue, snap, usePreviewSite } from './pane.js';
 import { mapError } from '../../src/adapter/errors.js';
 import type { CellArg, CellResult, CellValueIn } from '../../src/functions/types.js';
 import type { Snapshot } from '../../taskpane/app.js';
-
-const root = path.resolve(import.meta.dirname, '../..');
-const resultsDir = path.join(root, 'test-results');
-
-async function snap(page: Page): Promise<Snapshot> {
-  return page.evaluate(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot());
-}
-
-async function setValue(page: Page, selector: string, value: string): Promise<void> {
-  await page.fill(selector, value);
-  await page.dispatchEvent(selector, 'change');
-}
-
-function invoke(name: string, args: CellArg[]): CellResult {
-  return functionByName(name)!.invoke(args);
-}
 
 const rows = (r: CellResult): number[][] => (Array.isArray(r) ? r : [[r]]) as number[][];
 
@@ -72,23 +55,15 @@ async function shapeFieldProblems(page: Page): Promise<string[]> {
   });
 }
 
-let dir: string | undefined;
-let server: PreviewServer | undefined;
+const site = usePreviewSite();
 
 describe.skipIf(!RUN_BROWSER_TESTS)('shape controls in the browser preview (kiln-strength sample)', () => {
-  let page: Page;
-  let browser: BrowserPage | undefined;
   const problems: string[] = [];
   let xs: CellValueIn[][] = [];
   let ys: CellValueIn[][] = [];
+  const page = blockPage(() => openPreviewPane(site, { viewport: { width: 350, height: 900 }, problems }), 90_000);
 
   beforeAll(async () => {
-    dir = await buildPreview(undefined, true, ['preview', 'taskpane']);
-    server = await startPreviewServer(dir, 0);
-    browser = await openBrowserPage({ viewport: { width: 350, height: 900 }, problems });
-    ({ page } = browser);
-    await page.goto(server.url);
-    await page.waitForFunction(() => (document.getElementById('sample') as HTMLSelectElement | null)?.options.length === 5);
     await page.selectOption('#sample', 'kiln-strength.xlsx');
     await page.click('#sample-open');
     await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().points.length > 0);
@@ -96,12 +71,8 @@ describe.skipIf(!RUN_BROWSER_TESTS)('shape controls in the browser preview (kiln
     // The data the pane fits, as cells; the expected values are computed from them in Node.
     xs = s.data!.x.map((v) => [v as CellValueIn]);
     ys = s.data!.y.map((v) => [v as CellValueIn]);
-    fs.mkdirSync(resultsDir, { recursive: true });
-  }, 90_000);
-
-  afterAll(async () => {
-    await browser?.close();
-  });
+    fs.mkdirSync(RESULTS_DIR, { recursive: true });
+  }, 60_000);
 
   const waitCurve = (n: number): Promise<unknown> =>
     page.waitForFunction((k) => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().curve.length === k, n);
@@ -112,7 +83,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('shape controls in the browser preview (kiln
   ])('at %i × %i the curvature and degree controls are labelled, not clipped, and nothing scrolls sideways', async (width, height) => {
     await page.setViewportSize({ width, height });
     expect(await shapeFieldProblems(page)).toEqual([]);
-    await page.locator('#curvature').screenshot({ path: path.join(resultsDir, `shapes-curvature-${width}.png`) });
+    await page.locator('#curvature').screenshot({ path: path.join(RESULTS_DIR, `shapes-curvature-${width}.png`) });
   });
 
   it.each([
@@ -159,7 +130,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('shape controls in the browser preview (kiln
     expect(summary).toContain('5 knots');
     if (curvature === -1) expect(summary).toContain('concave');
     if (smooth) expect(summary).toContain('smooth');
-    await page.screenshot({ path: path.join(resultsDir, `shapes-${cText}-${dText}-350.png`), fullPage: false, clip: (await page.locator('#fit').boundingBox())! });
+    await page.screenshot({ path: path.join(RESULTS_DIR, `shapes-${cText}-${dText}-350.png`), fullPage: false, clip: (await page.locator('#fit').boundingBox())! });
   });
 
   it('the classic fit with a curvature shows the function’s message at the curvature field; the chart keeps the last good fit, greyed', async () => {
@@ -193,7 +164,7 @@ describe.skipIf(!RUN_BROWSER_TESTS)('shape controls in the browser preview (kiln
     expect(await page.textContent('#fit-status')).toContain('last good fit, greyed');
     expect(await page.textContent('#fit-chart-summary')).toMatch(/^Last good fit/);
     expect(await shapeFieldProblems(page)).toEqual([]);
-    await page.screenshot({ path: path.join(resultsDir, 'shapes-refused-350.png'), clip: (await page.locator('#fit').boundingBox())! });
+    await page.screenshot({ path: path.join(RESULTS_DIR, 'shapes-refused-350.png'), clip: (await page.locator('#fit').boundingBox())! });
     await page.setViewportSize({ width: 1280, height: 900 });
     expect(await shapeFieldProblems(page)).toEqual([]);
     await page.setViewportSize({ width: 350, height: 900 });
@@ -237,32 +208,11 @@ describe.skipIf(!RUN_BROWSER_TESTS)('shape controls in the browser preview (kiln
 
 /** Excel mode with office.js replaced by the stand-in (test/e2e/office-stub.js). */
 describe.skipIf(!RUN_BROWSER_TESTS)('shape controls in Excel mode (office.js stand-in)', () => {
-  let page: Page;
-  let browser: BrowserPage | undefined;
   const problems: string[] = [];
   // Invented data: a rising response that levels off.
   const x = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12];
   const y = [2.1, 4.0, 5.2, 6.9, 7.1, 8.4, 8.2, 9.0, 9.4, 9.3, 9.8, 9.9];
-
-  beforeAll(async () => {
-    if (!server) throw new Error('the preview build did not run');
-    browser = await openExcelModePane({
-      baseUrl: server.url,
-      viewport: { width: 350, height: 900 },
-      problems,
-      cells: [...x.map((v, i) => ['Trials', `A${i + 2}`, v] as const), ...y.map((v, i) => ['Trials', `B${i + 2}`, v] as const)],
-    });
-    ({ page } = browser);
-    await setValue(page, '#addr-x', 'Trials!A2:A13');
-    await setValue(page, '#addr-y', 'Trials!B2:B13');
-    await page.waitForFunction(() => (window as unknown as { __ratchetTest: { snapshot(): Snapshot } }).__ratchetTest.snapshot().points.length === 12);
-  }, 60_000);
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-    if (dir) fs.rmSync(dir, { recursive: true, force: true });
-  });
+  const page = blockPage(() => openTrialsPane(site, { viewport: { width: 350, height: 900 }, problems, x, y }), 60_000);
 
   it('at 350 and 1280 px the controls show in Excel mode, labelled and unclipped', async () => {
     for (const width of [350, 1280]) {
