@@ -39,28 +39,64 @@ function child(args: string[]): string {
   return execFileSync(process.execPath, [...process.execArgv, join(import.meta.dirname, 'runner-child.ts'), ...args], { encoding: 'utf8', maxBuffer: 1 << 20 }).trim();
 }
 
+/** One read of a scale file by bench/runner-child.ts (see there). */
+interface ScaleRead {
+  readMs: number;
+  evaluateMs: number;
+  fitRows: number;
+  ratchetCalls: number;
+  maxRssMB: number;
+}
+
+/** Minimum and median of some numbers. */
+function minMedian(v: number[]): { min: number; median: number } {
+  const s = [...v].sort((p, q) => p - q);
+  return { min: s[0]!, median: s[Math.floor(s.length / 2)]! };
+}
+
 /**
  * The scale case, as `npm run sheet` meets it: the workbook of bench/runner-child.ts written to an
  * .xlsx file at two sizes, each read and evaluated by `EvaluatedWorkbook.fromFile` in a fresh
- * process (peak memory per size). Reports the evaluation (cells to evaluated engine), the reading
- * (exceljs's parse), their ratios between the sizes, and the peak memory.
+ * process (peak memory per size), three times per size in alternating order (small, large,
+ * small, …): a single read of the small file moves by ±25 % from one process to the next, which
+ * moved the ratio between the sizes by as much. Reports for each size the minimum and median of
+ * the evaluation (cells to evaluated engine) and of the reading (exceljs's parse), the ratios of
+ * the minima and of the medians between the sizes, and the largest peak memory.
  */
 async function runScale(emit: (r: BenchRecord) => void, quick: boolean): Promise<void> {
-  const [small, large] = quick ? [10000, 100000] : [100000, 1048576];
+  const sizes = quick ? [10000, 100000] : [100000, 1048576];
+  const rounds = 3;
   const dir = mkdtempSync(join(tmpdir(), 'ratchet-bench-'));
   try {
-    const runs: { readMs: number; evaluateMs: number }[] = [];
-    for (const n of [small, large]) {
-      const file = join(dir, `scale-${n}.xlsx`);
-      child(['write', String(n), file]);
-      const r = JSON.parse(child(['read', file])) as { readMs: number; evaluateMs: number; fitRows: number; ratchetCalls: number; maxRssMB: number };
-      runs.push(r);
+    const files = sizes.map((n) => join(dir, `scale-${n}.xlsx`));
+    sizes.forEach((n, i) => child(['write', String(n), files[i]!]));
+    const reads: ScaleRead[][] = sizes.map(() => []);
+    for (let r = 0; r < rounds; r++) sizes.forEach((_, i) => reads[i]!.push(JSON.parse(child(['read', files[i]!])) as ScaleRead));
+    const evaluate = reads.map((rs) => minMedian(rs.map((r) => r.evaluateMs)));
+    const read = reads.map((rs) => minMedian(rs.map((r) => r.readMs)));
+    sizes.forEach((n, i) => {
+      const rs = reads[i]!;
       // ratchetCalls 4: each result was sized before the build and evaluated once (presize.ts).
-      emit({ case: 'runner: FIT+KNOTS+STATS+PREDICT, data read only by them (evaluate)', n, knots: '0/8', ms: r.evaluateMs, readMs: r.readMs, fitRows: r.fitRows, ratchetCalls: r.ratchetCalls, maxRssMB: r.maxRssMB, goalMs: quick ? '-' : 30000, goalMaxRssMB: quick ? '-' : 4096 });
-    }
-    const [s, l] = runs as [(typeof runs)[0], (typeof runs)[0]];
-    emit({ case: `runner: evaluate, ratio ${large} / ${small} rows`, n: large, knots: '0/8', ms: l.evaluateMs - s.evaluateMs, ratio: l.evaluateMs / s.evaluateMs, rowsRatio: large / small, goal: 12 });
-    emit({ case: `runner: read .xlsx, ratio ${large} / ${small} rows`, n: large, knots: '-', ms: l.readMs - s.readMs, ratio: l.readMs / s.readMs, rowsRatio: large / small });
+      emit({
+        case: 'runner: FIT+KNOTS+STATS+PREDICT, data read only by them (evaluate)',
+        n,
+        knots: '0/8',
+        ms: evaluate[i]!.min,
+        median_ms: evaluate[i]!.median,
+        readMs: read[i]!.min,
+        readMedianMs: read[i]!.median,
+        fitRows: rs[0]!.fitRows,
+        ratchetCalls: rs[0]!.ratchetCalls,
+        maxRssMB: Math.max(...rs.map((r) => r.maxRssMB)),
+        goalMs: quick ? '-' : 30000,
+        goalMaxRssMB: quick ? '-' : 4096,
+      });
+    });
+    const [small, large] = sizes as [number, number];
+    const [es, el] = evaluate as [{ min: number; median: number }, { min: number; median: number }];
+    const [rs, rl] = read as [{ min: number; median: number }, { min: number; median: number }];
+    emit({ case: `runner: evaluate, ratio ${large} / ${small} rows`, n: large, knots: '0/8', ms: el.min - es.min, ratio: el.min / es.min, ratio_median: el.median / es.median, rowsRatio: large / small, goal: 12 });
+    emit({ case: `runner: read .xlsx, ratio ${large} / ${small} rows`, n: large, knots: '-', ms: rl.min - rs.min, ratio: rl.min / rs.min, ratio_median: rl.median / rs.median, rowsRatio: large / small });
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
