@@ -41,25 +41,38 @@ describe('sortOrder', () => {
     expect(Array.from(sortOrder(v))).toEqual(referenceOrder(v));
   });
 
-  // The radix passes order by the keys' high 32 bits (sign, exponent, 20 mantissa bits); runs of
-  // equal high words are then ordered by the low word: insertion up to 32 rows, radix passes
-  // (8-bit digits below 65,536 rows, 16-bit from there) beyond. These inputs reach each path.
-  it.each([
-    ['one high word, 8-bit low passes', 1000, 1e-9],
-    ['one high word, 16-bit low passes', 70000, 1e-9],
-    ['runs of about 40 rows sharing a high word', 20000, 5e-4],
-    ['runs of a few rows sharing a high word', 20000, 1e-2],
-  ])('matches the definition when values share their high 32 bits: %s (n = %i, spread %d)', (_name, n, spread) => {
+  // When the high 32 bits of the keys (sign, exponent, 20 mantissa bits) take many values, the
+  // radix passes order by them only and each run of equal high words is then ordered by the low
+  // word: insertion up to 32 rows, radix passes beyond (8-bit digits below 65,536 rows, 16-bit
+  // from there). Otherwise every digit is sorted. These inputs reach each path; every 97th row
+  // repeats an earlier value (ties inside a run keep their input order), and each input is also
+  // checked negated.
+  const sharing = (n: number, spread: number, cluster = 0): Float64Array => {
     let s = n >>> 0;
-    const v = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
-      // Values in [1, 1 + spread): a high word covers 2⁻²⁰ ≈ 9.5e-7 of that range, and every
-      // 97th row repeats an earlier value (ties inside a run keep their input order).
-      v[i] = i % 97 === 96 ? v[i - 50]! : 1 + spread * (s / 4294967296);
+    const v = new Float64Array(n + cluster);
+    const r = (): number => (s = (Math.imul(s, 1664525) + 1013904223) >>> 0) / 4294967296;
+    // Values in [1, 1 + spread): a high word covers 2⁻²⁰ ≈ 9.5e-7 of that range.
+    for (let i = 0; i < n; i++) v[i] = i % 97 === 96 ? v[i - 50]! : 1 + spread * r();
+    // A cluster of rows inside one high word ([3, 3 + 2⁻²²)), shuffled among the others.
+    for (let i = n; i < n + cluster; i++) v[i] = i % 97 === 96 ? v[i - 50]! : 3 + 2 ** -22 * r();
+    for (let i = v.length - 1; i > 0; i--) {
+      const j = Math.floor(r() * (i + 1));
+      [v[i], v[j]] = [v[j]!, v[i]!];
     }
+    return v;
+  };
+  it.each([
+    ['every digit sorted: values within 1e-9 of each other (one high word)', 1000, 1e-9, 0],
+    ['every digit sorted, 16-bit digits, one high word', 70000, 1e-9, 0],
+    ['every digit sorted: runs of about 40 rows sharing a high word', 20000, 5e-4, 0],
+    ['by the high word, runs of a few rows ordered by insertion', 20000, 1e-1, 0],
+    ['by the high word, and a run of 300 rows ordered by 8-bit radix passes', 20000, 1e-1, 300],
+    ['by the high word, and a run of 70,000 rows ordered by 16-bit radix passes', 300000, 1, 70000],
+  ])('matches the definition: %s (n = %i, spread %d, cluster %i)', (_name, n, spread, cluster) => {
+    const v = sharing(n, spread, cluster);
     expect(Array.from(sortOrder(v))).toEqual(referenceOrder(v));
-    expect(Array.from(sortOrder(v.map((t) => -t)))).toEqual(referenceOrder(v.map((t) => -t)));
+    const w = v.map((t) => -t);
+    expect(Array.from(sortOrder(w))).toEqual(referenceOrder(w));
   });
 
   it('returns the identity for sorted input and treats −0 as +0', () => {
