@@ -122,17 +122,7 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
   }
   // Exclusive prefix sums; a pass whose digit is the same for every element is skipped.
   const run: number[] = [];
-  for (let p = byHighWord ? perWord : 0; p < passes; p++) {
-    let sum = 0;
-    let nonEmpty = 0;
-    for (let b = p * buckets, end = b + buckets; b < end; b++) {
-      const k = counts[b]!;
-      if (k !== 0) nonEmpty++;
-      counts[b] = sum;
-      sum += k;
-    }
-    if (nonEmpty > 1) run.push(p);
-  }
+  for (let p = byHighWord ? perWord : 0; p < passes; p++) if (startsOf(counts, p * buckets, buckets, 0) > 1) run.push(p);
   // Stable scatter passes that carry the keys along with the indices, so every pass reads its
   // input sequentially (gathering keys through the permutation would miss the cache). The first
   // pass takes the indices from its loop counter; the last decodes the keys as it writes them
@@ -244,15 +234,7 @@ function radixRunByLow(key: Uint32Array, idx: Uint32Array, s: number, e: number,
   let toKey = spareKey;
   let toIdx = spareIdx;
   for (let p = 0; p < passes; p++) {
-    let sum = s;
-    let nonEmpty = 0;
-    for (let b = p * buckets, end = b + buckets; b < end; b++) {
-      const k = counts[b]!;
-      if (k !== 0) nonEmpty++;
-      counts[b] = sum;
-      sum += k;
-    }
-    if (nonEmpty < 2) continue;
+    if (startsOf(counts, p * buckets, buckets, s) < 2) continue;
     const base = p * buckets;
     const shift = p * bits;
     for (let i = s; i < e; i++) {
@@ -269,6 +251,22 @@ function radixRunByLow(key: Uint32Array, idx: Uint32Array, s: number, e: number,
     key.set(fromKey.subarray(2 * s, 2 * e), 2 * s);
     idx.set(fromIdx.subarray(s, e), s);
   }
+}
+
+/**
+ * Turns the counts `counts[base … base + size − 1]` into exclusive prefix sums starting at
+ * `first` (each bucket's first position), in place; returns how many counts were non-zero.
+ */
+function startsOf(counts: Uint32Array, base: number, size: number, first: number): number {
+  let sum = first;
+  let nonEmpty = 0;
+  for (let b = base, end = base + size; b < end; b++) {
+    const k = counts[b]!;
+    if (k !== 0) nonEmpty++;
+    counts[b] = sum;
+    sum += k;
+  }
+  return nonEmpty;
 }
 
 /** The number of non-zero counts among `counts[base … base + size − 1]`. */
