@@ -26,6 +26,7 @@ suppressPackageStartupMessages({
   library(splines)
 })
 source(file.path("test", "reference", "json_writer.R"))
+source(file.path("test", "reference", "band_helpers.R"))
 
 versions <- list(
   R = R.version.string,
@@ -52,28 +53,9 @@ hat_matrix <- function(x, t) {
   xc <- pmin(pmax(x, t[1]), t[K])
   sapply(seq_len(K), function(j) approx(t, as.numeric(seq_len(K) == j), xout = xc)$y)
 }
-band_rows <- function(fit, newdata, levels) {
-  weights_new <- rep(1, nrow(newdata)) # a new observation of weight 1
-  out <- list()
-  for (lev in levels) {
-    conf <- predict(fit, newdata, interval = "confidence", level = lev)
-    pred <- predict(fit, newdata, interval = "prediction", level = lev, weights = weights_new)
-    out[[length(out) + 1]] <- list(
-      level = lev,
-      fit = jarr(unname(conf[, "fit"])),
-      conf_lower = jarr(unname(conf[, "lwr"])), conf_upper = jarr(unname(conf[, "upr"])),
-      pred_lower = jarr(unname(pred[, "lwr"])), pred_upper = jarr(unname(pred[, "upr"]))
-    )
-  }
-  out
-}
 dataset <- function(frame, xcol, ycol) {
   d <- get(frame)
   list(x = d[[xcol]], y = d[[ycol]], source = paste0("R datasets::", frame, " (", ycol, " ~ ", xcol, ")"))
-}
-seeded_weights <- function(n, seed) {
-  set.seed(seed)
-  round(runif(n, 0.5, 3), 3)
 }
 
 # ---------------------------------------------------------------- knots = 2: straight line

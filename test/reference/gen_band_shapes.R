@@ -36,6 +36,7 @@ suppressPackageStartupMessages({
   library(splines)
 })
 source(file.path("test", "reference", "json_writer.R"))
+source(file.path("test", "reference", "band_helpers.R"))
 
 versions <- list(
   R = R.version.string,
@@ -49,10 +50,6 @@ active_tol <- 1e-9 # relative slack at or below which a row counts as active
 inactive_min <- 1e-6 # relative slack every inactive row must exceed
 multiplier_min <- 1e-8 # relative multiplier every active row must exceed
 
-seeded_weights <- function(n, seed) {
-  set.seed(seed)
-  round(runif(n, 0.5, 3), 3)
-}
 # Hat functions (degree 1) or the K + 1 quadratic B-splines (degree 2) on the clamped knot
 # sequence, x clamped to [t1, tK] (beyond the end knots the curve and its band are the end value's).
 design <- function(x, t, degree) {
@@ -90,44 +87,8 @@ null_space <- function(A, m) {
   stopifnot(q$rank == nrow(A)) # the active rows are independent
   qr.Q(q, complete = TRUE)[, (nrow(A) + 1):m, drop = FALSE]
 }
-band_rows <- function(fit, newdata, levels) {
-  out <- list()
-  for (lev in levels) {
-    conf <- predict(fit, newdata, interval = "confidence", level = lev)
-    pred <- predict(fit, newdata, interval = "prediction", level = lev, weights = rep(1, nrow(newdata)))
-    out[[length(out) + 1]] <- list(
-      level = lev,
-      fit = jarr(unname(conf[, "fit"])),
-      conf_lower = jarr(unname(conf[, "lwr"])), conf_upper = jarr(unname(conf[, "upr"])),
-      pred_lower = jarr(unname(pred[, "lwr"])), pred_upper = jarr(unname(pred[, "upr"]))
-    )
-  }
-  out
-}
 invert_rows <- function(fit, Z, t, degree, x, targets, level, m) {
-  V <- vcov(fit)
-  beta <- coef(fit)
-  s2 <- summary(fit)$sigma^2
-  tq <- qt((1 + level) / 2, fit$df.residual)
-  f <- function(u) as.numeric(design(u, t, degree) %*% Z %*% beta)
-  se <- function(u) { X0 <- design(u, t, degree) %*% Z; sqrt(rowSums((X0 %*% V) * X0) + s2 / m) }
-  g <- function(u, y0) abs(f(u) - y0) - tq * se(u)
-  lo <- min(x)
-  hi <- max(x)
-  step <- (hi - lo) / 4000
-  lapply(targets, function(y0) {
-    x0 <- uniroot(function(u) f(u) - y0, c(t[1], t[length(t)]), tol = 1e-14)$root
-    limit <- function(dir) {
-      a <- x0
-      repeat {
-        b <- if (dir > 0) min(a + step, hi) else max(a - step, lo)
-        if (g(b, y0) > 0) return(uniroot(function(u) g(u, y0), sort(c(a, b)), tol = 1e-14)$root)
-        if (b == (if (dir > 0) hi else lo)) return(NULL)
-        a <- b
-      }
-    }
-    list(target = y0, lower = limit(-1), x = x0, upper = limit(1))
-  })
+  readback_rows(fit, Z, function(u) design(u, t, degree), c(t[1], t[length(t)]), x, targets, level, m)
 }
 
 solve_case <- function(cs) {

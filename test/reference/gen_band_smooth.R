@@ -24,6 +24,7 @@ suppressPackageStartupMessages({
   library(splines)
 })
 source(file.path("test", "reference", "json_writer.R"))
+source(file.path("test", "reference", "band_helpers.R"))
 
 versions <- list(
   R = R.version.string,
@@ -34,54 +35,14 @@ versions <- list(
 )
 command <- "Rscript test/reference/gen_band_smooth.R"
 
-seeded_weights <- function(n, seed) {
-  set.seed(seed)
-  round(runif(n, 0.5, 3), 3)
-}
 design <- function(x, t) {
   # The K + 1 quadratic B-splines on the clamped knot sequence, x clamped to [t1, tK].
   K <- length(t)
   ext <- c(t[1], t[1], t[1], t[-c(1, K)], t[K], t[K], t[K])
   splineDesign(ext, pmin(pmax(x, t[1]), t[K]), ord = 3)
 }
-band_rows <- function(fit, newdata, levels) {
-  out <- list()
-  for (lev in levels) {
-    conf <- predict(fit, newdata, interval = "confidence", level = lev)
-    pred <- predict(fit, newdata, interval = "prediction", level = lev, weights = rep(1, nrow(newdata)))
-    out[[length(out) + 1]] <- list(
-      level = lev,
-      fit = jarr(unname(conf[, "fit"])),
-      conf_lower = jarr(unname(conf[, "lwr"])), conf_upper = jarr(unname(conf[, "upr"])),
-      pred_lower = jarr(unname(pred[, "lwr"])), pred_upper = jarr(unname(pred[, "upr"]))
-    )
-  }
-  out
-}
 invert_rows <- function(fit, Z, t, x, targets, level, m) {
-  V <- vcov(fit)
-  beta <- coef(fit)
-  s2 <- summary(fit)$sigma^2
-  tq <- qt((1 + level) / 2, fit$df.residual)
-  f <- function(u) as.numeric(design(u, t) %*% Z %*% beta)
-  se <- function(u) { X0 <- design(u, t) %*% Z; sqrt(rowSums((X0 %*% V) * X0) + s2 / m) }
-  g <- function(u, y0) abs(f(u) - y0) - tq * se(u)
-  lo <- min(x)
-  hi <- max(x)
-  step <- (hi - lo) / 4000
-  lapply(targets, function(y0) {
-    x0 <- uniroot(function(u) f(u) - y0, c(t[1], t[length(t)]), tol = 1e-14)$root
-    limit <- function(dir) {
-      a <- x0
-      repeat {
-        b <- if (dir > 0) min(a + step, hi) else max(a - step, lo)
-        if (g(b, y0) > 0) return(uniroot(function(u) g(u, y0), sort(c(a, b)), tol = 1e-14)$root)
-        if (b == (if (dir > 0) hi else lo)) return(NULL)
-        a <- b
-      }
-    }
-    list(target = y0, lower = limit(-1), x = x0, upper = limit(1))
-  })
+  readback_rows(fit, Z, function(u) design(u, t), c(t[1], t[length(t)]), x, targets, level, m)
 }
 
 # ---------------------------------------------------------------- no active constraint
