@@ -106,8 +106,8 @@ export function sortRows(values: ArrayLike<number>, withSorted: boolean): Sorted
     for (let p = 0; p < perWord; p++) counts[(p + perWord) * buckets + ((h >>> (p * bits)) & mask)]!++;
   }
   // The product of the high word's non-empty buckets bounds the number of distinct high words.
-  // When rows sharing a high word are few on average (at most SHORT_RUNS; values spread over more
-  // than a few parts in a thousand), sort by the high word's digits only and then order each run
+  // When rows sharing a high word are few on average by that bound (at most SHORT_RUNS: random
+  // data of 10⁵ rows, widely spread data of 10⁶), sort by the high word's digits only and then order each run
   // of equal high words by the low word (orderRuns): half the scatter passes. Otherwise the runs
   // would be long enough for per-run sorting to cost more than the low passes: all digits, the
   // low word's histograms counted in a pass of their own.
