@@ -23,6 +23,26 @@ export interface InvertSet {
   intervals: { target: number; lower: number | null; x: number; upper: number | null }[];
 }
 
+/**
+ * The fields a reduced-design band case of the smooth and shaped fixtures shares: the data, R's
+ * coefficients and fit summary on the reduced design, and its bands and read-back sets.
+ */
+export interface ReducedDesignCase {
+  name: string;
+  source: string;
+  knot_x: number[];
+  x: number[];
+  y: number[];
+  w?: number[] | null;
+  coefficients: number[];
+  parameters: number;
+  sigma: number;
+  df_resid: number;
+  new_x: number[];
+  bands: BandRow[];
+  invert: InvertSet[];
+}
+
 /** The model's confidence and prediction bands at `newX` against every row, entrywise to `rel` relative. */
 export function expectBandRows(model: BandModel, newX: readonly number[], rows: readonly BandRow[], rel = 1e-9): void {
   for (const row of rows) {

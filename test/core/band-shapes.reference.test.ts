@@ -15,31 +15,18 @@ import { describe, expect, it } from 'vitest';
 import { fitShapedBandModel, type Curvature, type Degree } from '../../src/core/index.js';
 import { shapeRegression } from '../../src/core/shape-fit.js';
 import { type Direction } from '../../src/core/types.js';
-import { expectBandRows, expectInvertSets, type BandRow, type InvertSet } from './band-fixture-checks.js';
+import { expectBandRows, expectInvertSets, type ReducedDesignCase } from './band-fixture-checks.js';
 
-interface ShapeBandCase {
-  name: string;
-  source: string;
+interface ShapeBandCase extends ReducedDesignCase {
   invented: boolean;
   note: string;
   direction: Direction;
   curvature: Curvature;
   degree: Degree;
-  knot_x: number[];
-  x: number[];
-  y: number[];
-  w?: number[] | null;
-  coefficients: number[];
   constraint_rows: number;
   active: number[];
   active_shape: number;
   active_sign: boolean;
-  parameters: number;
-  sigma: number;
-  df_resid: number;
-  new_x: number[];
-  bands: BandRow[];
-  invert: InvertSet[];
 }
 interface ShapeBandFixture {
   command: string;

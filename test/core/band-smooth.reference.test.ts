@@ -8,23 +8,10 @@ import { describe, expect, it } from 'vitest';
 import { fitShapedBandModel } from '../../src/core/index.js';
 import { shapeRegression } from '../../src/core/shape-fit.js';
 import { touchingBandSpecs } from './touching-band.js';
-import { expectBandRows, expectInvertSets, type BandRow, type InvertSet } from './band-fixture-checks.js';
+import { expectBandRows, expectInvertSets, type ReducedDesignCase } from './band-fixture-checks.js';
 
-interface SmoothCase {
-  name: string;
-  source: string;
-  knot_x: number[];
-  x: number[];
-  y: number[];
-  w?: number[] | null;
-  coefficients: number[];
+interface SmoothCase extends ReducedDesignCase {
   groups?: number[];
-  parameters: number;
-  sigma: number;
-  df_resid: number;
-  new_x: number[];
-  bands: BandRow[];
-  invert: InvertSet[];
 }
 interface SmoothFixture {
   command: string;
